@@ -1,0 +1,10 @@
+import { defineConfig } from 'drizzle-kit';
+
+export default defineConfig({
+	schema: './src/lib/server/db/schema.ts',
+	out: './drizzle',
+	dialect: 'postgresql',
+	dbCredentials: { url: process.env.DATABASE_URL ?? 'postgres://localhost/benchcall' },
+	strict: true,
+	verbose: true
+});

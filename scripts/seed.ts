@@ -1,0 +1,877 @@
+// Seeds the demo shop: an invented workshop, staff, customers, motorcycles, procedures with
+// demo specs (not from any maker's manual), a price list, torque tools and jobs in several
+// states with some log entries. Run by `npm start` and `npm test` on an empty database.
+import { drizzle } from 'drizzle-orm/postgres-js';
+import postgres from 'postgres';
+import * as s from '../src/lib/server/db/schema.ts';
+import { hashPassword } from '../src/lib/server/password.ts';
+import {
+	demoAccounts,
+	demoPassword,
+	demoShopName,
+	otherAccounts,
+	otherShopName
+} from './lib/demo.js';
+
+const url = process.env.DATABASE_URL;
+if (!url) {
+	console.error('DATABASE_URL is not set.');
+	process.exit(2);
+}
+const client = postgres(url, { max: 1, onnotice: () => {} });
+const db = drizzle(client, { schema: s });
+
+const C = {
+	lift: 'Support the motorcycle securely on a stand. Take the engine weight on a jack or engine stand and lift and align it with a helper; keep fingers out of mounting holes while aligning.',
+	exhaust:
+		'Exhaust and engine stay hot after running: let them cool before touching. Exhaust gas contains carbon monoxide: run the engine only with good ventilation or exhaust extraction, never in a closed room.',
+	fuel: 'Petrol is highly flammable and its vapour explosive: no flames or sparks, wipe spills, keep fuel away from the hot exhaust.',
+	battery:
+		'Battery: disconnect the negative terminal first and reconnect it last. Battery gas is explosive and electrolyte corrosive: wear eye protection.',
+	safetyJoint:
+		'Safety-critical joint: use a calibrated torque wrench. An out-of-spec value here means stop and tell the foreman.',
+	testRide:
+		'Before the test ride: brakes, throttle return, lights and horn checked; wear protective gear. Run-up outdoors or with exhaust extraction only.'
+};
+
+type StepSeed = {
+	label: string;
+	aliases?: string[];
+	unit?: string;
+	nominal?: number;
+	min?: number;
+	max?: number;
+	caution?: string;
+	part?: string;
+	qty?: number;
+};
+
+const procedures: { name: string; appliesTo: string; hours: number; steps: StepSeed[] }[] = [
+	{
+		name: 'Periodic service, 6 000 km (demo specs)',
+		appliesTo: 'Small single-cylinder motorcycles, 125–300 cc',
+		hours: 1.5,
+		steps: [
+			{
+				label: 'Engine oil drain plug',
+				aliases: ['drain plug', 'sump plug'],
+				unit: 'N.m',
+				nominal: 24,
+				min: 22,
+				max: 26,
+				caution: 'Hot oil scalds: let the engine cool before draining.',
+				part: 'DPW-12',
+				qty: 1
+			},
+			{
+				label: 'Oil filter cover bolts',
+				aliases: ['filter cover'],
+				unit: 'N.m',
+				nominal: 10,
+				min: 9,
+				max: 11,
+				part: 'OF-110',
+				qty: 1
+			},
+			{
+				label: 'Engine oil fill',
+				aliases: ['oil', 'engine oil', 'oil fill'],
+				unit: 'L',
+				nominal: 1.1,
+				min: 1.0,
+				max: 1.2,
+				part: 'OIL-1040',
+				qty: 1.1
+			},
+			{
+				label: 'Spark plug',
+				aliases: ['plug'],
+				unit: 'kgf.m',
+				nominal: 1.3,
+				min: 1.2,
+				max: 1.4,
+				part: 'SP-8',
+				qty: 1
+			},
+			{
+				label: 'Valve clearance intake',
+				aliases: ['intake valve', 'inlet clearance'],
+				unit: 'mm',
+				nominal: 0.1,
+				min: 0.08,
+				max: 0.12
+			},
+			{
+				label: 'Valve clearance exhaust',
+				aliases: ['exhaust valve'],
+				unit: 'mm',
+				nominal: 0.18,
+				min: 0.16,
+				max: 0.2
+			},
+			{
+				label: 'Throttle grip free play',
+				aliases: ['throttle play', 'throttle free play'],
+				unit: 'mm',
+				min: 2,
+				max: 6
+			},
+			{
+				label: 'Clutch lever free play',
+				aliases: ['clutch play', 'clutch lever'],
+				unit: 'mm',
+				min: 10,
+				max: 20
+			},
+			{
+				label: 'Drive chain slack',
+				aliases: ['chain slack', 'chain'],
+				unit: 'mm',
+				min: 25,
+				max: 35
+			},
+			{
+				label: 'Rear axle nut',
+				aliases: ['rear axle', 'axle nut'],
+				unit: 'N.m',
+				nominal: 88,
+				min: 80,
+				max: 96,
+				caution: C.safetyJoint
+			},
+			{
+				label: 'Front tyre pressure',
+				aliases: ['front tyre', 'front tire'],
+				unit: 'kPa',
+				nominal: 200,
+				min: 190,
+				max: 210
+			},
+			{
+				label: 'Rear tyre pressure',
+				aliases: ['rear tyre', 'rear tire'],
+				unit: 'kPa',
+				nominal: 225,
+				min: 215,
+				max: 235
+			},
+			{
+				label: 'Battery voltage',
+				aliases: ['battery'],
+				unit: 'V',
+				min: 12.4,
+				max: 13.2,
+				caution: C.battery
+			},
+			{
+				label: 'Idle speed',
+				aliases: ['idle', 'tickover'],
+				unit: '/min',
+				nominal: 1400,
+				min: 1300,
+				max: 1500,
+				caution: C.exhaust
+			},
+			{ label: 'Test ride', aliases: ['road test'], caution: C.testRide }
+		]
+	},
+	{
+		name: 'Engine removal and refit (demo specs)',
+		appliesTo: 'Small single-cylinder motorcycles with a cradle frame',
+		hours: 5.5,
+		steps: [
+			{ label: 'Disconnect battery', aliases: ['battery off'], caution: C.battery },
+			{ label: 'Drain fuel and close the tap', aliases: ['fuel drained'], caution: C.fuel },
+			{ label: 'Support engine on jack', aliases: ['engine supported', 'jack'], caution: C.lift },
+			{
+				label: 'Upper engine mount bolt',
+				aliases: ['upper mount', 'top mount'],
+				unit: 'kgf.m',
+				nominal: 5.0,
+				caution: C.lift + ' ' + C.safetyJoint
+			},
+			{
+				label: 'Front engine mount bolts',
+				aliases: ['front mount'],
+				unit: 'kgf.m',
+				nominal: 3.3,
+				min: 3.0,
+				max: 3.6,
+				caution: C.safetyJoint
+			},
+			{
+				label: 'Lower engine mount bolt',
+				aliases: ['lower mount', 'bottom mount'],
+				unit: 'N.m',
+				nominal: 55,
+				min: 50,
+				max: 60,
+				caution: C.safetyJoint
+			},
+			{
+				label: 'Exhaust header nuts',
+				aliases: ['header nuts', 'exhaust nuts'],
+				unit: 'N.m',
+				nominal: 20,
+				min: 18,
+				max: 22,
+				caution: C.exhaust,
+				part: 'EXG-32',
+				qty: 1
+			},
+			{
+				label: 'Muffler mounting bolt',
+				aliases: ['muffler bolt', 'silencer bolt'],
+				unit: '[lbf_av].[ft_i]',
+				nominal: 20,
+				min: 18,
+				max: 22
+			},
+			{
+				label: 'Drive sprocket bolts',
+				aliases: ['front sprocket bolts'],
+				unit: 'N.m',
+				nominal: 12,
+				min: 11,
+				max: 13
+			},
+			{
+				label: 'Engine oil drain plug',
+				aliases: ['drain plug'],
+				unit: 'N.m',
+				nominal: 24,
+				min: 22,
+				max: 26,
+				part: 'DPW-12',
+				qty: 1
+			},
+			{
+				label: 'Engine oil fill',
+				aliases: ['oil', 'engine oil'],
+				unit: 'L',
+				nominal: 1.3,
+				min: 1.25,
+				max: 1.35,
+				part: 'OIL-1040',
+				qty: 1.3
+			},
+			{
+				label: 'Clutch cable free play',
+				aliases: ['clutch cable', 'clutch play'],
+				unit: 'mm',
+				min: 10,
+				max: 15
+			},
+			{
+				label: 'Throttle cable free play',
+				aliases: ['throttle cable', 'throttle play'],
+				unit: 'mm',
+				min: 3,
+				max: 5
+			},
+			{ label: 'Cables and wiring routed and clamped', aliases: ['cable routing', 'wiring'] },
+			{ label: 'Reconnect battery', aliases: ['battery on'], caution: C.battery },
+			{
+				label: 'Idle speed',
+				aliases: ['idle'],
+				unit: '/min',
+				nominal: 1400,
+				min: 1300,
+				max: 1500,
+				caution: C.exhaust
+			},
+			{ label: 'Leak check after warm-up', aliases: ['leak check'], caution: C.exhaust },
+			{ label: 'Test ride', aliases: ['road test'], caution: C.testRide }
+		]
+	},
+	{
+		name: 'Drive chain and sprocket renewal (demo specs)',
+		appliesTo: 'Chain-drive motorcycles up to 400 cc',
+		hours: 1.8,
+		steps: [
+			{
+				label: 'New drive chain fitted',
+				aliases: ['chain fitted', 'new chain'],
+				part: 'CH-428-118',
+				qty: 1
+			},
+			{
+				label: 'Front sprocket nut',
+				aliases: ['front sprocket', 'countershaft nut'],
+				unit: 'N.m',
+				nominal: 65,
+				min: 60,
+				max: 70,
+				part: 'SPR-F14',
+				qty: 1
+			},
+			{
+				label: 'Rear sprocket nuts',
+				aliases: ['rear sprocket'],
+				unit: '[lbf_av].[ft_i]',
+				nominal: 30,
+				min: 28,
+				max: 33,
+				part: 'SPR-R45',
+				qty: 1
+			},
+			{ label: 'Chain joint link staked', aliases: ['joint link', 'master link'] },
+			{
+				label: 'Drive chain slack',
+				aliases: ['chain slack', 'slack'],
+				unit: 'mm',
+				min: 20,
+				max: 30
+			},
+			{ label: 'Wheel alignment marks', aliases: ['alignment'] },
+			{
+				label: 'Rear axle nut',
+				aliases: ['rear axle', 'axle nut'],
+				unit: 'N.m',
+				nominal: 88,
+				min: 80,
+				max: 96,
+				caution: C.safetyJoint
+			},
+			{ label: 'Chain lubricated', aliases: ['chain lube'], part: 'LUBE-400', qty: 1 },
+			{ label: 'Test ride', aliases: ['road test'], caution: C.testRide }
+		]
+	}
+];
+
+const parts = [
+	{
+		code: 'OIL-1040',
+		description: 'Engine oil SAE 10W-40, API SL, JASO MA2 (bulk)',
+		unit: 'L' as const,
+		priceMinor: 1490
+	},
+	{
+		code: 'DPW-12',
+		description: 'Drain plug sealing washer 12 mm',
+		unit: 'each' as const,
+		priceMinor: 120
+	},
+	{
+		code: 'OF-110',
+		description: 'Oil filter element with O-rings',
+		unit: 'each' as const,
+		priceMinor: 890
+	},
+	{
+		code: 'SP-8',
+		description: 'Spark plug, resistor type',
+		unit: 'each' as const,
+		priceMinor: 760
+	},
+	{ code: 'EXG-32', description: 'Exhaust port gasket', unit: 'each' as const, priceMinor: 450 },
+	{ code: 'OR-CL', description: 'Clutch cover O-ring', unit: 'each' as const, priceMinor: 310 },
+	{
+		code: 'GSK-CC',
+		description: 'Crankcase cover gasket',
+		unit: 'each' as const,
+		priceMinor: 1280
+	},
+	{
+		code: 'CH-428-118',
+		description: 'Drive chain 428, 118 links, with joint link',
+		unit: 'each' as const,
+		priceMinor: 3950
+	},
+	{ code: 'SPR-F14', description: 'Front sprocket 14T', unit: 'each' as const, priceMinor: 1690 },
+	{ code: 'SPR-R45', description: 'Rear sprocket 45T', unit: 'each' as const, priceMinor: 3480 },
+	{
+		code: 'LUBE-400',
+		description: 'Chain lube spray 400 mL',
+		unit: 'each' as const,
+		priceMinor: 990
+	},
+	{ code: 'FORK-10', description: 'Fork oil 10W (bulk)', unit: 'L' as const, priceMinor: 2200 },
+	{
+		code: 'BRK-DOT4',
+		description: 'Brake fluid DOT 4 (bulk)',
+		unit: 'L' as const,
+		priceMinor: 1800
+	}
+];
+
+async function main() {
+	const existing = await db.select({ id: s.shop.id }).from(s.shop).limit(1);
+	if (existing.length > 0) {
+		console.log('  The database already holds a shop: nothing seeded.');
+		return;
+	}
+	const passwordHash = await hashPassword(demoPassword);
+
+	await db.transaction(async (tx) => {
+		const [shop] = await tx
+			.insert(s.shop)
+			.values({
+				name: demoShopName,
+				currency: 'EUR',
+				labourRateMinor: 7200,
+				taxRateBp: 2000,
+				bays: ['Bay 1', 'Bay 2', 'Bay 3', 'Bay 4']
+			})
+			.returning();
+
+		const staff = await tx
+			.insert(s.user)
+			.values(demoAccounts.map((a) => ({ ...a, shopId: shop.id, passwordHash })))
+			.returning();
+		const byRole = (role: string, n = 0) => staff.filter((u) => u.role === role)[n];
+		const writer = byRole('service_writer');
+		const tomasz = byRole('technician', 0);
+		const ruth = byRole('technician', 1);
+
+		const partRows = await tx
+			.insert(s.part)
+			.values(parts.map((p) => ({ ...p, shopId: shop.id })))
+			.returning();
+		const partId = (code?: string) => partRows.find((p) => p.code === code)?.id ?? null;
+
+		const tools = await tx
+			.insert(s.torqueTool)
+			.values([
+				{
+					shopId: shop.id,
+					identifier: 'TW-01',
+					kind: 'Type II class A click',
+					rangeMin: 5,
+					rangeMax: 60,
+					unit: 'N.m',
+					calibratedOn: '2026-03-10'
+				},
+				{
+					shopId: shop.id,
+					identifier: 'TW-02',
+					kind: 'Type II class A click',
+					rangeMin: 40,
+					rangeMax: 200,
+					unit: 'N.m',
+					calibratedOn: '2025-10-01'
+				},
+				{
+					shopId: shop.id,
+					identifier: 'TW-03',
+					kind: 'Type I class A dial',
+					rangeMin: 1,
+					rangeMax: 25,
+					unit: 'N.m',
+					calibratedOn: '2026-09-15'
+				}
+			])
+			.returning();
+
+		const procRows = [];
+		for (const p of procedures) {
+			const [row] = await tx
+				.insert(s.procedure)
+				.values({ shopId: shop.id, name: p.name, appliesTo: p.appliesTo, flatRateHours: p.hours })
+				.returning();
+			const steps = await tx
+				.insert(s.procedureStep)
+				.values(
+					p.steps.map((st, i) => ({
+						shopId: shop.id,
+						procedureId: row.id,
+						position: i + 1,
+						label: st.label,
+						aliases: st.aliases ?? [],
+						unit: st.unit ?? null,
+						nominal: st.nominal ?? null,
+						min: st.min ?? null,
+						max: st.max ?? null,
+						caution: st.caution ?? null,
+						partId: partId(st.part),
+						partQuantity: st.qty ?? null
+					}))
+				)
+				.returning();
+			procRows.push({ row, steps });
+		}
+
+		const customers = await tx
+			.insert(s.customer)
+			.values([
+				{
+					shopId: shop.id,
+					name: 'Aoife Brennan-Kato',
+					phone: '+00 555 0141',
+					email: 'aoife@example.test'
+				},
+				{
+					shopId: shop.id,
+					name: 'Samir Oduya',
+					phone: '+00 555 0177',
+					email: 'samir@example.test'
+				},
+				{
+					shopId: shop.id,
+					name: 'Lotte van Riemsdijk',
+					phone: '+00 555 0102',
+					email: 'lotte@example.test'
+				},
+				{
+					shopId: shop.id,
+					name: 'Courier Co-op Eastside',
+					phone: '+00 555 0190',
+					email: 'fleet@example.test'
+				}
+			])
+			.returning();
+
+		const vehicles = await tx
+			.insert(s.vehicle)
+			.values([
+				{
+					shopId: shop.id,
+					customerId: customers[0].id,
+					registration: 'KS 24 LMB',
+					frameNumber: 'VNT250D0000418',
+					make: 'Vantorra',
+					model: 'Strada 250',
+					year: 2021,
+					colour: 'Slate blue'
+				},
+				{
+					shopId: shop.id,
+					customerId: customers[1].id,
+					registration: 'KS 19 QRT',
+					frameNumber: 'CRV400T0001173',
+					make: 'Corvane',
+					model: 'Trailhand 400',
+					year: 2019,
+					colour: 'Sand'
+				},
+				{
+					shopId: shop.id,
+					customerId: customers[2].id,
+					registration: 'KS 22 HPX',
+					frameNumber: 'QLN150S0002290',
+					make: 'Quillon',
+					model: 'Pico 150 scooter',
+					year: 2022,
+					colour: 'Mint'
+				},
+				{
+					shopId: shop.id,
+					customerId: customers[3].id,
+					registration: 'KS 23 FLC',
+					frameNumber: 'VNT125C0000951',
+					make: 'Vantorra',
+					model: 'Cargo 125',
+					year: 2023,
+					colour: 'White'
+				}
+			])
+			.returning();
+
+		const now = Date.now();
+		const ago = (minutes: number) => new Date(now - minutes * 60_000);
+
+		/** Creates a job card with procedures copied onto it, like intake does. */
+		async function makeJob(opts: {
+			number: number;
+			vehicle: number;
+			procs: number[];
+			state: (typeof s.jobStateEnum.enumValues)[number];
+			tech: typeof tomasz | null;
+			bay: string | null;
+			concern: string;
+			odometer: number;
+			createdMinutesAgo: number;
+			reason?: string;
+		}) {
+			const v = vehicles[opts.vehicle];
+			const [j] = await tx
+				.insert(s.job)
+				.values({
+					shopId: shop.id,
+					number: opts.number,
+					customerId: v.customerId,
+					vehicleId: v.id,
+					odometer: opts.odometer,
+					fuelLevel: 'half',
+					concern: opts.concern,
+					technicianId: opts.tech?.id ?? null,
+					bay: opts.bay,
+					state: opts.state,
+					stateReason: opts.reason ?? null,
+					createdBy: writer.id,
+					createdAt: ago(opts.createdMinutesAgo)
+				})
+				.returning();
+			await tx.insert(s.jobStateChange).values({
+				shopId: shop.id,
+				jobId: j.id,
+				fromState: null,
+				toState: 'open',
+				byUserId: writer.id,
+				at: ago(opts.createdMinutesAgo)
+			});
+			if (opts.state !== 'open') {
+				await tx.insert(s.jobStateChange).values({
+					shopId: shop.id,
+					jobId: j.id,
+					fromState: 'open',
+					toState: opts.state,
+					reason: opts.reason ?? null,
+					byUserId: opts.state === 'on_hold' ? writer.id : (opts.tech?.id ?? writer.id),
+					at: ago(opts.createdMinutesAgo - 10)
+				});
+			}
+			const jobSteps: (typeof s.jobStep.$inferSelect)[] = [];
+			for (const [pos, pi] of opts.procs.entries()) {
+				const p = procRows[pi];
+				const [jp] = await tx
+					.insert(s.jobProcedure)
+					.values({
+						shopId: shop.id,
+						jobId: j.id,
+						procedureId: p.row.id,
+						name: p.row.name,
+						flatRateHours: p.row.flatRateHours,
+						position: pos + 1
+					})
+					.returning();
+				const copied = await tx
+					.insert(s.jobStep)
+					.values(
+						p.steps.map((st) => ({
+							shopId: shop.id,
+							jobId: j.id,
+							jobProcedureId: jp.id,
+							procedureStepId: st.id,
+							position: pos * 100 + st.position,
+							label: st.label,
+							aliases: st.aliases,
+							unit: st.unit,
+							nominal: st.nominal,
+							min: st.min,
+							max: st.max,
+							caution: st.caution,
+							partId: st.partId,
+							partQuantity: st.partQuantity
+						}))
+					)
+					.returning();
+				jobSteps.push(...copied);
+			}
+			return { job: j, steps: jobSteps };
+		}
+
+		/** Logs a measurement in the step's own unit, judged against the step's band. */
+		function judge(step: typeof s.jobStep.$inferSelect, value: number) {
+			const tol = 0.1;
+			const lo =
+				step.min ?? (step.max === null && step.nominal !== null ? step.nominal * (1 - tol) : null);
+			const hi =
+				step.max ?? (step.min === null && step.nominal !== null ? step.nominal * (1 + tol) : null);
+			if (lo === null && hi === null) return 'no_spec' as const;
+			const eps = 1e-9 * Math.max(1, Math.abs(value));
+			if (lo !== null && value < lo - eps) return 'low' as const;
+			if (hi !== null && value > hi + eps) return 'high' as const;
+			return 'in' as const;
+		}
+		const symbols: Record<string, string> = {
+			'N.m': 'Nm',
+			'kgf.m': 'kgf m',
+			'[lbf_av].[ft_i]': 'lbf ft',
+			L: 'L',
+			mm: 'mm',
+			kPa: 'kPa',
+			V: 'V',
+			'/min': 'rpm'
+		};
+		async function log(
+			j: Awaited<ReturnType<typeof makeJob>>,
+			author: typeof tomasz,
+			label: string,
+			value: number | null,
+			minutesAgo: number,
+			extra: Partial<typeof s.logEntry.$inferInsert> = {}
+		) {
+			const step = j.steps.find((st) => st.label === label);
+			if (!step) throw new Error(`demo step not found: ${label}`);
+			const measured = value !== null && step.unit !== null;
+			const rawText = measured
+				? `${label.toLowerCase()} ${value} ${symbols[step.unit!] ?? step.unit}`
+				: `done ${label.toLowerCase()}`;
+			const tool = step.unit && /lbf|N\.m|kgf/.test(step.unit) ? tools[value! > 40 ? 1 : 0] : null;
+			await tx.insert(s.logEntry).values({
+				id: crypto.randomUUID(),
+				shopId: shop.id,
+				jobId: j.job.id,
+				jobStepId: step.id,
+				authorId: author.id,
+				kind: measured ? 'measure' : 'done',
+				rawText,
+				source: 'typed',
+				value: measured ? value : null,
+				unit: measured ? step.unit : null,
+				specValue: measured ? value : null,
+				specUnit: measured ? step.unit : null,
+				verdict: measured ? judge(step, value!) : null,
+				torqueToolId: tool?.id ?? null,
+				toolCalibrationOverdue: tool?.identifier === 'TW-02',
+				occurredAt: ago(minutesAgo),
+				recordedAt: ago(minutesAgo),
+				...extra
+			});
+		}
+
+		await makeJob({
+			number: 1039,
+			vehicle: 3,
+			procs: [0],
+			state: 'paid',
+			tech: ruth,
+			bay: 'Bay 3',
+			concern: 'Fleet service due at 6 000 km.',
+			odometer: 6120,
+			createdMinutesAgo: 60 * 24 * 9
+		});
+		await makeJob({
+			number: 1041,
+			vehicle: 0,
+			procs: [0],
+			state: 'open',
+			tech: tomasz,
+			bay: 'Bay 1',
+			concern: 'Service due; chain noisy at low speed.',
+			odometer: 11840,
+			createdMinutesAgo: 50
+		});
+
+		const engine = await makeJob({
+			number: 1042,
+			vehicle: 1,
+			procs: [1],
+			state: 'in_work',
+			tech: tomasz,
+			bay: 'Bay 2',
+			concern: 'Engine out for crankcase gasket; refit and adjust.',
+			odometer: 23410,
+			createdMinutesAgo: 60 * 5
+		});
+		await log(engine, tomasz, 'Disconnect battery', null, 240);
+		await log(engine, tomasz, 'Drain fuel and close the tap', null, 236);
+		await log(engine, tomasz, 'Support engine on jack', null, 95);
+		await log(engine, tomasz, 'Upper engine mount bolt', 5.1, 70);
+		await log(engine, tomasz, 'Front engine mount bolts', 3.7, 64);
+		await log(engine, tomasz, 'Lower engine mount bolt', 56, 58);
+
+		const chain = await makeJob({
+			number: 1043,
+			vehicle: 2,
+			procs: [2],
+			state: 'in_work',
+			tech: ruth,
+			bay: 'Bay 3',
+			concern: 'Chain and sprockets worn: renew.',
+			odometer: 15230,
+			createdMinutesAgo: 90
+		});
+		await log(chain, ruth, 'New drive chain fitted', null, 40, {
+			kind: 'part',
+			partId: partId('CH-428-118'),
+			partQuantity: 1
+		});
+		await log(chain, ruth, 'Front sprocket nut', 66, 33);
+		await log(chain, ruth, 'Rear sprocket nuts', 27, 25);
+
+		const inspect = await makeJob({
+			number: 1044,
+			vehicle: 3,
+			procs: [0],
+			state: 'final_inspection',
+			tech: ruth,
+			bay: 'Bay 4',
+			concern: 'Fleet service due at 12 000 km.',
+			odometer: 12090,
+			createdMinutesAgo: 60 * 4
+		});
+		const service: [string, number | null][] = [
+			['Engine oil drain plug', 24],
+			['Oil filter cover bolts', 10],
+			['Engine oil fill', 1.1],
+			['Spark plug', 1.3],
+			['Valve clearance intake', 0.1],
+			['Valve clearance exhaust', 0.18],
+			['Throttle grip free play', 4],
+			['Clutch lever free play', 14],
+			['Drive chain slack', 30],
+			['Rear axle nut', 90],
+			['Front tyre pressure', 200],
+			['Rear tyre pressure', 225],
+			['Battery voltage', 12.8],
+			['Idle speed', 1420],
+			['Test ride', null]
+		];
+		for (const [i, [label, value]] of service.entries()) {
+			await log(inspect, ruth, label, value, 200 - i * 8);
+		}
+
+		await makeJob({
+			number: 1045,
+			vehicle: 0,
+			procs: [2],
+			state: 'on_hold',
+			tech: null,
+			bay: null,
+			concern: 'Chain kit ordered.',
+			odometer: 11840,
+			createdMinutesAgo: 60 * 26,
+			reason: 'Waiting for parts: chain kit'
+		});
+	});
+
+	// A second shop, so that shop scoping is visible in the demo and testable.
+	const [other] = await db
+		.insert(s.shop)
+		.values({
+			name: otherShopName,
+			currency: 'EUR',
+			labourRateMinor: 6500,
+			taxRateBp: 2000,
+			bays: ['Bay A']
+		})
+		.returning();
+	await db
+		.insert(s.user)
+		.values(otherAccounts.map((a) => ({ ...a, shopId: other.id, passwordHash })));
+	const [oc] = await db
+		.insert(s.customer)
+		.values({ shopId: other.id, name: 'Rosa Quintero-Nakamura', email: 'rosa@example.test' })
+		.returning();
+	const [ov] = await db
+		.insert(s.vehicle)
+		.values({
+			shopId: other.id,
+			customerId: oc.id,
+			registration: 'HL 20 SCT',
+			make: 'Quillon',
+			model: 'Pico 50 scooter',
+			year: 2020
+		})
+		.returning();
+	await db
+		.insert(s.job)
+		.values({
+			shopId: other.id,
+			number: 501,
+			customerId: oc.id,
+			vehicleId: ov.id,
+			concern: 'Brakes squeal.',
+			state: 'open'
+		});
+
+	console.log(`  Demo shop "${demoShopName}" seeded (plus "${otherShopName}").`);
+}
+
+try {
+	await main();
+} finally {
+	await client.end();
+}

@@ -1,0 +1,29 @@
+import type { z } from 'zod';
+
+/** Field errors keyed by field, first message each: what a form shows beside its fields. */
+export function fieldErrors(error: z.ZodError): Record<string, string> {
+	const out: Record<string, string> = {};
+	for (const issue of error.issues) {
+		const key = String(issue.path[0] ?? 'form');
+		out[key] ??= issue.message;
+	}
+	return out;
+}
+
+/**
+ * The submitted text fields, to send back with a failed form so nothing typed is lost.
+ * Passwords and files are never sent back; over-long values are cut for the echo only.
+ */
+export function echoValues(form: FormData, omit: string[] = ['password']): Record<string, string> {
+	const out: Record<string, string> = {};
+	for (const [key, value] of form) {
+		if (omit.includes(key) || typeof value !== 'string') continue;
+		out[key] = value.slice(0, 2000);
+	}
+	return out;
+}
+
+/** A message for the whole form, in the same shape as field errors. */
+export function formError(message: string, field = 'form'): Record<string, string> {
+	return { [field]: message };
+}

@@ -1,0 +1,111 @@
+// Test fixtures for DB integration tests: a fresh shop each call, so tests never depend on
+// each other or on the demo data. Only *.db.test.ts files import this.
+import { db } from './index';
+import * as s from './schema';
+
+export async function makeShop(name: string) {
+	const tag = crypto.randomUUID().slice(0, 8);
+	const [shop] = await db
+		.insert(s.shop)
+		.values({ name: `${name} ${tag}` })
+		.returning();
+	const users = await db
+		.insert(s.user)
+		.values([
+			{
+				shopId: shop.id,
+				email: `owner-${tag}@test.test`,
+				name: 'Owner',
+				role: 'owner',
+				passwordHash: 'x'
+			},
+			{
+				shopId: shop.id,
+				email: `tech-${tag}@test.test`,
+				name: 'Tech',
+				role: 'technician',
+				passwordHash: 'x'
+			}
+		])
+		.returning();
+	const [customer] = await db
+		.insert(s.customer)
+		.values({ shopId: shop.id, name: `Customer ${tag}` })
+		.returning();
+	const [vehicle] = await db
+		.insert(s.vehicle)
+		.values({
+			shopId: shop.id,
+			customerId: customer.id,
+			registration: `T ${tag}`,
+			make: 'Testmake',
+			model: 'One'
+		})
+		.returning();
+	const [procedure] = await db
+		.insert(s.procedure)
+		.values({ shopId: shop.id, name: `Procedure ${tag}` })
+		.returning();
+	const [job] = await db
+		.insert(s.job)
+		.values({
+			shopId: shop.id,
+			number: 1,
+			customerId: customer.id,
+			vehicleId: vehicle.id,
+			technicianId: users[1].id,
+			state: 'in_work'
+		})
+		.returning();
+	const [jobProcedure] = await db
+		.insert(s.jobProcedure)
+		.values({
+			shopId: shop.id,
+			jobId: job.id,
+			procedureId: procedure.id,
+			name: procedure.name,
+			position: 1
+		})
+		.returning();
+	const [step] = await db
+		.insert(s.jobStep)
+		.values({
+			shopId: shop.id,
+			jobId: job.id,
+			jobProcedureId: jobProcedure.id,
+			position: 1,
+			label: 'Rear axle nut',
+			unit: 'N.m',
+			min: 80,
+			max: 96
+		})
+		.returning();
+	return { shop, owner: users[0], tech: users[1], customer, vehicle, job, step };
+}
+
+export async function logMeasurement(
+	f: Awaited<ReturnType<typeof makeShop>>,
+	value: number,
+	verdict: 'in' | 'low' | 'high'
+) {
+	const [row] = await db
+		.insert(s.logEntry)
+		.values({
+			id: crypto.randomUUID(),
+			shopId: f.shop.id,
+			jobId: f.job.id,
+			jobStepId: f.step.id,
+			authorId: f.tech.id,
+			kind: 'measure',
+			rawText: `rear axle ${value} nm`,
+			source: 'typed',
+			value,
+			unit: 'N.m',
+			specValue: value,
+			specUnit: 'N.m',
+			verdict,
+			occurredAt: new Date()
+		})
+		.returning();
+	return row;
+}

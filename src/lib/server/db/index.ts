@@ -1,0 +1,27 @@
+import { building } from '$app/environment';
+import { env } from '$env/dynamic/private';
+import { drizzle } from 'drizzle-orm/postgres-js';
+import postgres from 'postgres';
+import * as schema from './schema';
+
+const url = env.DATABASE_URL;
+if (!url && !building) {
+	throw new Error('DATABASE_URL is not set: start Benchcall with `npm start` or see .env.example');
+}
+
+/** postgres.js connects lazily, so the build (which imports this module) never opens a connection. */
+export const client = postgres(url ?? 'postgres://127.0.0.1/unset', {
+	max: Number(env.DATABASE_POOL_SIZE ?? 10),
+	onnotice: () => {},
+	connection: { application_name: 'benchcall' }
+});
+
+export const db = drizzle(client, { schema });
+export type Db = typeof db;
+export type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
+
+// adapter-node emits this on SIGINT/SIGTERM once in-flight requests are done; an open pool
+// would otherwise keep `node build` alive (STACK.md, trap 2).
+process.on('sveltekit:shutdown', () => {
+	void client.end({ timeout: 2 });
+});

@@ -1,0 +1,408 @@
+// Benchcall's data model. drizzle-kit loads this file with its own loader:
+// no `$lib` or `$env` imports here (STACK.md, trap 3).
+import { sql } from 'drizzle-orm';
+import {
+	bigint,
+	boolean,
+	date,
+	doublePrecision,
+	index,
+	integer,
+	pgEnum,
+	pgTable,
+	text,
+	timestamp,
+	uniqueIndex,
+	uuid,
+	type AnyPgColumn
+} from 'drizzle-orm/pg-core';
+
+const id = () => uuid('id').primaryKey().defaultRandom();
+const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
+const shopRef = () =>
+	uuid('shop_id')
+		.notNull()
+		.references(() => shop.id, { onDelete: 'cascade' });
+
+export const roleEnum = pgEnum('role', ['owner', 'service_writer', 'foreman', 'technician']);
+
+export const shop = pgTable('shop', {
+	id: id(),
+	name: text('name').notNull(),
+	/** ISO 4217 code, e.g. EUR. */
+	currency: text('currency').notNull().default('EUR'),
+	/** Labour rate per hour in the currency's minor units. */
+	labourRateMinor: integer('labour_rate_minor').notNull().default(0),
+	/** Tax rate in basis points (20 % = 2000). */
+	taxRateBp: integer('tax_rate_bp').notNull().default(0),
+	/** Tolerance applied to nominal-only specs, in percent: shop policy. */
+	defaultTolerancePct: doublePrecision('default_tolerance_pct').notNull().default(10),
+	/** Clock-time labour leaves out idle gaps longer than this. */
+	idleGapMinutes: integer('idle_gap_minutes').notNull().default(30),
+	/** Torque tools are due this many months after calibration unless the tool says otherwise. */
+	calibrationMonths: integer('calibration_months').notNull().default(12),
+	bays: text('bays')
+		.array()
+		.notNull()
+		.default(sql`'{}'::text[]`),
+	createdAt: createdAt()
+});
+export type Shop = typeof shop.$inferSelect;
+
+export const user = pgTable(
+	'user',
+	{
+		id: id(),
+		shopId: shopRef(),
+		/** Stored lower-case; unique across Benchcall because it is the sign-in name. */
+		email: text('email').notNull(),
+		name: text('name').notNull(),
+		role: roleEnum('role').notNull(),
+		passwordHash: text('password_hash').notNull(),
+		active: boolean('active').notNull().default(true),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('user_email_key').on(t.email), index('user_shop_idx').on(t.shopId)]
+);
+export type User = typeof user.$inferSelect;
+
+export const session = pgTable(
+	'session',
+	{
+		id: text('id').primaryKey(),
+		userId: uuid('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull()
+	},
+	(t) => [index('session_user_idx').on(t.userId)]
+);
+
+/** Failed sign-ins, for throttling by e-mail and by address. */
+export const signInFailure = pgTable(
+	'sign_in_failure',
+	{
+		id: bigint('id', { mode: 'number' }).primaryKey().generatedAlwaysAsIdentity(),
+		email: text('email').notNull(),
+		address: text('address').notNull(),
+		at: timestamp('at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		index('sign_in_failure_email_idx').on(t.email, t.at),
+		index('sign_in_failure_address_idx').on(t.address, t.at)
+	]
+);
+
+export const customer = pgTable(
+	'customer',
+	{
+		id: id(),
+		shopId: shopRef(),
+		name: text('name').notNull(),
+		phone: text('phone'),
+		email: text('email'),
+		createdAt: createdAt()
+	},
+	(t) => [index('customer_shop_idx').on(t.shopId, t.name)]
+);
+export type Customer = typeof customer.$inferSelect;
+
+export const vehicle = pgTable(
+	'vehicle',
+	{
+		id: id(),
+		shopId: shopRef(),
+		customerId: uuid('customer_id').references(() => customer.id, { onDelete: 'set null' }),
+		registration: text('registration').notNull(),
+		frameNumber: text('frame_number'),
+		/** Make and model as free text: Benchcall keeps no catalogue of makes. */
+		make: text('make').notNull(),
+		model: text('model').notNull(),
+		year: integer('year'),
+		colour: text('colour'),
+		createdAt: createdAt()
+	},
+	(t) => [index('vehicle_shop_idx').on(t.shopId, t.registration)]
+);
+export type Vehicle = typeof vehicle.$inferSelect;
+
+export const partUnitEnum = pgEnum('part_unit', ['each', 'L', 'mL']);
+
+/** The price list: parts, consumables and fluids. */
+export const part = pgTable(
+	'part',
+	{
+		id: id(),
+		shopId: shopRef(),
+		code: text('code').notNull(),
+		description: text('description').notNull(),
+		unit: partUnitEnum('unit').notNull().default('each'),
+		priceMinor: integer('price_minor').notNull(),
+		active: boolean('active').notNull().default(true),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('part_shop_code_key').on(t.shopId, t.code)]
+);
+export type Part = typeof part.$inferSelect;
+
+export const torqueTool = pgTable(
+	'torque_tool',
+	{
+		id: id(),
+		shopId: shopRef(),
+		identifier: text('identifier').notNull(),
+		/** ISO 6789 type and class in words, e.g. "Type II class A click". */
+		kind: text('kind').notNull(),
+		rangeMin: doublePrecision('range_min').notNull(),
+		rangeMax: doublePrecision('range_max').notNull(),
+		/** UCUM code of the range. */
+		unit: text('unit').notNull(),
+		calibratedOn: date('calibrated_on', { mode: 'string' }),
+		/** Overrides the shop's calibration interval when set. */
+		intervalMonths: integer('interval_months'),
+		active: boolean('active').notNull().default(true),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('torque_tool_shop_identifier_key').on(t.shopId, t.identifier)]
+);
+export type TorqueTool = typeof torqueTool.$inferSelect;
+
+export const procedure = pgTable(
+	'procedure',
+	{
+		id: id(),
+		shopId: shopRef(),
+		name: text('name').notNull(),
+		appliesTo: text('applies_to').notNull().default(''),
+		flatRateHours: doublePrecision('flat_rate_hours').notNull().default(0),
+		archivedAt: timestamp('archived_at', { withTimezone: true }),
+		createdAt: createdAt(),
+		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [index('procedure_shop_idx').on(t.shopId, t.name)]
+);
+export type Procedure = typeof procedure.$inferSelect;
+
+/** Spec columns shared by a library step and its copy on a job. */
+const specColumns = () => ({
+	label: text('label').notNull(),
+	aliases: text('aliases')
+		.array()
+		.notNull()
+		.default(sql`'{}'::text[]`),
+	/** UCUM code; null for a step checked without a value (a test ride). */
+	unit: text('unit'),
+	nominal: doublePrecision('nominal'),
+	min: doublePrecision('min'),
+	max: doublePrecision('max'),
+	caution: text('caution'),
+	partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
+	partQuantity: doublePrecision('part_quantity')
+});
+
+export const procedureStep = pgTable(
+	'procedure_step',
+	{
+		id: id(),
+		shopId: shopRef(),
+		procedureId: uuid('procedure_id')
+			.notNull()
+			.references(() => procedure.id, { onDelete: 'cascade' }),
+		position: integer('position').notNull(),
+		...specColumns()
+	},
+	(t) => [index('procedure_step_procedure_idx').on(t.procedureId, t.position)]
+);
+export type ProcedureStep = typeof procedureStep.$inferSelect;
+
+export const jobStateEnum = pgEnum('job_state', [
+	'open',
+	'in_work',
+	'final_inspection',
+	'ready_to_invoice',
+	'invoiced',
+	'paid',
+	'on_hold',
+	'cancelled'
+]);
+
+export const job = pgTable(
+	'job',
+	{
+		id: id(),
+		shopId: shopRef(),
+		/** The job card number, counted per shop. */
+		number: integer('number').notNull(),
+		customerId: uuid('customer_id').references(() => customer.id, { onDelete: 'set null' }),
+		vehicleId: uuid('vehicle_id').references(() => vehicle.id, { onDelete: 'set null' }),
+		odometer: integer('odometer'),
+		odometerUnit: text('odometer_unit').notNull().default('km'),
+		fuelLevel: text('fuel_level'),
+		damageNotes: text('damage_notes'),
+		concern: text('concern').notNull().default(''),
+		requestedWork: text('requested_work'),
+		promisedAt: timestamp('promised_at', { withTimezone: true }),
+		technicianId: uuid('technician_id').references(() => user.id, { onDelete: 'set null' }),
+		bay: text('bay'),
+		state: jobStateEnum('state').notNull().default('open'),
+		stateReason: text('state_reason'),
+		signedOffBy: uuid('signed_off_by').references(() => user.id, { onDelete: 'set null' }),
+		signedOffAt: timestamp('signed_off_at', { withTimezone: true }),
+		createdBy: uuid('created_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: createdAt()
+	},
+	(t) => [
+		uniqueIndex('job_shop_number_key').on(t.shopId, t.number),
+		index('job_shop_state_idx').on(t.shopId, t.state),
+		index('job_technician_idx').on(t.technicianId)
+	]
+);
+export type Job = typeof job.$inferSelect;
+
+/** Every change of a job's state, with who and when. */
+export const jobStateChange = pgTable(
+	'job_state_change',
+	{
+		id: id(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		fromState: jobStateEnum('from_state'),
+		toState: jobStateEnum('to_state').notNull(),
+		reason: text('reason'),
+		byUserId: uuid('by_user_id').references(() => user.id, { onDelete: 'set null' }),
+		at: timestamp('at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [index('job_state_change_job_idx').on(t.jobId, t.at)]
+);
+
+/** A procedure attached to a job: name and flat-rate hours copied at the time. */
+export const jobProcedure = pgTable(
+	'job_procedure',
+	{
+		id: id(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		procedureId: uuid('procedure_id').references(() => procedure.id, { onDelete: 'set null' }),
+		name: text('name').notNull(),
+		flatRateHours: doublePrecision('flat_rate_hours').notNull().default(0),
+		position: integer('position').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [index('job_procedure_job_idx').on(t.jobId, t.position)]
+);
+
+/**
+ * A step copied onto a job when its procedure is attached, so later library edits
+ * never change a job's specs or a past verdict.
+ */
+export const jobStep = pgTable(
+	'job_step',
+	{
+		id: id(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		jobProcedureId: uuid('job_procedure_id')
+			.notNull()
+			.references(() => jobProcedure.id, { onDelete: 'cascade' }),
+		procedureStepId: uuid('procedure_step_id').references(() => procedureStep.id, {
+			onDelete: 'set null'
+		}),
+		position: integer('position').notNull(),
+		...specColumns()
+	},
+	(t) => [
+		index('job_step_job_idx').on(t.jobId, t.position),
+		index('job_step_procedure_step_idx').on(t.procedureStepId)
+	]
+);
+export type JobStep = typeof jobStep.$inferSelect;
+
+export const entryKindEnum = pgEnum('entry_kind', [
+	'measure',
+	'part',
+	'note',
+	'done',
+	'retraction',
+	'accept',
+	'redo',
+	'inspection',
+	'sign_off'
+]);
+export const entrySourceEnum = pgEnum('entry_source', ['typed', 'voice', 'system']);
+export const verdictEnum = pgEnum('verdict', ['in', 'low', 'high', 'no_spec']);
+
+/**
+ * The job log. Append-only in the database: a trigger (see drizzle/) rejects UPDATE and
+ * DELETE. A correction is a new entry; a retraction points at the entry it retracts.
+ */
+export const logEntry = pgTable(
+	'log_entry',
+	{
+		/** Made on the device, so a resend of the same entry is recognised. */
+		id: uuid('id').primaryKey(),
+		/** Server-side order of arrival, for keyset pagination and live catch-up. */
+		seq: bigint('seq', { mode: 'number' }).notNull().generatedAlwaysAsIdentity(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		jobStepId: uuid('job_step_id').references(() => jobStep.id, { onDelete: 'set null' }),
+		authorId: uuid('author_id')
+			.notNull()
+			.references(() => user.id),
+		kind: entryKindEnum('kind').notNull(),
+		rawText: text('raw_text').notNull(),
+		source: entrySourceEnum('source').notNull(),
+		/** As called out. */
+		value: doublePrecision('value'),
+		unit: text('unit'),
+		/** Converted into the spec's unit. */
+		specValue: doublePrecision('spec_value'),
+		specUnit: text('spec_unit'),
+		verdict: verdictEnum('verdict'),
+		note: text('note'),
+		partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
+		partQuantity: doublePrecision('part_quantity'),
+		torqueToolId: uuid('torque_tool_id').references(() => torqueTool.id, { onDelete: 'set null' }),
+		/** The torque tool was past its calibration due date when this entry was made. */
+		toolCalibrationOverdue: boolean('tool_calibration_overdue').notNull().default(false),
+		retracts: uuid('retracts').references((): AnyPgColumn => logEntry.id),
+		occurredAt: timestamp('occurred_at', { withTimezone: true }).notNull(),
+		recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		uniqueIndex('log_entry_seq_key').on(t.seq),
+		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
+		index('log_entry_shop_seq_idx').on(t.shopId, t.seq),
+		index('log_entry_step_idx').on(t.jobStepId),
+		index('log_entry_retracts_idx').on(t.retracts)
+	]
+);
+export type LogEntry = typeof logEntry.$inferSelect;
+
+/** Photos: on an entry, or taken at intake. Files live behind the storage interface. */
+export const attachment = pgTable(
+	'attachment',
+	{
+		id: id(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		entryId: uuid('entry_id').references(() => logEntry.id),
+		fileName: text('file_name').notNull(),
+		mime: text('mime').notNull(),
+		bytes: integer('bytes').notNull(),
+		storageKey: text('storage_key').notNull(),
+		thumbKey: text('thumb_key'),
+		uploadedBy: uuid('uploaded_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: createdAt()
+	},
+	(t) => [index('attachment_job_idx').on(t.jobId), index('attachment_entry_idx').on(t.entryId)]
+);

@@ -1,0 +1,112 @@
+// Staff accounts of one shop. Every query is scoped by the caller's shop id.
+import { and, asc, eq, ne } from 'drizzle-orm';
+import type { Role } from '$lib/auth/roles';
+import { lucia } from './auth';
+import { db } from './db';
+import { user } from './db/schema';
+import { hashPassword } from './password';
+
+export function listStaff(shopId: string) {
+	return db
+		.select({
+			id: user.id,
+			name: user.name,
+			email: user.email,
+			role: user.role,
+			active: user.active
+		})
+		.from(user)
+		.where(eq(user.shopId, shopId))
+		.orderBy(asc(user.name));
+}
+
+export type StaffResult = { ok: true } | { ok: false; field?: string; message: string };
+
+export async function createStaff(
+	shopId: string,
+	input: { name: string; email: string; role: Role; password: string }
+): Promise<StaffResult> {
+	const passwordHash = await hashPassword(input.password);
+	const rows = await db
+		.insert(user)
+		.values({ shopId, name: input.name, email: input.email, role: input.role, passwordHash })
+		.onConflictDoNothing({ target: user.email })
+		.returning({ id: user.id });
+	if (rows.length === 0) {
+		return { ok: false, field: 'email', message: 'An account with that e-mail already exists.' };
+	}
+	return { ok: true };
+}
+
+/** Refuses to leave the shop without an active owner. */
+async function wouldRemoveLastOwner(shopId: string, userId: string): Promise<boolean> {
+	const owners = await db
+		.select({ id: user.id })
+		.from(user)
+		.where(
+			and(
+				eq(user.shopId, shopId),
+				eq(user.role, 'owner'),
+				eq(user.active, true),
+				ne(user.id, userId)
+			)
+		);
+	return owners.length === 0;
+}
+
+async function findInShop(shopId: string, userId: string) {
+	const [row] = await db
+		.select()
+		.from(user)
+		.where(and(eq(user.shopId, shopId), eq(user.id, userId)))
+		.limit(1);
+	return row ?? null;
+}
+
+export async function setRole(shopId: string, userId: string, role: Role): Promise<StaffResult> {
+	const row = await findInShop(shopId, userId);
+	if (!row) return { ok: false, message: 'No such account in this shop.' };
+	if (row.role === 'owner' && role !== 'owner' && (await wouldRemoveLastOwner(shopId, userId))) {
+		return { ok: false, message: 'The shop needs at least one active owner.' };
+	}
+	await db
+		.update(user)
+		.set({ role })
+		.where(and(eq(user.shopId, shopId), eq(user.id, userId)));
+	return { ok: true };
+}
+
+/** Deactivating ends the account's sessions at once. */
+export async function setActive(
+	shopId: string,
+	userId: string,
+	active: boolean
+): Promise<StaffResult> {
+	const row = await findInShop(shopId, userId);
+	if (!row) return { ok: false, message: 'No such account in this shop.' };
+	if (!active && row.role === 'owner' && (await wouldRemoveLastOwner(shopId, userId))) {
+		return { ok: false, message: 'The shop needs at least one active owner.' };
+	}
+	await db
+		.update(user)
+		.set({ active })
+		.where(and(eq(user.shopId, shopId), eq(user.id, userId)));
+	if (!active) await lucia.invalidateUserSessions(userId);
+	return { ok: true };
+}
+
+/** A new password ends the account's other sessions. */
+export async function resetPassword(
+	shopId: string,
+	userId: string,
+	password: string
+): Promise<StaffResult> {
+	const row = await findInShop(shopId, userId);
+	if (!row) return { ok: false, message: 'No such account in this shop.' };
+	await db
+		.update(user)
+		.set({ passwordHash: await hashPassword(password) })
+		.where(and(eq(user.shopId, shopId), eq(user.id, userId)));
+	await lucia.invalidateUserSessions(userId);
+	return { ok: true };
+}

@@ -1,0 +1,14 @@
+import { navFor } from '$lib/auth/roles';
+import { requireUser } from '$lib/server/auth';
+import { getShop } from '$lib/server/shop';
+import type { LayoutServerLoad } from './$types';
+
+export const load: LayoutServerLoad = async () => {
+	const user = requireUser();
+	const shop = await getShop(user.shopId);
+	return {
+		user,
+		shop: { name: shop?.name ?? '' },
+		nav: navFor(user.role).map(({ href, label }) => ({ href, label }))
+	};
+};

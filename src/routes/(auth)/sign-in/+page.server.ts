@@ -1,0 +1,33 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { landingFor } from '$lib/auth/roles';
+import { signInSchema } from '$lib/schemas/auth';
+import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { checkSignIn, lucia } from '$lib/server/auth';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = ({ locals, url }) => {
+	if (locals.user) redirect(303, landingFor(locals.user.role, url.searchParams.get('next')));
+};
+
+export const actions = {
+	default: async ({ request, cookies, url, getClientAddress, locals }) => {
+		const form = await request.formData();
+		const values = echoValues(form);
+		const parsed = signInSchema.safeParse(Object.fromEntries(form));
+		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });
+
+		const result = await checkSignIn(parsed.data.email, parsed.data.password, getClientAddress());
+		if (!result.ok) {
+			return fail(result.retryAfterSeconds ? 429 : 400, {
+				values,
+				errors: formError(result.message)
+			});
+		}
+		// A fresh session on every sign-in: an old cookie is never promoted (no fixation).
+		if (locals.session) await lucia.invalidateSession(locals.session.id);
+		const session = await lucia.createSession(result.userId, {});
+		const cookie = lucia.createSessionCookie(session.id);
+		cookies.set(cookie.name, cookie.value, { path: '.', ...cookie.attributes });
+		redirect(303, landingFor(result.role, url.searchParams.get('next')));
+	}
+} satisfies Actions;

@@ -1,0 +1,33 @@
+import { sveltekit } from '@sveltejs/kit/vite';
+import tailwindcss from '@tailwindcss/vite';
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+	plugins: [tailwindcss(), sveltekit()],
+	server: { host: '127.0.0.1' },
+	test: {
+		expect: { requireAssertions: true },
+		projects: [
+			{
+				extends: './vite.config.ts',
+				test: {
+					name: 'unit',
+					environment: 'node',
+					include: ['src/**/*.test.ts'],
+					exclude: ['src/**/*.db.test.ts']
+				}
+			},
+			{
+				// Integration tests against the real local PostgreSQL that scripts/test.js starts.
+				extends: './vite.config.ts',
+				test: {
+					name: 'db',
+					environment: 'node',
+					include: ['src/**/*.db.test.ts'],
+					fileParallelism: false,
+					testTimeout: 20_000
+				}
+			}
+		]
+	}
+});
