@@ -1,0 +1,713 @@
+/**
+ * The phrase engine: what a technician calls out at the bench ("swingarm pivot 8.5 kgf m",
+ * "oil 1.1 L filled", "new drain plug washer", "spec fork fluid") read into an intent, the
+ * matched step, the value converted into the step's unit and a verdict against its spec.
+ * Pure TypeScript: the same code gives the call bar's instant preview in the browser and the
+ * authoritative verdict on the server. Never throws.
+ */
+import { convert, dimensionOf, formatQuantity, unitFromWords, unitInfo } from '../units/index';
+import { FILLER_WORDS, StepIndex, toMatchTokens, type ScoredStep } from './match';
+import { findNumbers, type NumberSpan } from './numbers';
+import { MAX_PHRASE_CHARS, normalizeText, tokenize } from './text';
+import { defaultTimeZone, extractTime } from './time';
+
+export { wordsToNumber, findNumbers, readNumberAt } from './numbers';
+export { MAX_PHRASE_CHARS } from './text';
+
+export interface StepSpec {
+	id: string;
+	label: string;
+	aliases?: string[];
+	unit?: string;
+	nominal?: number;
+	min?: number;
+	max?: number;
+	done?: boolean;
+}
+
+export interface PhraseContext {
+	steps: StepSpec[];
+	now?: Date;
+	/** IANA zone of the shop, e.g. 'Europe/Berlin'; defaults to the runtime's zone. */
+	timeZone?: string;
+	/** Shop policy band for a spec that gives only a nominal value, in percent (default 10). */
+	tolerancePct?: number;
+}
+
+export type Intent = 'measure' | 'part' | 'note' | 'next' | 'spec' | 'done' | 'undo' | 'unknown';
+export type Verdict = 'in' | 'low' | 'high' | 'no_spec';
+
+/** The limits a value was judged against, in the step's unit. */
+export interface SpecBand {
+	min: number | null;
+	max: number | null;
+	/** 'spec': the step's own min/max; 'shop_tolerance': nominal ± tolerancePct. */
+	source: 'spec' | 'shop_tolerance';
+}
+
+export interface ParsedPhrase {
+	intent: Intent;
+	/** The matched step. */
+	stepId: string | null;
+	/** Best first (score 0..1, higher is better). */
+	candidates: { stepId: string; score: number }[];
+	/** As called out, UCUM unit ('1' when neither the phrase nor the step has one). */
+	quantity: { value: number; unit: string } | null;
+	/** Converted into the step's unit. */
+	specValue: { value: number; unit: string } | null;
+	verdict: Verdict | null;
+	/** ISO 8601 when the phrase names a time. */
+	occurredAt: string | null;
+	/** The note's text for 'note'; what was fitted for 'part'. */
+	note: string | null;
+	/** Clear, human messages. */
+	problems: string[];
+	/** True when no unit was said and the step's own unit was assumed. */
+	unitAssumed: boolean;
+	/** The band behind the verdict, or null when there is no verdict or no spec. */
+	band: SpecBand | null;
+}
+
+export interface PhraseParser {
+	readonly steps: StepSpec[];
+	parse(text: string, ctx?: Omit<PhraseContext, 'steps'>): ParsedPhrase;
+}
+
+export const DEFAULT_TOLERANCE_PCT = 10;
+/** Lowest match score that names a step. */
+export const MATCH_THRESHOLD = 0.55;
+/** Two steps closer than this are ambiguous: Benchcall asks rather than guesses. */
+const AMBIGUITY_MARGIN = 0.03;
+const MAX_CANDIDATES = 5;
+const MAX_STEPS = 20_000;
+
+// --- intent words ---------------------------------------------------------------------------
+
+const UNDO_PHRASES = new Set([
+	'undo',
+	'undo that',
+	'undo it',
+	'undo last',
+	'undo the last',
+	'undo last entry',
+	'undo the last entry',
+	'undo my last entry',
+	'scratch that',
+	'take that back'
+]);
+const NEXT_PHRASES = new Set([
+	'next',
+	'next step',
+	'next one',
+	'whats next',
+	'what is next',
+	'what next',
+	'what now',
+	'whats the next step',
+	'what is the next step',
+	'show next',
+	'show next step',
+	'show the next step'
+]);
+const CANCEL_PHRASES = new Set([
+	'cancel',
+	'cancel that',
+	'cancel it',
+	'cancel this',
+	'cancel entry',
+	'cancel the entry',
+	'no cancel',
+	'abort',
+	'never mind',
+	'nevermind',
+	'dont log that',
+	'do not log that'
+]);
+// Longest first, so "whats the spec for" wins over "spec".
+const SPEC_PREFIXES = [
+	'whats the torque spec for',
+	'what is the torque spec for',
+	'whats the spec for',
+	'what is the spec for',
+	'whats the spec of',
+	'what is the spec of',
+	'whats the spec on',
+	'what is the spec on',
+	'whats the torque for',
+	'what is the torque for',
+	'show the spec for',
+	'show me the spec for',
+	'show spec for',
+	'whats the spec',
+	'what is the spec',
+	'what spec for',
+	'what spec',
+	'specs for',
+	'spec for',
+	'spec of',
+	'show spec',
+	'specs',
+	'spec'
+].map((p) => p.split(' '));
+const SPEC_SUFFIXES = [['spec'], ['specs'], ['spec', 'please']];
+const PART_PREFIXES = [
+	'fitted a new',
+	'fitted new',
+	'installed a new',
+	'installed new',
+	'put in a new',
+	'put in new',
+	'changed the',
+	'replaced the',
+	'renewed the',
+	'a new',
+	'new',
+	'replaced',
+	'renewed',
+	'replace',
+	'renew',
+	'changed',
+	'fitted',
+	'installed'
+].map((p) => p.split(' '));
+const PART_SUFFIXES = [['replaced'], ['renewed'], ['changed'], ['fitted'], ['installed']];
+const DONE_PREFIXES = ['mark done', 'done with', 'done', 'finished', 'completed', 'complete'].map(
+	(p) => p.split(' ')
+);
+const DONE_SUFFIXES = [
+	['done'],
+	['ok'],
+	['okay'],
+	['checked'],
+	['checked', 'ok'],
+	['passed'],
+	['complete'],
+	['completed'],
+	['finished'],
+	['good']
+];
+const NOTE_RE = /^\s*(?:add\s+(?:a\s+)?)?notes?\b[\s:,.;-]*([\s\S]*)$/i;
+
+function startsWith(tokens: string[], prefixes: string[][]): number {
+	for (const p of prefixes) {
+		if (p.length <= tokens.length && p.every((w, i) => tokens[i] === w)) return p.length;
+	}
+	return 0;
+}
+
+function endsWith(tokens: string[], suffixes: string[][]): number {
+	let best = 0;
+	for (const s of suffixes) {
+		const off = tokens.length - s.length;
+		if (off >= 1 && s.every((w, i) => tokens[off + i] === w)) best = Math.max(best, s.length);
+	}
+	return best;
+}
+
+// --- index per vocabulary -------------------------------------------------------------------
+
+interface Vocabulary {
+	steps: StepSpec[];
+	index: StepIndex;
+}
+
+const CACHE = new WeakMap<object, Vocabulary>();
+
+function safeSteps(steps: unknown): StepSpec[] {
+	if (!Array.isArray(steps)) return [];
+	return (steps as unknown[])
+		.slice(0, MAX_STEPS)
+		.filter((s): s is StepSpec => typeof s === 'object' && s !== null) as StepSpec[];
+}
+
+function buildVocabulary(raw: unknown): Vocabulary {
+	const steps = safeSteps(raw);
+	const index = new StepIndex(
+		steps.map((s) => ({
+			label: typeof s.label === 'string' ? s.label : String(s.id ?? ''),
+			aliases: Array.isArray(s.aliases) ? s.aliases.filter((a) => typeof a === 'string') : []
+		}))
+	);
+	return { steps, index };
+}
+
+function vocabularyFor(steps: StepSpec[]): Vocabulary {
+	if (!Array.isArray(steps)) return buildVocabulary([]);
+	let v = CACHE.get(steps);
+	if (!v) {
+		v = buildVocabulary(steps);
+		CACHE.set(steps, v);
+	}
+	return v;
+}
+
+/**
+ * A parser bound to one vocabulary, for callers that keep it (the call bar, the bench script).
+ * Treat `steps` as fixed: labels and aliases are indexed once; `done`, units and limits are read
+ * live at each parse.
+ */
+export function createPhraseParser(steps: StepSpec[]): PhraseParser {
+	const vocabulary = vocabularyFor(steps);
+	return {
+		steps,
+		parse: (text, ctx = {}) => safeParse(text, { ...ctx, steps }, vocabulary)
+	};
+}
+
+/**
+ * Reads one called-out phrase against the steps of a job. The search index is built once per
+ * steps array (cached by identity), so pass the same array while the vocabulary is unchanged.
+ * Never throws: bad input gives intent 'unknown' with a problem message.
+ */
+export function parsePhrase(text: string, ctx: PhraseContext): ParsedPhrase {
+	let vocabulary: Vocabulary;
+	try {
+		vocabulary = vocabularyFor(ctx?.steps);
+	} catch {
+		vocabulary = buildVocabulary([]);
+	}
+	return safeParse(text, ctx ?? { steps: [] }, vocabulary);
+}
+
+/** True when the phrase cancels a pending voice entry ("cancel", "cancel that", "never mind"). */
+export function isCancel(text: string): boolean {
+	if (typeof text !== 'string' || text.length > 60) return false;
+	return CANCEL_PHRASES.has(tokenize(normalizeText(text)).join(' '));
+}
+
+// --- the parse ------------------------------------------------------------------------------
+
+function empty(): ParsedPhrase {
+	return {
+		intent: 'unknown',
+		stepId: null,
+		candidates: [],
+		quantity: null,
+		specValue: null,
+		verdict: null,
+		occurredAt: null,
+		note: null,
+		problems: [],
+		unitAssumed: false,
+		band: null
+	};
+}
+
+function safeParse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): ParsedPhrase {
+	try {
+		return parse(text, ctx, vocabulary);
+	} catch (e) {
+		const r = empty();
+		r.problems.push(
+			'Benchcall could not read that phrase' +
+				(e instanceof Error && e.message ? ` (${e.message.slice(0, 120)}).` : '.')
+		);
+		return r;
+	}
+}
+
+function stepLabel(step: StepSpec | undefined): string {
+	return step && typeof step.label === 'string' && step.label ? step.label : 'that step';
+}
+
+function quote(s: string): string {
+	const t = s.length > 60 ? s.slice(0, 57) + '…' : s;
+	return `"${t}"`;
+}
+
+function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): ParsedPhrase {
+	const r = empty();
+	const { steps, index } = vocabulary;
+	if (typeof text !== 'string') {
+		r.problems.push('Nothing to read: the phrase is not text.');
+		return r;
+	}
+	let raw = text;
+	if (raw.length > MAX_PHRASE_CHARS) {
+		raw = raw.slice(0, MAX_PHRASE_CHARS);
+		r.problems.push(`Only the first ${MAX_PHRASE_CHARS} characters were read.`);
+	}
+	if (raw.trim() === '') {
+		r.problems.push('Nothing heard. Call out a step and a value, e.g. "rear axle 80 Nm".');
+		return r;
+	}
+
+	// note: keep the technician's own words and case
+	const noteMatch = NOTE_RE.exec(raw.normalize('NFKC'));
+	if (noteMatch) {
+		r.intent = 'note';
+		const body = (noteMatch[1] ?? '').replace(/\s+/g, ' ').trim();
+		if (body) r.note = body;
+		else r.problems.push('Say what to note after "note", e.g. "note left fork seal weeping".');
+		return r;
+	}
+
+	const now = ctx.now instanceof Date && !Number.isNaN(ctx.now.getTime()) ? ctx.now : new Date();
+	if (ctx.now !== undefined && now !== ctx.now) {
+		r.problems.push('The reference time was not a valid date; the current time was used.');
+	}
+	const timeZone =
+		typeof ctx.timeZone === 'string' && ctx.timeZone ? ctx.timeZone : defaultTimeZone();
+
+	const normalized = normalizeText(raw);
+	const time = extractTime(normalized, now, timeZone);
+	r.problems.push(...time.problems);
+	const tokens = tokenize(time.rest);
+	const joined = tokens.join(' ');
+
+	if (UNDO_PHRASES.has(joined)) {
+		r.intent = 'undo';
+		return r;
+	}
+	if (NEXT_PHRASES.has(joined)) {
+		r.intent = 'next';
+		const next = steps.find((s) => !s.done);
+		if (next) r.stepId = String(next.id);
+		else r.problems.push(steps.length ? 'Every step is done.' : 'This job has no steps.');
+		return r;
+	}
+	if (CANCEL_PHRASES.has(joined)) {
+		r.problems.push('"Cancel" stops a pending voice entry; there is nothing to log.');
+		return r;
+	}
+	r.occurredAt = time.occurredAt;
+
+	// spec: "spec fork fluid", "what's the spec for the fork oil", "fork oil spec"
+	const specPre = startsWith(tokens, SPEC_PREFIXES);
+	const specSuf = specPre ? 0 : endsWith(tokens, SPEC_SUFFIXES);
+	if (specPre || specSuf) {
+		r.intent = 'spec';
+		r.occurredAt = null;
+		const words = tokens.slice(specPre, tokens.length - specSuf);
+		pickStep(r, words, vocabulary, null, 'spec');
+		return r;
+	}
+
+	// part: "new drain plug washer", "replaced the air filter", "spark plugs replaced"
+	const partPre = startsWith(tokens, PART_PREFIXES);
+	const partSuf = partPre ? 0 : endsWith(tokens, PART_SUFFIXES);
+	if (partPre || partSuf) {
+		const words = tokens.slice(partPre, tokens.length - partSuf);
+		r.intent = 'part';
+		if (words.length === 0) {
+			r.problems.push('Say which part was fitted, e.g. "new drain plug washer".');
+			return r;
+		}
+		r.note = words.join(' ');
+		pickStep(r, words, vocabulary, null, 'part');
+		return r;
+	}
+
+	// done: "done test ride", "rear brake light checked ok" — unless a value follows
+	const donePre = startsWith(tokens, DONE_PREFIXES);
+	const doneSuf = donePre ? 0 : endsWith(tokens, DONE_SUFFIXES);
+	const numbers = findNumbers(tokens);
+	if ((donePre || doneSuf) && numbers.length === 0) {
+		r.intent = 'done';
+		const words = tokens.slice(donePre, tokens.length - doneSuf);
+		if (words.length === 0) {
+			r.problems.push('Say which step is done, e.g. "done test ride".');
+			return r;
+		}
+		pickStep(r, words, vocabulary, null, 'done');
+		return r;
+	}
+
+	// measure: "<step words> <number> [unit]"
+	if (numbers.length === 0) {
+		r.intent = 'unknown';
+		const words = toMatchTokens(tokens.slice(donePre, tokens.length - doneSuf));
+		const hits = index.search(words).filter((h) => h.score >= MATCH_THRESHOLD);
+		r.candidates = toCandidates(hits, steps);
+		const best = hits[0] ? steps[hits[0].index] : undefined;
+		if (best) {
+			r.problems.push(
+				`No value heard for ${stepLabel(best)}. Say a number, e.g. "${stepLabel(best).toLowerCase()} ${exampleValue(best)}", or "done ${stepLabel(best).toLowerCase()}".`
+			);
+		} else {
+			r.problems.push(
+				`Benchcall could not match ${quote(tokens.join(' ') || raw.trim())} to a step of this job. ` +
+					'Call out a step and a value ("rear axle 80 Nm"), or start with "note", "new", "spec", "done", "next" or "undo".'
+			);
+		}
+		return r;
+	}
+	measure(r, tokens, numbers, vocabulary, ctx);
+	return r;
+}
+
+function exampleValue(step: StepSpec): string {
+	const v = step.nominal ?? step.min ?? step.max;
+	if (typeof v !== 'number' || !Number.isFinite(v)) return '…';
+	return step.unit && unitInfo(step.unit) ? formatQuantity(v, step.unit) : String(v);
+}
+
+function toCandidates(hits: ScoredStep[], steps: StepSpec[]): ParsedPhrase['candidates'] {
+	return hits.slice(0, MAX_CANDIDATES).map((h) => ({
+		stepId: String(steps[h.index]?.id ?? ''),
+		score: h.score
+	}));
+}
+
+/** Picks the step that the words name among steps allowed by `accept`; sets problems. */
+function pickStep(
+	r: ParsedPhrase,
+	tokens: string[],
+	vocabulary: Vocabulary,
+	accept: ((step: StepSpec) => boolean) | null,
+	purpose: 'spec' | 'part' | 'done' | 'measure'
+): StepSpec | null {
+	const { steps, index } = vocabulary;
+	const words = toMatchTokens(tokens);
+	if (words.length === 0) {
+		if (purpose !== 'part') r.problems.push(whichStep(purpose));
+		return null;
+	}
+	const hits = index
+		.search(words)
+		.filter((h) => h.score >= MATCH_THRESHOLD)
+		.filter((h) => {
+			const s = steps[h.index];
+			return s !== undefined && (accept === null || accept(s));
+		});
+	r.candidates = toCandidates(hits, steps);
+	const [first, second] = hits;
+	if (!first) {
+		if (purpose === 'part') return null; // a part need not belong to a step
+		if (steps.length === 0) r.problems.push('This job has no steps to match.');
+		else r.problems.push(`No step of this job matches ${quote(tokens.join(' '))}.`);
+		return null;
+	}
+	if (second && first.score - second.score < AMBIGUITY_MARGIN) {
+		const tied = hits
+			.filter((h) => first.score - h.score < AMBIGUITY_MARGIN)
+			.slice(0, 3)
+			.map((h) => stepLabel(steps[h.index]));
+		r.problems.push(
+			`${quote(tokens.join(' '))} fits more than one step: ${tied.join(', ')}. Say which.`
+		);
+		return null;
+	}
+	const step = steps[first.index] ?? null;
+	r.stepId = step ? String(step.id) : null;
+	return step;
+}
+
+function whichStep(purpose: 'spec' | 'done' | 'measure' | 'part'): string {
+	if (purpose === 'spec') return 'Which step? e.g. "spec rear axle".';
+	if (purpose === 'done') return 'Which step is done? e.g. "done test ride".';
+	return 'Which step? Say its name with the value, e.g. "rear axle 80 Nm".';
+}
+
+const GLUE_WORDS = new Set(['the', 'a', 'an', 'of', 'and']);
+const AFTER_VALUE_FILLERS = new Set(['done', 'ok', 'okay', 'filled', 'added', 'set']);
+
+function measure(
+	r: ParsedPhrase,
+	tokens: string[],
+	numbers: NumberSpan[],
+	vocabulary: Vocabulary,
+	ctx: PhraseContext
+): void {
+	r.intent = 'measure';
+	const span = numbers[numbers.length - 1] as NumberSpan;
+
+	// the unit: the longest run of words after the number that names one
+	let unit: string | null = null;
+	let unitEnd = span.end;
+	for (let k = Math.min(7, tokens.length - span.end); k >= 1; k--) {
+		const words = tokens.slice(span.end, span.end + k);
+		const next = tokens[span.end + k];
+		// "in" is the inch only where it cannot be the preposition ("1.1 in the sump")
+		if (k === 1 && words[0] === 'in' && next !== undefined && /^[a-z]/.test(next)) continue;
+		if (GLUE_WORDS.has(words[words.length - 1] ?? '')) continue;
+		const code = unitFromWords(words.join(' '));
+		if (code) {
+			unit = code;
+			unitEnd = span.end + k;
+			break;
+		}
+	}
+
+	const stepTokens = [...tokens.slice(0, span.start), ...tokens.slice(unitEnd)].filter(
+		(t, i, all) => !(i === all.length - 1 && AFTER_VALUE_FILLERS.has(t))
+	);
+
+	// a word right after the number that is neither a unit nor part of any step name
+	if (!unit) {
+		const after = tokens[span.end];
+		if (after !== undefined && /^[a-zµμω°"]/.test(after) && looksLikeUnit(after, vocabulary)) {
+			r.problems.push(
+				`${quote(after)} is not a unit Benchcall knows. Say e.g. N·m, kgf·m, lbf·ft, mL, L, mm, psi, bar, kPa, V, rpm or °C.`
+			);
+			pickStep(
+				r,
+				stepTokens.filter((t) => t !== after),
+				vocabulary,
+				null,
+				'measure'
+			);
+			return;
+		}
+	}
+
+	const dim = unit ? dimensionOf(unit) : null;
+	const sameKind = (s: StepSpec) =>
+		!dim || (typeof s.unit === 'string' && dimensionOf(s.unit) === dim);
+	let step = pickStep(r, stepTokens, vocabulary, sameKind, 'measure');
+
+	if (!step && dim && r.candidates.length === 0) {
+		// nothing of this kind matches: is there a step of another kind with these words?
+		const probe = empty();
+		const other = pickStep(probe, stepTokens, vocabulary, null, 'measure');
+		if (other) {
+			r.stepId = probe.stepId;
+			r.candidates = probe.candidates;
+			r.problems.splice(
+				0,
+				r.problems.length,
+				...r.problems.filter((p) => !p.startsWith('No step'))
+			);
+			const otherDim = typeof other.unit === 'string' ? dimensionOf(other.unit) : null;
+			r.quantity = { value: span.value, unit: unit as string };
+			r.problems.push(
+				otherDim
+					? `${stepLabel(other)} is measured in ${unitInfo(other.unit as string)?.symbol} (${otherDim}); ${formatQuantity(span.value, unit as string)} is a ${dim}.`
+					: `${stepLabel(other)} has no unit to compare ${formatQuantity(span.value, unit as string)} with.`
+			);
+			r.verdict = otherDim ? null : 'no_spec';
+			return;
+		}
+	}
+	step = step ?? null;
+
+	if (!step) {
+		if (unit) r.quantity = { value: span.value, unit };
+		return;
+	}
+
+	const stepUnit = typeof step.unit === 'string' && step.unit ? step.unit : null;
+	const stepUnitKnown = stepUnit !== null && unitInfo(stepUnit) !== undefined;
+	if (stepUnit && !stepUnitKnown) {
+		r.problems.push(
+			`${stepLabel(step)} has the unit '${stepUnit}', which Benchcall does not know.`
+		);
+	}
+	if (!unit) {
+		r.unitAssumed = true;
+		unit = stepUnit ?? '1';
+	}
+	r.quantity = { value: span.value, unit };
+	if (!stepUnit || !stepUnitKnown || unit === '1' || !unitInfo(unit)) {
+		r.verdict = 'no_spec';
+		return;
+	}
+	const judged = judge(span.value, unit, step, ctx.tolerancePct);
+	r.specValue = judged.specValue;
+	r.verdict = judged.verdict;
+	r.band = judged.band;
+	r.problems.push(...judged.problems);
+}
+
+/** A short word that is in no step name and is not a number word: probably a misheard unit. */
+function looksLikeUnit(word: string, vocabulary: Vocabulary): boolean {
+	if (word.length > 12) return false;
+	const sims = vocabulary.index.similar(word);
+	return (
+		sims.size === 0 &&
+		!AFTER_VALUE_FILLERS.has(word) &&
+		!FILLER_WORDS.has(word) &&
+		!GLUE_WORDS.has(word) &&
+		!/^\d/.test(word)
+	);
+}
+
+// --- the verdict ----------------------------------------------------------------------------
+
+export interface Judgement {
+	specValue: { value: number; unit: string } | null;
+	verdict: Verdict | null;
+	band: SpecBand | null;
+	problems: string[];
+}
+
+const finite = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
+
+/** Float slack at a bound: 950 mL against 0.95 L is in, however the product rounds. */
+function slack(bound: number): number {
+	return Math.abs(bound) * 1e-9 + 1e-12;
+}
+
+/**
+ * Judges a value against a step's spec, in the step's own unit: min and max inclusive; with
+ * only a nominal, nominal ± tolerancePct (shop policy, default 10 %); neither, or no unit on the
+ * step: 'no_spec'. A unit of another kind gives no verdict and a problem. Never throws.
+ */
+export function judge(
+	value: number,
+	unit: string,
+	step: Pick<StepSpec, 'label' | 'unit' | 'nominal' | 'min' | 'max'>,
+	tolerancePct: number = DEFAULT_TOLERANCE_PCT
+): Judgement {
+	const out: Judgement = { specValue: null, verdict: null, band: null, problems: [] };
+	try {
+		const stepUnit = typeof step.unit === 'string' && step.unit ? step.unit : null;
+		if (!finite(value)) {
+			out.problems.push('The value is not a number.');
+			return out;
+		}
+		if (!stepUnit || !unitInfo(stepUnit)) {
+			out.verdict = 'no_spec';
+			return out;
+		}
+		const from = unitInfo(unit);
+		if (!from) {
+			out.problems.push(`'${unit}' is not a unit Benchcall knows.`);
+			return out;
+		}
+		if (dimensionOf(unit) !== dimensionOf(stepUnit)) {
+			out.problems.push(
+				`${stepLabel(step as StepSpec)} is measured in ${unitInfo(stepUnit)?.symbol} (${dimensionOf(stepUnit)}); ${formatQuantity(value, unit)} is a ${from.dimension}.`
+			);
+			return out;
+		}
+		const v = convert(value, unit, stepUnit);
+		out.specValue = { value: v, unit: stepUnit };
+
+		let min = finite(step.min) ? step.min : null;
+		let max = finite(step.max) ? step.max : null;
+		let source: SpecBand['source'] = 'spec';
+		if (min === null && max === null) {
+			if (!finite(step.nominal)) {
+				out.verdict = 'no_spec';
+				return out;
+			}
+			let pct = tolerancePct;
+			if (!finite(pct) || pct < 0 || pct >= 100) {
+				out.problems.push(
+					`Tolerance ${String(tolerancePct)} % is not usable; the shop default ±${DEFAULT_TOLERANCE_PCT} % was used.`
+				);
+				pct = DEFAULT_TOLERANCE_PCT;
+			}
+			const n = step.nominal;
+			const d = Math.abs(n) * pct;
+			// computed in hundredths to keep 5.4 × 0.9 = 4.86 clean
+			min = Number(((n * 100 - d) / 100).toPrecision(15));
+			max = Number(((n * 100 + d) / 100).toPrecision(15));
+			source = 'shop_tolerance';
+		}
+		if (min !== null && max !== null && min > max) {
+			out.problems.push(`The spec of ${stepLabel(step as StepSpec)} has min above max.`);
+			[min, max] = [max, min];
+		}
+		out.band = { min, max, source };
+		if (min !== null && v < min - slack(min)) out.verdict = 'low';
+		else if (max !== null && v > max + slack(max)) out.verdict = 'high';
+		else out.verdict = 'in';
+		return out;
+	} catch (e) {
+		out.verdict = null;
+		out.problems.push(e instanceof Error ? e.message : 'The value could not be judged.');
+		return out;
+	}
+}

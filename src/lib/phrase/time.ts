@@ -1,0 +1,147 @@
+import * as chrono from 'chrono-node';
+import { wordsToNumber } from './numbers';
+
+/**
+ * Back-dating: "… at 10:30", "… at 3 pm", "… yesterday at 16:05", "… 5 minutes ago",
+ * "… twenty minutes ago", "… half an hour ago". The clause is cut out of the phrase by a narrow
+ * pattern (so "torqued at 80" is never read as a time) and resolved with chrono-node against
+ * `now` in the shop's time zone.
+ */
+
+const NUM_WORD =
+	'(?:(?:twenty|thirty|forty|fifty)[\\s-]?(?:one|two|three|four|five|six|seven|eight|nine)|' +
+	'one|two|three|four|five|six|seven|eight|nine|ten|eleven|twelve|thirteen|fourteen|fifteen|' +
+	'sixteen|seventeen|eighteen|nineteen|twenty|thirty|forty|fifty|sixty|ninety)';
+const AGO_RE = new RegExp(
+	`(?:^|\\s)((\\d{1,3}|${NUM_WORD}|an?|half an?|a couple of|a few)\\s*` +
+		'(seconds?|secs?|minutes?|mins?|hours?|hrs?|hr|h)\\s+ago)(?=\\s|$|[.,!?])'
+);
+const CLOCK_RE =
+	/(?:^|\s)((?:(yesterday|today)\s+)?(?:at\s+)?(?:(\d{1,2})(?::|h)(\d{2})\s*(am|pm|a\.m\.|p\.m\.)?|(\d{1,2})\s*(am|pm|a\.m\.|p\.m\.)|(\d{1,2})\s+o'?clock))(?=\s|$|[.,!?])/;
+
+export interface TimeClause {
+	/** The phrase with the time clause cut out. */
+	rest: string;
+	occurredAt: string | null;
+	problems: string[];
+}
+
+const dtfCache = new Map<string, Intl.DateTimeFormat>();
+
+/** Minutes east of UTC for `timeZone` at `instant`; throws RangeError for an unknown zone. */
+export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
+	let dtf = dtfCache.get(timeZone);
+	if (!dtf) {
+		dtf = new Intl.DateTimeFormat('en-US', {
+			timeZone,
+			hourCycle: 'h23',
+			year: 'numeric',
+			month: 'numeric',
+			day: 'numeric',
+			hour: 'numeric',
+			minute: 'numeric',
+			second: 'numeric'
+		});
+		if (dtfCache.size > 50) dtfCache.clear();
+		dtfCache.set(timeZone, dtf);
+	}
+	const p: Record<string, number> = {};
+	for (const part of dtf.formatToParts(instant)) {
+		if (part.type !== 'literal') p[part.type] = Number(part.value);
+	}
+	const asUtc = Date.UTC(
+		p.year ?? 1970,
+		(p.month ?? 1) - 1,
+		p.day ?? 1,
+		(p.hour ?? 0) % 24,
+		p.minute ?? 0,
+		p.second ?? 0
+	);
+	const whole = Math.floor(instant.getTime() / 1000) * 1000;
+	return Math.round((asUtc - whole) / 60000);
+}
+
+export function defaultTimeZone(): string {
+	try {
+		return Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC';
+	} catch {
+		return 'UTC';
+	}
+}
+
+function cut(text: string, index: number, clause: string): string {
+	return (text.slice(0, index) + ' ' + text.slice(index + clause.length)).trim();
+}
+
+/** Finds and resolves a time clause in normalised (lower-case) phrase text. */
+export function extractTime(text: string, now: Date, timeZone: string): TimeClause {
+	const problems: string[] = [];
+	const ago = AGO_RE.exec(text);
+	const clock = ago ? null : CLOCK_RE.exec(text);
+	const m = ago ?? clock;
+	if (!m || m[1] === undefined) return { rest: text, occurredAt: null, problems };
+	const clause = m[1];
+	const start = m.index + m[0].length - clause.length;
+	const rest = cut(text, start, clause);
+
+	let offset = 0;
+	try {
+		offset = zoneOffsetMinutes(now, timeZone);
+	} catch {
+		problems.push(`Unknown time zone '${timeZone}'; the time was read as UTC.`);
+	}
+
+	let canonical: string;
+	if (ago) {
+		const amount = (ago[2] ?? '').trim();
+		const unit = ago[3] ?? 'minutes';
+		let n: number | null;
+		if (/^half an?$/.test(amount)) {
+			canonical = '30 minutes ago';
+			n = 30;
+		} else {
+			n = /^\d+$/.test(amount)
+				? Number(amount)
+				: /^an?$/.test(amount)
+					? 1
+					: amount === 'a couple of'
+						? 2
+						: amount === 'a few'
+							? 3
+							: wordsToNumber(amount);
+			const unitWord = unit.startsWith('h')
+				? 'hours'
+				: unit.startsWith('s')
+					? 'seconds'
+					: 'minutes';
+			canonical = `${n ?? 0} ${unitWord} ago`;
+		}
+		if (n === null) return { rest, occurredAt: null, problems };
+	} else {
+		const day = clock?.[2];
+		const hour = clock?.[3] ?? clock?.[6] ?? clock?.[8];
+		const minute = clock?.[4] ?? '00';
+		const meridiem = (clock?.[5] ?? clock?.[7] ?? '').replace(/\./g, '');
+		canonical = `${day ?? 'today'} at ${hour}:${minute}${meridiem ? ' ' + meridiem : ''}`;
+	}
+
+	const ref = { instant: now, timezone: offset };
+	const date = chrono.parseDate(canonical, ref, { forwardDate: false });
+	if (!date || Number.isNaN(date.getTime())) {
+		problems.push(`Could not read the time '${clause}'.`);
+		return { rest, occurredAt: null, problems };
+	}
+	let when = date.getTime();
+	const explicitDay = !ago && clock?.[2] !== undefined;
+	// A clock time later than now means the same time yesterday ("at 23:50" said after midnight),
+	// unless it is only a little ahead, which is a clock difference, not a back-date.
+	if (!ago && when > now.getTime() + 60_000) {
+		if (!explicitDay && when - now.getTime() > 60 * 60_000) {
+			when -= 24 * 60 * 60_000;
+		} else {
+			problems.push(`${clause} is later than now; the entry keeps the current time.`);
+			return { rest, occurredAt: null, problems };
+		}
+	}
+	return { rest, occurredAt: new Date(when).toISOString(), problems };
+}
