@@ -491,6 +491,22 @@ async function main() {
 			procRows.push({ row, steps });
 		}
 
+		// The default final-inspection checklist (common workshop practice); the owner edits it.
+		await tx
+			.insert(s.inspectionItem)
+			.values(
+				[
+					'No leaks (oil, fuel, brake fluid)',
+					'Exhaust sealed at the port and joints',
+					'Throttle returns freely at every steering position',
+					'Brakes: lever and pedal feel, operation',
+					'Lights and horn',
+					'Chain slack and wheel alignment',
+					'Cables and wiring routed without pinching',
+					'Test ride'
+				].map((label, i) => ({ shopId: shop.id, label, position: i + 1 }))
+			);
+
 		const customers = await tx
 			.insert(s.customer)
 			.values([
@@ -856,16 +872,14 @@ async function main() {
 			year: 2020
 		})
 		.returning();
-	await db
-		.insert(s.job)
-		.values({
-			shopId: other.id,
-			number: 501,
-			customerId: oc.id,
-			vehicleId: ov.id,
-			concern: 'Brakes squeal.',
-			state: 'open'
-		});
+	await db.insert(s.job).values({
+		shopId: other.id,
+		number: 501,
+		customerId: oc.id,
+		vehicleId: ov.id,
+		concern: 'Brakes squeal.',
+		state: 'open'
+	});
 
 	console.log(`  Demo shop "${demoShopName}" seeded (plus "${otherShopName}").`);
 }

@@ -373,6 +373,12 @@ export const logEntry = pgTable(
 		/** The torque tool was past its calibration due date when this entry was made. */
 		toolCalibrationOverdue: boolean('tool_calibration_overdue').notNull().default(false),
 		retracts: uuid('retracts').references((): AnyPgColumn => logEntry.id),
+		/** For a foreman's accept or redo: the out-of-spec entry it answers. */
+		respondsTo: uuid('responds_to').references((): AnyPgColumn => logEntry.id),
+		/** For an inspection entry: the checklist item ticked. */
+		inspectionItemId: uuid('inspection_item_id').references(() => inspectionItem.id, {
+			onDelete: 'set null'
+		}),
 		occurredAt: timestamp('occurred_at', { withTimezone: true }).notNull(),
 		recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow()
 	},
@@ -381,7 +387,8 @@ export const logEntry = pgTable(
 		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
 		index('log_entry_shop_seq_idx').on(t.shopId, t.seq),
 		index('log_entry_step_idx').on(t.jobStepId),
-		index('log_entry_retracts_idx').on(t.retracts)
+		index('log_entry_retracts_idx').on(t.retracts),
+		index('log_entry_responds_to_idx').on(t.respondsTo)
 	]
 );
 export type LogEntry = typeof logEntry.$inferSelect;
@@ -405,4 +412,39 @@ export const attachment = pgTable(
 		createdAt: createdAt()
 	},
 	(t) => [index('attachment_job_idx').on(t.jobId), index('attachment_entry_idx').on(t.entryId)]
+);
+
+/** The shop's final-inspection checklist. Ticks are log entries of kind `inspection`. */
+export const inspectionItem = pgTable(
+	'inspection_item',
+	{
+		id: id(),
+		shopId: shopRef(),
+		label: text('label').notNull(),
+		position: integer('position').notNull(),
+		active: boolean('active').notNull().default(true),
+		createdAt: createdAt()
+	},
+	(t) => [index('inspection_item_shop_idx').on(t.shopId, t.position)]
+);
+
+/** The customer's approval of extra work found during a job, recorded before steps are added. */
+export const jobApproval = pgTable(
+	'job_approval',
+	{
+		id: id(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		description: text('description').notNull(),
+		/** Who approved: the customer's name as they gave it. */
+		approvedBy: text('approved_by').notNull(),
+		/** How: in person, phone, e-mail, text message. */
+		channel: text('channel').notNull(),
+		approvedAt: timestamp('approved_at', { withTimezone: true }).notNull(),
+		recordedBy: uuid('recorded_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: createdAt()
+	},
+	(t) => [index('job_approval_job_idx').on(t.jobId)]
 );
