@@ -239,6 +239,35 @@ describe('step matching', () => {
 		}
 	});
 
+	it('finds the named step among thousands of look-alikes', () => {
+		const sides = ['front', 'rear', 'left', 'right', 'upper', 'lower'];
+		const places = ['brake disc', 'caliper', 'footrest', 'engine mount', 'wheel hub', 'fork'];
+		const things = ['bolt', 'nut', 'free play', 'clearance', 'screw'];
+		const many: StepSpec[] = [];
+		for (let i = 0; i < 3000; i++) {
+			const side = sides[i % 6] as string;
+			const place = places[Math.floor(i / 6) % 6] as string;
+			const thing = things[Math.floor(i / 36) % 5] as string;
+			many.push({
+				id: `s${i}`,
+				label: `${side} ${place} ${thing} ${i}`,
+				unit: 'mm',
+				min: 1,
+				max: 2
+			});
+		}
+		many.push({ id: 'target', label: 'Brake pedal free play', unit: 'mm', min: 20, max: 30 });
+		const parser = createPhraseParser(many);
+		const r = parser.parse('brake pedal free play 25 mm');
+		expect(r.stepId).toBe('target');
+		expect(r.verdict).toBe('in');
+		expect(parser.parse('spec brake pedal free play').stepId).toBe('target');
+		const label = many[1234]?.label ?? '';
+		expect(label).toBe('upper caliper screw 1234');
+		expect(parser.parse(`${label} 1.5`).stepId).toBe('s1234');
+		expect(parser.parse('upper caliper screw 1235 1.5').stepId).toBeNull();
+	});
+
 	it('builds the index once per vocabulary and reuses it', () => {
 		const parser = createPhraseParser(JOB);
 		const a = parser.parse('oil 1 l', { now: NOW, timeZone: 'UTC' });

@@ -464,12 +464,11 @@ function pickStep(
 		return null;
 	}
 	const hits = index
-		.search(words)
-		.filter((h) => h.score >= MATCH_THRESHOLD)
-		.filter((h) => {
-			const s = steps[h.index];
+		.search(words, (i) => {
+			const s = steps[i];
 			return s !== undefined && (accept === null || accept(s));
-		});
+		})
+		.filter((h) => h.score >= MATCH_THRESHOLD);
 	r.candidates = toCandidates(hits, steps);
 	const [first, second] = hits;
 	if (!first) {

@@ -93,11 +93,17 @@ const MIN_WORD_SIM = 0.7;
 const MIN_PAIR_SIM = 0.85;
 const FUSE_LIMIT = 40;
 const SIM_CACHE_MAX = 4000;
+/** Steps whose estimate is below this are not scored (the match threshold is 0.55). */
+const MIN_ESTIMATE = 0.4;
+/** How many of the best estimates get the full score. */
+const FULL_SCORE_LIMIT = 64;
 
 export interface MatchName {
 	tokens: string[];
 	/** Adjacent token pairs run together: ['swingarm', 'armpivot']. */
 	pairs: string[];
+	set: Set<string>;
+	hasDigits: boolean;
 }
 
 export interface ScoredStep {
@@ -141,13 +147,17 @@ function nameOf(text: string): MatchName {
 			.filter((t) => /[\p{L}\p{N}]/u.test(t))
 			.map(stem);
 	}
-	return { tokens, pairs: pairsOf(tokens) };
+	return { tokens, pairs: pairsOf(tokens), set: new Set(tokens), hasDigits: tokens.some(isDigits) };
 }
 
 function pairsOf(tokens: string[]): string[] {
 	const pairs: string[] = [];
 	for (let i = 0; i + 1 < tokens.length; i++) pairs.push((tokens[i] ?? '') + (tokens[i + 1] ?? ''));
 	return pairs;
+}
+
+function bucketKeys(w: string): string[] {
+	return w.length >= 2 ? ['1' + w[0], '2' + w[1]] : [];
 }
 
 const isDigits = (w: string) => /^-?[\d.]+$/.test(w);
@@ -192,13 +202,31 @@ export function wordSimilarity(a: string, b: string): number {
 
 export class StepIndex {
 	readonly names: MatchName[][];
-	private readonly fuse: Fuse<string>;
+	/** Vocabulary words by first letter and by second letter; one Fuse index each, built lazily.
+	 * A word said with either of its first two letters right finds its match, and each search
+	 * runs over a small share of the vocabulary. */
+	private readonly buckets = new Map<string, string[]>();
+	private readonly fuses = new Map<string, Fuse<string>>();
 	private readonly postings = new Map<string, number[]>();
 	private readonly simCache = new Map<string, Map<string, number>>();
+	/** Shortest name (in tokens) per step, for the estimate. */
+	private readonly minLen: Int32Array;
+	// scratch space for search(), reused between calls
+	private acc = new Float64Array(0);
+	private accTok = new Float64Array(0);
+	private cur = new Float64Array(0);
+	private stamp = new Int32Array(0);
+	private seen = new Int32Array(0);
+	private allowed = new Int8Array(0);
+	private epoch = 0;
+	private stampCounter = 0;
 
 	constructor(labels: { label: string; aliases: string[] }[]) {
 		this.names = labels.map(({ label, aliases }) =>
 			[label, ...aliases].map(nameOf).filter((n) => n.tokens.length > 0)
+		);
+		this.minLen = Int32Array.from(this.names, (names) =>
+			Math.max(1, Math.min(...names.map((n) => n.tokens.length), 64))
 		);
 		this.names.forEach((names, index) => {
 			for (const name of names) {
@@ -209,13 +237,29 @@ export class StepIndex {
 				}
 			}
 		});
-		this.fuse = new Fuse([...this.postings.keys()], {
+		for (const w of this.postings.keys()) {
+			for (const key of bucketKeys(w)) {
+				const list = this.buckets.get(key);
+				if (list) list.push(w);
+				else this.buckets.set(key, [w]);
+			}
+		}
+	}
+
+	private fuseFor(key: string): Fuse<string> | null {
+		let f = this.fuses.get(key);
+		if (f) return f;
+		const words = this.buckets.get(key);
+		if (!words) return null;
+		f = new Fuse(words, {
 			includeScore: true,
 			threshold: 0.4,
 			ignoreLocation: true,
 			minMatchCharLength: 2,
 			shouldSort: true
 		});
+		this.fuses.set(key, f);
+		return f;
 	}
 
 	get size(): number {
@@ -229,10 +273,12 @@ export class StepIndex {
 		const found = new Map<string, number>();
 		if (this.postings.has(word)) found.set(word, 1);
 		if (!isDigits(word) && word.length >= 3) {
-			for (const r of this.fuse.search(word, { limit: FUSE_LIMIT })) {
-				if (found.has(r.item)) continue;
-				const sim = wordSimilarity(word, r.item);
-				if (sim > 0) found.set(r.item, sim);
+			for (const key of bucketKeys(word)) {
+				for (const r of this.fuseFor(key)?.search(word, { limit: FUSE_LIMIT }) ?? []) {
+					if (found.has(r.item)) continue;
+					const sim = wordSimilarity(word, r.item);
+					if (sim > 0) found.set(r.item, sim);
+				}
 			}
 		}
 		if (this.simCache.size >= SIM_CACHE_MAX) this.simCache.clear();
@@ -240,25 +286,88 @@ export class StepIndex {
 		return found;
 	}
 
-	/** Steps whose names match the said words, best first, scores 0..1. */
-	search(said: string[]): ScoredStep[] {
+	/**
+	 * Steps whose names match the said words, best first, scores 0..1. `accept` limits the
+	 * steps considered (by index), e.g. to those measured in the said unit's kind.
+	 */
+	search(said: string[], accept?: (index: number) => boolean): ScoredStep[] {
 		const qTokens = said.slice(0, 16);
 		if (qTokens.length === 0) return [];
 		const qPairs = pairsOf(qTokens);
 		const qSims = qTokens.map((w) => this.similar(w));
 		const pSims = qPairs.map((w) => this.similar(w));
+		const q: Query = {
+			tokens: qTokens,
+			sims: qSims,
+			pairSims: pSims,
+			hasDigits: qTokens.some(isDigits)
+		};
 
-		const candidates = new Set<number>();
-		for (const sims of [...qSims, ...pSims]) {
-			for (const w of sims.keys()) for (const i of this.postings.get(w) ?? []) candidates.add(i);
+		// Phase 1: a cheap estimate from the postings of every similar word, so that only the
+		// most promising steps get the full score (a 5,000-step vocabulary shares many words).
+		const n = this.names.length;
+		if (this.acc.length !== n) {
+			this.acc = new Float64Array(n);
+			this.accTok = new Float64Array(n);
+			this.cur = new Float64Array(n);
+			this.stamp = new Int32Array(n);
+			this.seen = new Int32Array(n);
+			this.allowed = new Int8Array(n);
 		}
-
-		const out: ScoredStep[] = [];
-		for (const index of candidates) {
-			let best = 0;
-			for (const name of this.names[index] ?? []) {
-				best = Math.max(best, scoreName(name, qTokens, qSims, pSims));
+		if (this.stampCounter > 1e9) {
+			this.stamp.fill(0);
+			this.seen.fill(0);
+			this.stampCounter = 0;
+			this.epoch = 0;
+		}
+		const epoch = ++this.epoch;
+		const touched: number[] = [];
+		const units = [...qSims.map((m) => [m, 1] as const), ...pSims.map((m) => [m, 2] as const)];
+		for (const [sims, weight] of units) {
+			const stamp = ++this.stampCounter;
+			for (const [w, sim] of sims) {
+				if (weight === 2 && sim < MIN_PAIR_SIM) continue;
+				const s = sim * weight;
+				for (const i of this.postings.get(w) ?? []) {
+					if (this.seen[i] !== epoch) {
+						this.seen[i] = epoch;
+						this.acc[i] = 0;
+						this.accTok[i] = 0;
+						this.allowed[i] = accept ? (accept(i) ? 1 : 2) : 1;
+						if (this.allowed[i] === 1) touched.push(i);
+					}
+					if (this.allowed[i] !== 1) continue;
+					let delta = 0;
+					if (this.stamp[i] !== stamp) {
+						this.stamp[i] = stamp;
+						this.cur[i] = s;
+						delta = s;
+					} else if (s > (this.cur[i] ?? 0)) {
+						delta = s - (this.cur[i] ?? 0);
+						this.cur[i] = s;
+					}
+					this.acc[i] = (this.acc[i] ?? 0) + delta;
+					if (weight === 1) this.accTok[i] = (this.accTok[i] ?? 0) + delta;
+				}
 			}
+		}
+		const qLen = qTokens.length;
+		const estimates: { index: number; est: number; len: number }[] = [];
+		for (const i of touched) {
+			const len = this.minLen[i] ?? 1;
+			const est =
+				0.55 * Math.min(1, (this.accTok[i] ?? 0) / qLen) +
+				0.45 * Math.min(1, (this.acc[i] ?? 0) / len);
+			if (est >= MIN_ESTIMATE) estimates.push({ index: i, est, len });
+		}
+		// equal estimates: shorter names first, as they will score higher on recall
+		estimates.sort((x, y) => y.est - x.est || x.len - y.len || x.index - y.index);
+
+		// Phase 2: the full score for the best estimates.
+		const out: ScoredStep[] = [];
+		for (const { index } of estimates.slice(0, FULL_SCORE_LIMIT)) {
+			let best = 0;
+			for (const name of this.names[index] ?? []) best = Math.max(best, scoreName(name, q));
 			if (best > 0) out.push({ index, score: Math.round(best * 1000) / 1000 });
 		}
 		out.sort((a, b) => b.score - a.score || a.index - b.index);
@@ -266,12 +375,15 @@ export class StepIndex {
 	}
 }
 
-function scoreName(
-	name: MatchName,
-	qTokens: string[],
-	qSims: Map<string, number>[],
-	pSims: Map<string, number>[]
-): number {
+interface Query {
+	tokens: string[];
+	sims: Map<string, number>[];
+	pairSims: Map<string, number>[];
+	hasDigits: boolean;
+}
+
+function scoreName(name: MatchName, q: Query): number {
+	const { tokens: qTokens, sims: qSims, pairSims: pSims } = q;
 	const nT = name.tokens;
 	const qBest = new Array<number>(qTokens.length).fill(0);
 	const nBest = new Array<number>(nT.length).fill(0);
@@ -312,15 +424,13 @@ function scoreName(
 	let score = 0.55 * precision + 0.45 * recall;
 
 	// contradictions: "rear" said, "front" in the name; "cylinder 2" said, "cylinder 1" named
-	const nameSet = new Set(nT);
-	for (const q of qTokens) {
-		if (nameSet.has(q)) continue;
-		const opp = OPPOSITES[q];
+	const nameSet = name.set;
+	for (const t of qTokens) {
+		if (nameSet.has(t)) continue;
+		const opp = OPPOSITES[t];
 		if (opp && opp.some((o) => nameSet.has(o))) score *= 0.4;
 	}
-	const qDigits = qTokens.filter(isDigits);
-	const nDigits = nT.filter(isDigits);
-	if (qDigits.length > 0 && nDigits.length > 0 && !qDigits.some((d) => nameSet.has(d))) {
+	if (q.hasDigits && name.hasDigits && !qTokens.some((d) => isDigits(d) && nameSet.has(d))) {
 		score *= 0.4;
 	}
 	return Math.min(1, score);
