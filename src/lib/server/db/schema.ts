@@ -448,3 +448,156 @@ export const jobApproval = pgTable(
 	},
 	(t) => [index('job_approval_job_idx').on(t.jobId)]
 );
+
+// ——— Invoices, payments and e-mail (issue 8) ———
+
+export const invoiceKindEnum = pgEnum('invoice_kind', ['invoice', 'credit_note']);
+export const invoiceStatusEnum = pgEnum('invoice_status', ['draft', 'issued', 'paid', 'credited']);
+export const labourModeEnum = pgEnum('labour_mode', ['flat_rate', 'clock']);
+
+/**
+ * An invoice or a credit note. A draft may change; issuing gives it the shop's next number and
+ * freezes it: a mistake after issue is put right with a credit note (`creditFor`), never an edit.
+ * Amounts are integers in the currency's minor units (ISO 4217 exponent).
+ */
+export const invoice = pgTable(
+	'invoice',
+	{
+		id: id(),
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		kind: invoiceKindEnum('kind').notNull().default('invoice'),
+		/** Null until issued; then the shop's next number, gapless. */
+		number: integer('number'),
+		status: invoiceStatusEnum('status').notNull().default('draft'),
+		/** ISO 4217 code copied from the shop when the draft is made. */
+		currency: text('currency').notNull(),
+		labourMode: labourModeEnum('labour_mode').notNull().default('flat_rate'),
+		labourRateMinor: integer('labour_rate_minor').notNull().default(0),
+		taxRateBp: integer('tax_rate_bp').notNull().default(0),
+		subtotalMinor: integer('subtotal_minor').notNull().default(0),
+		taxMinor: integer('tax_minor').notNull().default(0),
+		totalMinor: integer('total_minor').notNull().default(0),
+		issuedAt: timestamp('issued_at', { withTimezone: true }),
+		issuedBy: uuid('issued_by').references(() => user.id, { onDelete: 'set null' }),
+		creditFor: uuid('credit_for').references((): AnyPgColumn => invoice.id),
+		/** The customer's private page `/r/<token>`: 256 random bits, base64url. */
+		customerToken: text('customer_token').notNull(),
+		/** The payment provider's checkout session for the total, once made. */
+		checkoutSessionId: text('checkout_session_id'),
+		paidAt: timestamp('paid_at', { withTimezone: true }),
+		createdBy: uuid('created_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: createdAt(),
+		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		uniqueIndex('invoice_shop_number_key').on(t.shopId, t.number),
+		uniqueIndex('invoice_customer_token_key').on(t.customerToken),
+		index('invoice_job_idx').on(t.shopId, t.jobId),
+		index('invoice_checkout_session_idx').on(t.checkoutSessionId)
+	]
+);
+export type Invoice = typeof invoice.$inferSelect;
+
+export const invoiceLineKindEnum = pgEnum('invoice_line_kind', [
+	'part',
+	'fluid',
+	'labour',
+	'sundry',
+	'discount'
+]);
+
+export const invoiceLine = pgTable(
+	'invoice_line',
+	{
+		id: id(),
+		shopId: shopRef(),
+		invoiceId: uuid('invoice_id')
+			.notNull()
+			.references(() => invoice.id, { onDelete: 'cascade' }),
+		kind: invoiceLineKindEnum('kind').notNull(),
+		description: text('description').notNull(),
+		partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
+		quantity: doublePrecision('quantity').notNull(),
+		/** Price-list unit (each, L, mL) or h for labour. */
+		unit: text('unit').notNull(),
+		unitPriceMinor: integer('unit_price_minor').notNull(),
+		amountMinor: integer('amount_minor').notNull(),
+		taxRateBp: integer('tax_rate_bp').notNull().default(0),
+		taxMinor: integer('tax_minor').notNull().default(0),
+		/** No price-list match yet: the service writer picks a part before issuing. */
+		unmatched: boolean('unmatched').notNull().default(false),
+		/** The log entry or step the line came from, when it came from the log. */
+		sourceEntryId: uuid('source_entry_id').references(() => logEntry.id),
+		sourceStepId: uuid('source_step_id').references(() => jobStep.id, { onDelete: 'set null' }),
+		position: integer('position').notNull()
+	},
+	(t) => [index('invoice_line_invoice_idx').on(t.invoiceId, t.position)]
+);
+export type InvoiceLine = typeof invoiceLine.$inferSelect;
+
+/** The next invoice number of each shop, taken with `update … returning` while issuing. */
+export const invoiceCounter = pgTable('invoice_counter', {
+	shopId: uuid('shop_id')
+		.primaryKey()
+		.references(() => shop.id, { onDelete: 'cascade' }),
+	nextNumber: integer('next_number').notNull().default(1)
+});
+
+export const paymentMethodEnum = pgEnum('payment_method', ['cash', 'card', 'online']);
+
+export const payment = pgTable(
+	'payment',
+	{
+		id: id(),
+		shopId: shopRef(),
+		invoiceId: uuid('invoice_id')
+			.notNull()
+			.references(() => invoice.id, { onDelete: 'cascade' }),
+		method: paymentMethodEnum('method').notNull(),
+		amountMinor: integer('amount_minor').notNull(),
+		/** The provider's id (checkout session or payment); unique so a repeat cannot pay twice. */
+		providerReference: text('provider_reference'),
+		receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+		recordedBy: uuid('recorded_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: createdAt()
+	},
+	(t) => [
+		uniqueIndex('payment_provider_reference_key').on(t.providerReference),
+		index('payment_invoice_idx').on(t.invoiceId)
+	]
+);
+export type Payment = typeof payment.$inferSelect;
+
+/** Webhook events already handled, so a repeated delivery changes nothing. */
+export const webhookEvent = pgTable('webhook_event', {
+	eventId: text('event_id').primaryKey(),
+	shopId: shopRef(),
+	type: text('type').notNull(),
+	receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow()
+});
+
+export const mailStatusEnum = pgEnum('mail_status', ['sent', 'failed']);
+
+/** Every e-mail Benchcall sent, as sent (RFC 5322 source), for the shop's outbox page. */
+export const mailOutbox = pgTable(
+	'mail_outbox',
+	{
+		id: id(),
+		shopId: shopRef(),
+		invoiceId: uuid('invoice_id').references(() => invoice.id, { onDelete: 'set null' }),
+		toAddress: text('to_address').notNull(),
+		subject: text('subject').notNull(),
+		messageId: text('message_id'),
+		status: mailStatusEnum('status').notNull(),
+		/** The transport's answer, or the error. */
+		response: text('response'),
+		raw: text('raw').notNull(),
+		sentBy: uuid('sent_by').references(() => user.id, { onDelete: 'set null' }),
+		createdAt: createdAt()
+	},
+	(t) => [index('mail_outbox_shop_idx').on(t.shopId, t.createdAt)]
+);
+export type MailOutbox = typeof mailOutbox.$inferSelect;
