@@ -122,6 +122,7 @@ function percentile(sorted: number[], p: number): number {
 const fmt = (ms: number) => (ms < 1 ? `${(ms * 1000).toFixed(0)} µs` : `${ms.toFixed(2)} ms`);
 
 const ITERATIONS = Number(process.env.BENCH_ITERATIONS ?? 1000);
+const WARMUP = 300;
 const now = new Date('2026-12-02T09:00:00Z');
 
 for (const size of [500, 5000]) {
@@ -129,13 +130,15 @@ for (const size of [500, 5000]) {
 	const t0 = performance.now();
 	const parser = createPhraseParser(steps);
 	const buildMs = performance.now() - t0;
-	console.log(`\n${steps.length} steps — index built in ${fmt(buildMs)}`);
+	console.log(
+		`\n${steps.length} steps — index built in ${fmt(buildMs)}; ${ITERATIONS} timed parses per phrase after ${WARMUP} warm-up parses`
+	);
 	console.log('phrase'.padEnd(56), 'p50'.padStart(9), 'p99'.padStart(9), '  first match');
 	let worstP99 = 0;
 	for (const phrase of PHRASES) {
 		const opts = { now, timeZone: 'Europe/Berlin' };
 		// warm-up: JIT, and the per-word similarity cache a live call bar would also have
-		for (let i = 0; i < 50; i++) parser.parse(phrase, opts);
+		for (let i = 0; i < WARMUP; i++) parser.parse(phrase, opts);
 		const times: number[] = [];
 		let result = parser.parse(phrase, opts);
 		for (let i = 0; i < ITERATIONS; i++) {

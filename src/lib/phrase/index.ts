@@ -553,7 +553,7 @@ function measure(
 	const dim = unit ? dimensionOf(unit) : null;
 	const sameKind = (s: StepSpec) =>
 		!dim || (typeof s.unit === 'string' && dimensionOf(s.unit) === dim);
-	let step = pickStep(r, stepTokens, vocabulary, sameKind, 'measure');
+	const step = pickStep(r, stepTokens, vocabulary, sameKind, 'measure');
 
 	if (!step && dim && r.candidates.length === 0) {
 		// nothing of this kind matches: is there a step of another kind with these words?
@@ -578,8 +578,6 @@ function measure(
 			return;
 		}
 	}
-	step = step ?? null;
-
 	if (!step) {
 		if (unit) r.quantity = { value: span.value, unit };
 		return;
