@@ -4,6 +4,7 @@
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { config, root } from './lib/config.js';
+import { startedHere, stopCluster } from './lib/pg.js';
 import { ensurePackages, prepareDatabase } from './lib/prepare.js';
 import { isRoot, must, run, step } from './lib/run.js';
 
@@ -104,6 +105,8 @@ for (const r of results) {
 	);
 }
 const stagesFailed = results.filter((r) => r.code !== 0).length;
+// On CI, leave nothing running: stop the cluster when this run started it.
+if (process.env.CI && startedHere) await stopCluster();
 console.log(`\nsummary: ${passed} passed, ${failed} failed`);
 process.exit(stagesFailed > 0 ? 1 : 0);
 

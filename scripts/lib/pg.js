@@ -84,6 +84,9 @@ export function isRunning(bin) {
 	return capture(cmd, args) !== null;
 }
 
+/** True once this process has started the cluster (rather than found it running). */
+export let startedHere = false;
+
 /** Creates the cluster if needed and starts it. Idempotent and quick when already running. */
 export async function startCluster() {
 	const bin = await ensurePostgresInstalled();
@@ -142,6 +145,7 @@ export async function startCluster() {
 		process.exit(1);
 	}
 	console.log(`  PostgreSQL listening on 127.0.0.1:${config.pgPort}`);
+	startedHere = true;
 	return bin;
 }
 
