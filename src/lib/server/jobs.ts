@@ -1,7 +1,9 @@
 // Job cards of one shop, with their progress. Every query is scoped by shop id.
-import { sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
+import { checkTransition, type TransitionFacts } from '$lib/jobs/machine';
 import type { JobState } from '$lib/jobs/states';
-import { db } from './db';
+import { db, type Tx } from './db';
+import { job, jobStateChange } from './db/schema';
 
 export interface JobSummary {
 	id: string;
@@ -88,5 +90,119 @@ export async function listJobs(
 		stepsDone: r.steps_done as number,
 		outOfSpec: r.out_of_spec as number,
 		lastEntryAt: r.last_entry_at ? new Date(r.last_entry_at as string) : null
+	}));
+}
+
+export type TransitionResult =
+	{ ok: true; from: JobState; to: JobState } | { ok: false; message: string };
+
+export interface TransitionOptions {
+	/** Who makes the change (recorded in job_state_change). */
+	byUserId: string;
+	/** Required for hold, cancel, a move back, or final inspection with steps open. */
+	reason?: string | null;
+	/** Facts the caller knows better (e.g. the Floor's sign-off); the rest are read here. */
+	facts?: Partial<TransitionFacts>;
+	/** Refuse when the job is no longer in this state (someone else moved it meanwhile). */
+	expectedFrom?: JobState;
+	/** Run inside the caller's transaction, so its own writes and the change land together. */
+	tx?: Tx;
+}
+
+/** The guard facts of one job, read in the transaction that changes it. */
+export async function transitionFacts(
+	tx: Tx | typeof db,
+	shopId: string,
+	jobId: string
+): Promise<TransitionFacts> {
+	const [row] = await tx.execute(sql`
+		with live as (
+			select e.* from log_entry e
+			where e.shop_id = ${shopId} and e.job_id = ${jobId}
+			  and e.kind <> 'retraction'
+			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
+		),
+		latest as (
+			select distinct on (job_step_id) id, job_step_id, verdict
+			from live where kind = 'measure' and job_step_id is not null
+			order by job_step_id, seq desc
+		)
+		select
+			(select count(*) from job_step s where s.shop_id = ${shopId} and s.job_id = ${jobId})::int as steps_total,
+			(select count(distinct job_step_id) from live
+				where kind in ('measure', 'done', 'part') and job_step_id is not null)::int as steps_done,
+			(select count(*) from latest where verdict in ('low', 'high')
+				and not exists (select 1 from live a where a.kind = 'accept' and a.responds_to = latest.id)
+			)::int as open_out_of_spec,
+			(select signed_off_at is not null from job where id = ${jobId} and shop_id = ${shopId}) as signed_off,
+			(select from_state from job_state_change c
+				where c.job_id = ${jobId} and c.shop_id = ${shopId} and c.to_state = 'on_hold'
+				order by c.at desc limit 1) as held_from
+	`);
+	return {
+		stepsTotal: (row?.steps_total as number) ?? 0,
+		stepsDone: (row?.steps_done as number) ?? 0,
+		openOutOfSpec: (row?.open_out_of_spec as number) ?? 0,
+		signedOff: Boolean(row?.signed_off),
+		heldFrom: (row?.held_from as JobState | null) ?? null
+	};
+}
+
+/**
+ * Moves a job to another state when the state machine allows it, and records who, when and
+ * why in job_state_change in the same transaction. The job row is locked while deciding, so
+ * two people moving the same job at once cannot both succeed from the same state.
+ */
+export async function transitionJob(
+	shopId: string,
+	jobId: string,
+	to: JobState,
+	opts: TransitionOptions
+): Promise<TransitionResult> {
+	const run = async (tx: Tx): Promise<TransitionResult> => {
+		const [current] = await tx
+			.select({ state: job.state })
+			.from(job)
+			.where(and(eq(job.shopId, shopId), eq(job.id, jobId)))
+			.for('update');
+		if (!current) return { ok: false, message: 'No such job card in this shop.' };
+		const from = current.state;
+		if (opts.expectedFrom && opts.expectedFrom !== from) {
+			return {
+				ok: false,
+				message: 'Someone else changed this job’s state meanwhile: look again and retry.'
+			};
+		}
+		const facts = { ...(await transitionFacts(tx, shopId, jobId)), ...opts.facts };
+		const reason = opts.reason?.trim() || null;
+		const check = checkTransition(from, to, facts, reason);
+		if (!check.ok) return check;
+		await tx
+			.update(job)
+			.set({ state: to, stateReason: reason })
+			.where(and(eq(job.shopId, shopId), eq(job.id, jobId)));
+		await tx
+			.insert(jobStateChange)
+			.values({ shopId, jobId, fromState: from, toState: to, reason, byUserId: opts.byUserId });
+		return { ok: true, from, to };
+	};
+	return opts.tx ? run(opts.tx) : db.transaction(run);
+}
+
+/** A job's state changes, newest first, with who made them. */
+export async function stateHistory(shopId: string, jobId: string) {
+	const rows = await db.execute(sql`
+		select c.id, c.from_state, c.to_state, c.reason, c.at, u.name as by_name
+		from job_state_change c left join "user" u on u.id = c.by_user_id
+		where c.shop_id = ${shopId} and c.job_id = ${jobId}
+		order by c.at desc, c.id
+	`);
+	return rows.map((r) => ({
+		id: r.id as string,
+		fromState: r.from_state as JobState | null,
+		toState: r.to_state as JobState,
+		reason: r.reason as string | null,
+		at: new Date(r.at as string),
+		byName: r.by_name as string | null
 	}));
 }
