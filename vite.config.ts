@@ -23,7 +23,7 @@ export default defineConfig({
 				test: {
 					name: 'db',
 					environment: 'node',
-					include: ['src/**/*.db.test.ts'],
+					include: ['src/**/*.db.test.ts', 'scripts/**/*.db.test.ts'],
 					fileParallelism: false,
 					testTimeout: 20_000
 				}

@@ -5,6 +5,12 @@ import { ensurePackages, prepareDatabase, seed } from './lib/prepare.js';
 
 const command = process.argv[2];
 
+/** The value after a flag such as `--into NAME`, or null. */
+function option(flag) {
+	const i = process.argv.indexOf(flag);
+	return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : null;
+}
+
 switch (command) {
 	case 'start':
 		await startCluster();
@@ -29,7 +35,27 @@ switch (command) {
 		await startCluster();
 		await seed(databaseUrl(process.env.BENCHCALL_DB_NAME || config.dbName));
 		break;
+	case 'backup': {
+		const { backup } = await import('./lib/backup.js');
+		await backup(option('--db') ?? config.dbName, option('--out') ?? undefined);
+		break;
+	}
+	case 'restore': {
+		const file = process.argv[3];
+		if (!file || file.startsWith('--')) {
+			console.error('usage: npm run db:restore -- FILE [--into DATABASE]');
+			process.exit(2);
+		}
+		const { restore } = await import('./lib/backup.js');
+		try {
+			await restore(file, option('--into') ?? config.dbName);
+		} catch (err) {
+			console.error(err instanceof Error ? err.message : err);
+			process.exit(1);
+		}
+		break;
+	}
 	default:
-		console.error('usage: node scripts/db.js start|stop|status|migrate|seed');
+		console.error('usage: node scripts/db.js start|stop|status|migrate|seed|backup|restore');
 		process.exit(2);
 }

@@ -15,8 +15,10 @@ const only = process.argv.slice(2); // e.g. `npm test -- e2e` runs one stage
 await ensurePackages();
 await ensureChromium();
 const url = await prepareDatabase(config.testDbName, { fresh: true });
-const { ensureBuild } = await import('./lib/build.js');
-await ensureBuild();
+if (only.length === 0 || only.includes('e2e')) {
+	const { ensureBuild } = await import('./lib/build.js');
+	await ensureBuild();
+}
 rmSync(reports, { recursive: true, force: true });
 mkdirSync(reports, { recursive: true });
 
