@@ -304,6 +304,18 @@ describe('numbers', () => {
 		expect(r.problems[0]).toMatch(/"zorks" is not a unit Benchcall knows/);
 	});
 
+	it('a number followed by more of a name is part of the name, not a value', () => {
+		const r = p('cylinder 2 intake valve clearance');
+		expect(r.intent).toBe('unknown');
+		expect(r.quantity).toBeNull();
+		expect(r.candidates[0]?.stepId).toBe('v2');
+		expect(r.problems[0]).toMatch(/No value heard for Cylinder 2 intake valve clearance/);
+		const done = p('done cylinder 2 intake valve clearance 0.12 mm');
+		expect(done.intent).toBe('measure');
+		expect(done.stepId).toBe('v2');
+		expect(done.quantity?.value).toBe(0.12);
+	});
+
 	it('reads "1.1 in the sump" as no inch', () => {
 		expect(p('engine oil 1.1 in the sump').quantity).toEqual({ value: 1.1, unit: 'L' });
 	});

@@ -413,10 +413,14 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		return r;
 	}
 
-	// measure: "<step words> <number> [unit]"
-	if (numbers.length === 0) {
+	// measure: "<step words> <number> [unit]"; "done chain slack 30 mm" is a measure too
+	const body = donePre && numbers.length > 0 ? tokens.slice(donePre) : tokens;
+	const value = chooseValue(body, body === tokens ? numbers : findNumbers(body), vocabulary);
+	if (!value) {
 		r.intent = 'unknown';
-		const words = toMatchTokens(tokens.slice(donePre, tokens.length - doneSuf));
+		const words = toMatchTokens(
+			body === tokens ? tokens.slice(donePre, tokens.length - doneSuf) : body
+		);
 		const hits = index.search(words).filter((h) => h.score >= MATCH_THRESHOLD);
 		r.candidates = toCandidates(hits, steps);
 		const best = hits[0] ? steps[hits[0].index] : undefined;
@@ -432,7 +436,7 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		}
 		return r;
 	}
-	measure(r, tokens, numbers, vocabulary, ctx);
+	measure(r, body, value, vocabulary, ctx);
 	return r;
 }
 
@@ -498,35 +502,73 @@ function whichStep(purpose: 'spec' | 'done' | 'measure' | 'part'): string {
 	return 'Which step? Say its name with the value, e.g. "rear axle 80 Nm".';
 }
 
+/** Words that follow a value, not a name: "1.1 in the sump", "120 each side". */
+const VALUE_THEN = new Set([
+	'in',
+	'into',
+	'on',
+	'at',
+	'for',
+	'each',
+	'per',
+	'both',
+	'all',
+	'after'
+]);
 const GLUE_WORDS = new Set(['the', 'a', 'an', 'of', 'and']);
 const AFTER_VALUE_FILLERS = new Set(['done', 'ok', 'okay', 'filled', 'added', 'set']);
 
-function measure(
-	r: ParsedPhrase,
-	tokens: string[],
-	numbers: NumberSpan[],
-	vocabulary: Vocabulary,
-	ctx: PhraseContext
-): void {
-	r.intent = 'measure';
-	const span = numbers[numbers.length - 1] as NumberSpan;
-
-	// the unit: the longest run of words after the number that names one
-	let unit: string | null = null;
-	let unitEnd = span.end;
-	for (let k = Math.min(7, tokens.length - span.end); k >= 1; k--) {
-		const words = tokens.slice(span.end, span.end + k);
-		const next = tokens[span.end + k];
+/** The unit named by the words starting at token i (longest first), or null. */
+function unitAfter(tokens: string[], i: number): { unit: string; end: number } | null {
+	for (let k = Math.min(7, tokens.length - i); k >= 1; k--) {
+		const words = tokens.slice(i, i + k);
+		const next = tokens[i + k];
 		// "in" is the inch only where it cannot be the preposition ("1.1 in the sump")
 		if (k === 1 && words[0] === 'in' && next !== undefined && /^[a-z]/.test(next)) continue;
 		if (GLUE_WORDS.has(words[words.length - 1] ?? '')) continue;
 		const code = unitFromWords(words.join(' '));
-		if (code) {
-			unit = code;
-			unitEnd = span.end + k;
-			break;
+		if (code) return { unit: code, end: i + k };
+	}
+	return null;
+}
+
+/**
+ * The number that is the value: the last one followed by a unit, by nothing but filler words,
+ * or by an unknown word in the unit's place. A number followed by more of a step's name
+ * ("cylinder 2 intake valve clearance") is part of the name, not a value.
+ */
+function chooseValue(
+	tokens: string[],
+	spans: NumberSpan[],
+	vocabulary: Vocabulary
+): NumberSpan | null {
+	for (let k = spans.length - 1; k >= 0; k--) {
+		const span = spans[k] as NumberSpan;
+		if (unitAfter(tokens, span.end)) return span;
+		const rest = tokens.slice(span.end);
+		if (rest.every((t) => FILLER_WORDS.has(t) || AFTER_VALUE_FILLERS.has(t) || GLUE_WORDS.has(t))) {
+			return span;
+		}
+		const next = rest[0];
+		if (next !== undefined && VALUE_THEN.has(next)) return span;
+		if (next !== undefined && /^[a-zµμω°"]/.test(next) && looksLikeUnit(next, vocabulary)) {
+			return span;
 		}
 	}
+	return null;
+}
+
+function measure(
+	r: ParsedPhrase,
+	tokens: string[],
+	span: NumberSpan,
+	vocabulary: Vocabulary,
+	ctx: PhraseContext
+): void {
+	r.intent = 'measure';
+	const found = unitAfter(tokens, span.end);
+	let unit: string | null = found?.unit ?? null;
+	const unitEnd = found?.end ?? span.end;
 
 	const stepTokens = [...tokens.slice(0, span.start), ...tokens.slice(unitEnd)].filter(
 		(t, i, all) => !(i === all.length - 1 && AFTER_VALUE_FILLERS.has(t))
