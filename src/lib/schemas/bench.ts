@@ -1,0 +1,57 @@
+// Payloads of the Bench API: entries, retractions and the hand-over to final inspection.
+import { z } from 'zod';
+import { MAX_PHRASE_CHARS } from '$lib/phrase';
+
+export const entrySourceValues = ['typed', 'voice'] as const;
+
+export const entryPostSchema = z.object({
+	id: z.uuid({ error: 'id must be a UUID made on the device.' }),
+	text: z
+		.string({ error: 'text is required: what was called out.' })
+		.trim()
+		.min(1, 'text is empty: call out a step and a value, e.g. "rear axle 80 Nm".')
+		.max(MAX_PHRASE_CHARS, `text is at most ${MAX_PHRASE_CHARS} characters.`),
+	source: z.enum(entrySourceValues, { error: "source must be 'typed' or 'voice'." }),
+	occurredAt: z.iso
+		.datetime({ offset: true, error: 'occurredAt must be an ISO 8601 date-time.' })
+		.optional(),
+	torqueToolId: z.uuid({ error: 'torqueToolId must be a UUID.' }).nullish(),
+	/** A foreman retracting a named entry (an undo without it retracts the author's last one). */
+	retracts: z.uuid({ error: 'retracts must be the id of an entry.' }).optional()
+});
+export type EntryPost = z.infer<typeof entryPostSchema>;
+
+export const entryListQuerySchema = z.object({
+	before: z.coerce
+		.number({ error: 'before must be a whole number (an entry seq).' })
+		.int('before must be a whole number (an entry seq).')
+		.positive('before must be above 0.')
+		.optional(),
+	after: z.coerce
+		.number({ error: 'after must be a whole number (an entry seq).' })
+		.int('after must be a whole number (an entry seq).')
+		.min(0, 'after must be 0 or more.')
+		.optional(),
+	limit: z.coerce
+		.number({ error: 'limit must be a whole number.' })
+		.int('limit must be a whole number.')
+		.min(1, 'limit must be 1 to 200.')
+		.max(200, 'limit must be 1 to 200.')
+		.default(50)
+});
+
+export const finalInspectionSchema = z.object({
+	reason: z
+		.string()
+		.trim()
+		.max(500, 'A reason is at most 500 characters.')
+		.optional()
+		.transform((v) => (v ? v : undefined))
+});
+
+/** The first message of a zod error, for a 400 that says what to fix. */
+export function firstIssue(error: z.ZodError): string {
+	const issue = error.issues[0];
+	if (!issue) return 'The request is not valid.';
+	return issue.message;
+}

@@ -1,0 +1,272 @@
+import { and, eq } from 'drizzle-orm';
+import { describe, expect, it } from 'vitest';
+import { db } from './db';
+import { makeShop } from './db/fixtures';
+import * as s from './db/schema';
+import {
+	appendEntry,
+	listEntries,
+	listSteps,
+	sendToFinalInspection,
+	type Actor,
+	type AppendResult
+} from './entries';
+
+type Fixture = Awaited<ReturnType<typeof makeShop>>;
+
+const as = (u: { id: string; shopId: string; role: Actor['role'] }): Actor => ({
+	id: u.id,
+	shopId: u.shopId,
+	role: u.role
+});
+
+async function addUser(f: Fixture, role: Actor['role'], name: string) {
+	const [u] = await db
+		.insert(s.user)
+		.values({
+			shopId: f.shop.id,
+			email: `${role}-${crypto.randomUUID().slice(0, 8)}@test.test`,
+			name,
+			role,
+			passwordHash: 'x'
+		})
+		.returning();
+	return u;
+}
+
+function entryOf(r: AppendResult) {
+	if (!('entry' in r)) throw new Error(`expected an entry, got ${JSON.stringify(r)}`);
+	return r.entry;
+}
+
+const post = (text: string, extra: Record<string, unknown> = {}) => ({
+	id: crypto.randomUUID(),
+	text,
+	source: 'typed' as const,
+	...extra
+});
+
+async function rowsOf(f: Fixture) {
+	return db.select().from(s.logEntry).where(eq(s.logEntry.jobId, f.job.id));
+}
+
+describe('appendEntry', () => {
+	it('stores the verdict the server reads and converts into the spec unit', async () => {
+		const f = await makeShop('Bench');
+		// 10 kgf·m = 98.0665 N·m (NIST SP 811 B.8: 1 kgf = 9.80665 N): over the 80–96 N·m band
+		const r = await appendEntry(as(f.tech), f.job.id, post('rear axle 10 kgf m'));
+		expect(r.status).toBe(201);
+		const e = entryOf(r);
+		expect(e).toMatchObject({ kind: 'measure', value: 10, unit: 'kgf.m', specUnit: 'N.m' });
+		expect(e.specValue).toBeCloseTo(98.0665, 6);
+		expect(e.verdict).toBe('high');
+		const [row] = await rowsOf(f);
+		expect(row.verdict).toBe('high');
+		expect(row.jobStepId).toBe(f.step.id);
+	});
+
+	it('is idempotent by the device-made id: a repeat answers 200 and writes nothing', async () => {
+		const f = await makeShop('Bench');
+		const body = post('rear axle 88 nm');
+		const first = await appendEntry(as(f.tech), f.job.id, body);
+		const again = await appendEntry(as(f.tech), f.job.id, { ...body, text: 'rear axle 50 nm' });
+		expect(first.status).toBe(201);
+		expect(again.status).toBe(200);
+		expect(entryOf(again).verdict).toBe('in');
+		expect(await rowsOf(f)).toHaveLength(1);
+	});
+
+	it("answers 404 for another shop's job and for an unknown one, saying nothing about it", async () => {
+		const a = await makeShop('Shop A');
+		const b = await makeShop('Shop B');
+		const r = await appendEntry(as(b.owner), a.job.id, post('rear axle 88 nm'));
+		expect(r).toEqual({ status: 404, message: 'No such job.' });
+		const unknown = await appendEntry(as(a.owner), crypto.randomUUID(), post('rear axle 88 nm'));
+		expect(unknown).toEqual({ status: 404, message: 'No such job.' });
+		expect(await listSteps(b.shop.id, a.job.id)).toEqual([]);
+		expect((await listEntries(b.shop.id, a.job.id)).entries).toEqual([]);
+		expect(await rowsOf(a)).toHaveLength(0);
+	});
+
+	it('lets a technician log only on jobs assigned to them; a foreman on any job', async () => {
+		const f = await makeShop('Bench');
+		const other = await addUser(f, 'technician', 'Other tech');
+		const writer = await addUser(f, 'service_writer', 'Desk');
+		const foreman = await addUser(f, 'foreman', 'Foreman');
+		expect((await appendEntry(as(other), f.job.id, post('rear axle 88 nm'))).status).toBe(403);
+		expect((await appendEntry(as(writer), f.job.id, post('rear axle 88 nm'))).status).toBe(403);
+		expect((await appendEntry(as(foreman), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+	});
+
+	it('answers "next" and "spec" without writing', async () => {
+		const f = await makeShop('Bench');
+		const next = await appendEntry(as(f.tech), f.job.id, post('next'));
+		expect(next).toMatchObject({ status: 200, answer: { intent: 'next' } });
+		const spec = await appendEntry(as(f.tech), f.job.id, post('spec rear axle'));
+		expect(spec).toMatchObject({ status: 200, answer: { intent: 'spec' } });
+		if ('answer' in spec) expect(spec.answer.message).toContain('80 N·m – 96 N·m');
+		expect(await rowsOf(f)).toHaveLength(0);
+	});
+
+	it('refuses a phrase it cannot log with a message (422)', async () => {
+		const f = await makeShop('Bench');
+		const r = await appendEntry(as(f.tech), f.job.id, post('carburettor sync 4 mm'));
+		expect(r.status).toBe(422);
+		expect(await rowsOf(f)).toHaveLength(0);
+	});
+
+	it('keeps a phrase time and never stores a time ahead of the server beyond clock skew', async () => {
+		const f = await makeShop('Bench');
+		const now = new Date('2026-12-02T10:00:00Z');
+		const future = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('rear axle 88 nm', { occurredAt: '2026-12-02T11:00:00Z' }),
+			now
+		);
+		expect(entryOf(future).occurredAt).toBe(now.toISOString());
+		const past = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('rear axle 90 nm', { occurredAt: '2026-12-02T09:15:00Z' }),
+			now
+		);
+		expect(entryOf(past).occurredAt).toBe('2026-12-02T09:15:00.000Z');
+		const ago = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('rear axle 90 nm 5 minutes ago', { occurredAt: '2026-12-02T09:30:00Z' }),
+			now
+		);
+		expect(entryOf(ago).occurredAt).toBe('2026-12-02T09:25:00.000Z');
+	});
+
+	it('records the torque tool and whether its calibration was overdue', async () => {
+		const f = await makeShop('Bench');
+		const [tool] = await db
+			.insert(s.torqueTool)
+			.values({
+				shopId: f.shop.id,
+				identifier: 'T-1',
+				kind: 'Type II class A click',
+				rangeMin: 40,
+				rangeMax: 200,
+				unit: 'N.m',
+				calibratedOn: '2025-01-10'
+			})
+			.returning();
+		const e = entryOf(
+			await appendEntry(
+				as(f.tech),
+				f.job.id,
+				post('rear axle 88 nm', { torqueToolId: tool.id }),
+				new Date('2026-12-02T10:00:00Z')
+			)
+		);
+		expect(e).toMatchObject({ torqueToolId: tool.id, toolCalibrationOverdue: true });
+		const b = await makeShop('Other');
+		const refused = await appendEntry(
+			as(b.tech),
+			b.job.id,
+			post('rear axle 88 nm', { torqueToolId: tool.id })
+		);
+		expect(refused.status).toBe(422);
+	});
+});
+
+describe('retraction', () => {
+	it("undo retracts the author's own last live entry, and the step is no longer done", async () => {
+		const f = await makeShop('Bench');
+		const foreman = await addUser(f, 'foreman', 'Foreman');
+		const mine = entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 70 nm')));
+		const theirs = entryOf(await appendEntry(as(foreman), f.job.id, post('note checked')));
+		const undo = entryOf(await appendEntry(as(f.tech), f.job.id, post('undo')));
+		expect(undo).toMatchObject({ kind: 'retraction', retracts: mine.id });
+		expect((await listSteps(f.shop.id, f.job.id))[0].done).toBe(false);
+		const { entries } = await listEntries(f.shop.id, f.job.id);
+		expect(entries.find((e) => e.id === mine.id)?.retractedBy?.id).toBe(undo.id);
+		expect(entries.find((e) => e.id === theirs.id)?.retractedBy).toBeNull();
+		// nothing of the technician's is left to undo
+		expect((await appendEntry(as(f.tech), f.job.id, post('undo'))).status).toBe(422);
+	});
+
+	it('lets only the author or a foreman retract a named entry', async () => {
+		const f = await makeShop('Bench');
+		const foreman = await addUser(f, 'foreman', 'Foreman');
+		await db
+			.update(s.job)
+			.set({ technicianId: null })
+			.where(and(eq(s.job.id, f.job.id), eq(s.job.shopId, f.shop.id)));
+		const byForeman = entryOf(await appendEntry(as(foreman), f.job.id, post('rear axle 88 nm')));
+		await db.update(s.job).set({ technicianId: f.tech.id }).where(eq(s.job.id, f.job.id));
+		const denied = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('undo', { retracts: byForeman.id })
+		);
+		expect(denied.status).toBe(403);
+		const own = entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm')));
+		const named = entryOf(
+			await appendEntry(as(foreman), f.job.id, post('undo', { retracts: own.id }))
+		);
+		expect(named.retracts).toBe(own.id);
+		const twice = await appendEntry(as(foreman), f.job.id, post('undo', { retracts: own.id }));
+		expect(twice).toMatchObject({ status: 422, message: 'That entry is already retracted.' });
+	});
+
+	it('two undos at once retract two different entries', async () => {
+		const f = await makeShop('Bench');
+		const a = entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 85 nm')));
+		const b = entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 86 nm')));
+		const [u1, u2] = await Promise.all([
+			appendEntry(as(f.tech), f.job.id, post('undo')),
+			appendEntry(as(f.tech), f.job.id, post('undo'))
+		]);
+		expect([entryOf(u1).retracts, entryOf(u2).retracts].sort()).toEqual([a.id, b.id].sort());
+	});
+});
+
+describe('listEntries', () => {
+	it('pages newest first by seq', async () => {
+		const f = await makeShop('Bench');
+		for (const v of [81, 82, 83, 84, 85]) {
+			await appendEntry(as(f.tech), f.job.id, post(`rear axle ${v} nm`));
+		}
+		const p1 = await listEntries(f.shop.id, f.job.id, { limit: 2 });
+		expect(p1.entries.map((e) => e.value)).toEqual([85, 84]);
+		const p2 = await listEntries(f.shop.id, f.job.id, { limit: 2, before: p1.nextBefore! });
+		expect(p2.entries.map((e) => e.value)).toEqual([83, 82]);
+		const p3 = await listEntries(f.shop.id, f.job.id, { limit: 2, before: p2.nextBefore! });
+		expect(p3.entries.map((e) => e.value)).toEqual([81]);
+		expect(p3.nextBefore).toBeNull();
+		const newer = await listEntries(f.shop.id, f.job.id, { after: p1.entries[1].seq });
+		expect(newer.entries.map((e) => e.value)).toEqual([85]);
+	});
+});
+
+describe('sendToFinalInspection', () => {
+	it('needs a reason while steps are open and records who and when', async () => {
+		const f = await makeShop('Bench');
+		const refused = await sendToFinalInspection(as(f.tech), f.job.id);
+		expect(refused).toMatchObject({ ok: false, status: 422 });
+		const ok = await sendToFinalInspection(as(f.tech), f.job.id, 'Axle nut on back order');
+		expect(ok).toEqual({ ok: true, state: 'final_inspection' });
+		const changes = await db
+			.select()
+			.from(s.jobStateChange)
+			.where(eq(s.jobStateChange.jobId, f.job.id));
+		expect(changes).toHaveLength(1);
+		expect(changes[0]).toMatchObject({
+			fromState: 'in_work',
+			toState: 'final_inspection',
+			byUserId: f.tech.id,
+			reason: 'Axle nut on back order'
+		});
+	});
+
+	it('goes without a reason when every step is done', async () => {
+		const f = await makeShop('Bench');
+		await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'));
+		expect(await sendToFinalInspection(as(f.tech), f.job.id)).toMatchObject({ ok: true });
+	});
+});

@@ -1,0 +1,688 @@
+// The Bench's server side: a job's steps with their done state, the job log (append-only),
+// retractions, torque tools and the hand-over to final inspection. All SQL is scoped by shop id;
+// another shop's job reads as "no such job".
+import { and, eq, sql } from 'drizzle-orm';
+import type { Role } from '$lib/auth/roles';
+import { checkTransition } from '$lib/jobs/machine';
+import type { JobState } from '$lib/jobs/states';
+import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
+import { calibrationDue } from '$lib/torque';
+import { dimensionOf, formatQuantity } from '$lib/units';
+import { db } from './db';
+import * as s from './db/schema';
+
+/** How far ahead of the server's clock a device's time may be before it is clamped. */
+export const CLOCK_SKEW_MS = 2 * 60_000;
+
+export interface Actor {
+	id: string;
+	shopId: string;
+	role: Role;
+	name?: string;
+}
+
+export interface BenchJob {
+	id: string;
+	number: number;
+	state: JobState;
+	technicianId: string | null;
+	technicianName: string | null;
+	bay: string | null;
+	concern: string;
+	vehicle: string | null;
+	registration: string | null;
+	customerName: string | null;
+}
+
+export interface BenchStep {
+	id: string;
+	position: number;
+	procedureId: string;
+	procedureName: string;
+	label: string;
+	aliases: string[];
+	unit: string | null;
+	nominal: number | null;
+	min: number | null;
+	max: number | null;
+	caution: string | null;
+	done: boolean;
+	/** Verdict of the latest live measurement, if any. */
+	lastVerdict: Verdict | null;
+}
+
+export interface EntryView {
+	id: string;
+	seq: number;
+	jobId: string;
+	stepId: string | null;
+	stepLabel: string | null;
+	authorId: string;
+	authorName: string;
+	kind: (typeof s.entryKindEnum.enumValues)[number];
+	rawText: string;
+	source: (typeof s.entrySourceEnum.enumValues)[number];
+	value: number | null;
+	unit: string | null;
+	specValue: number | null;
+	specUnit: string | null;
+	specMin: number | null;
+	specMax: number | null;
+	specNominal: number | null;
+	verdict: Verdict | null;
+	note: string | null;
+	torqueToolId: string | null;
+	torqueTool: string | null;
+	toolCalibrationOverdue: boolean;
+	retracts: string | null;
+	retractedBy: { id: string; authorName: string; at: string } | null;
+	occurredAt: string;
+	recordedAt: string;
+	photos: { id: string; fileName: string }[];
+}
+
+export interface ToolView {
+	id: string;
+	identifier: string;
+	kind: string;
+	rangeMin: number;
+	rangeMax: number;
+	unit: string;
+	dueDate: string | null;
+	state: 'ok' | 'due_soon' | 'overdue';
+}
+
+export type AppendResult =
+	| { status: 200 | 201; entry: EntryView }
+	/** An intent that logs nothing ("next", "spec …"): answered, nothing written. */
+	| {
+			status: 200;
+			answer: { intent: 'next' | 'spec'; step: BenchStep | null; message: string };
+	  }
+	| { status: 403 | 404 | 409 | 422; message: string };
+
+const NOT_FOUND = 'No such job.';
+
+// --- jobs and steps ---------------------------------------------------------------------------
+
+/** The job when it belongs to the shop; null otherwise (callers answer 404). */
+export async function getJob(shopId: string, jobId: string): Promise<BenchJob | null> {
+	if (!isUuid(jobId)) return null;
+	const rows = await db.execute(sql`
+		select j.id, j.number, j.state, j.technician_id, t.name as technician_name, j.bay, j.concern,
+			nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
+			v.registration, c.name as customer_name
+		from job j
+		left join "user" t on t.id = j.technician_id and t.shop_id = j.shop_id
+		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
+		left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+		where j.shop_id = ${shopId} and j.id = ${jobId}
+	`);
+	const r = rows[0];
+	if (!r) return null;
+	return {
+		id: r.id as string,
+		number: r.number as number,
+		state: r.state as JobState,
+		technicianId: r.technician_id as string | null,
+		technicianName: r.technician_name as string | null,
+		bay: r.bay as string | null,
+		concern: r.concern as string,
+		vehicle: r.vehicle as string | null,
+		registration: r.registration as string | null,
+		customerName: r.customer_name as string | null
+	};
+}
+
+/** The job by its card number ("job 1042" in the call bar). */
+export async function findJobIdByNumber(shopId: string, number: number): Promise<string | null> {
+	if (!Number.isInteger(number) || number < 1 || number > 2_147_483_647) return null;
+	const [row] = await db
+		.select({ id: s.job.id })
+		.from(s.job)
+		.where(and(eq(s.job.shopId, shopId), eq(s.job.number, number)))
+		.limit(1);
+	return row?.id ?? null;
+}
+
+/** Technicians write only on jobs assigned to them; foreman and owner on any job of the shop. */
+export function mayWrite(actor: Actor, job: Pick<BenchJob, 'technicianId'>): boolean {
+	if (actor.role === 'foreman' || actor.role === 'owner') return true;
+	return actor.role === 'technician' && job.technicianId === actor.id;
+}
+
+/** The job's steps in order, each done once it has a live (not retracted) entry. */
+export async function listSteps(shopId: string, jobId: string): Promise<BenchStep[]> {
+	const rows = await db.execute(sql`
+		with live as (
+			select e.job_step_id, e.kind, e.verdict, e.seq from log_entry e
+			where e.shop_id = ${shopId} and e.job_id = ${jobId}
+			  and e.kind in ('measure', 'done', 'part') and e.job_step_id is not null
+			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
+		)
+		select st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min, st.max, st.caution,
+			jp.id as procedure_id, jp.name as procedure_name,
+			exists (select 1 from live where live.job_step_id = st.id) as done,
+			(select live.verdict from live where live.job_step_id = st.id and live.kind = 'measure'
+				order by live.seq desc limit 1) as last_verdict
+		from job_step st
+		join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id
+		where st.shop_id = ${shopId} and st.job_id = ${jobId}
+		order by jp.position, st.position
+	`);
+	return rows.map((r) => ({
+		id: r.id as string,
+		position: r.position as number,
+		procedureId: r.procedure_id as string,
+		procedureName: r.procedure_name as string,
+		label: r.label as string,
+		aliases: (r.aliases as string[] | null) ?? [],
+		unit: r.unit as string | null,
+		nominal: r.nominal as number | null,
+		min: r.min as number | null,
+		max: r.max as number | null,
+		caution: r.caution as string | null,
+		done: r.done as boolean,
+		lastVerdict: (r.last_verdict as Verdict | null) ?? null
+	}));
+}
+
+/** Steps in the phrase engine's shape (null limits left out). */
+export function toStepSpecs(steps: BenchStep[]): StepSpec[] {
+	return steps.map((st) => ({
+		id: st.id,
+		label: st.label,
+		aliases: st.aliases,
+		unit: st.unit ?? undefined,
+		nominal: st.nominal ?? undefined,
+		min: st.min ?? undefined,
+		max: st.max ?? undefined,
+		done: st.done
+	}));
+}
+
+export async function shopTolerance(shopId: string): Promise<{ pct: number; months: number }> {
+	const [row] = await db
+		.select({ pct: s.shop.defaultTolerancePct, months: s.shop.calibrationMonths })
+		.from(s.shop)
+		.where(eq(s.shop.id, shopId));
+	return { pct: row?.pct ?? 10, months: row?.months ?? 12 };
+}
+
+// --- torque tools -----------------------------------------------------------------------------
+
+function toolStatus(
+	calibratedOn: string | null,
+	months: number,
+	today: Date
+): { dueDate: string | null; state: ToolView['state'] } {
+	// A tool never calibrated is treated as overdue: nothing vouches for its readings.
+	if (!calibratedOn) return { dueDate: null, state: 'overdue' };
+	try {
+		const st = calibrationDue(calibratedOn, { months, today });
+		return { dueDate: st.dueDate, state: st.state };
+	} catch {
+		return { dueDate: null, state: 'overdue' };
+	}
+}
+
+/** The shop's active torque tools with their calibration state. */
+export async function listTools(shopId: string, today = new Date()): Promise<ToolView[]> {
+	const { months } = await shopTolerance(shopId);
+	const rows = await db
+		.select()
+		.from(s.torqueTool)
+		.where(and(eq(s.torqueTool.shopId, shopId), eq(s.torqueTool.active, true)))
+		.orderBy(s.torqueTool.identifier);
+	return rows.map((t) => ({
+		id: t.id,
+		identifier: t.identifier,
+		kind: t.kind,
+		rangeMin: t.rangeMin,
+		rangeMax: t.rangeMax,
+		unit: t.unit,
+		...toolStatus(t.calibratedOn, t.intervalMonths ?? months, today)
+	}));
+}
+
+// --- the log ----------------------------------------------------------------------------------
+
+const entrySelect = sql`
+	select e.id, e.seq, e.job_id, e.job_step_id, st.label as step_label, e.author_id,
+		a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value, e.spec_unit,
+		st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal,
+		e.verdict, e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
+		e.retracts, e.occurred_at, e.recorded_at,
+		rb.id as retracted_by_id, rba.name as retracted_by_name, rb.recorded_at as retracted_at,
+		coalesce((select json_agg(json_build_object('id', at.id, 'fileName', at.file_name) order by at.created_at)
+			from attachment at where at.entry_id = e.id and at.shop_id = e.shop_id), '[]'::json) as photos
+	from log_entry e
+	join "user" a on a.id = e.author_id
+	left join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
+	left join torque_tool tt on tt.id = e.torque_tool_id and tt.shop_id = e.shop_id
+	left join lateral (
+		select r.id, r.author_id, r.recorded_at from log_entry r
+		where r.retracts = e.id and r.shop_id = e.shop_id order by r.seq limit 1
+	) rb on true
+	left join "user" rba on rba.id = rb.author_id
+`;
+
+function iso(v: unknown): string {
+	return (v instanceof Date ? v : new Date(String(v))).toISOString();
+}
+
+function toEntry(r: Record<string, unknown>): EntryView {
+	return {
+		id: r.id as string,
+		seq: Number(r.seq),
+		jobId: r.job_id as string,
+		stepId: r.job_step_id as string | null,
+		stepLabel: r.step_label as string | null,
+		authorId: r.author_id as string,
+		authorName: r.author_name as string,
+		kind: r.kind as EntryView['kind'],
+		rawText: r.raw_text as string,
+		source: r.source as EntryView['source'],
+		value: r.value as number | null,
+		unit: r.unit as string | null,
+		specValue: r.spec_value as number | null,
+		specUnit: r.spec_unit as string | null,
+		specMin: r.spec_min as number | null,
+		specMax: r.spec_max as number | null,
+		specNominal: r.spec_nominal as number | null,
+		verdict: r.verdict as Verdict | null,
+		note: r.note as string | null,
+		torqueToolId: r.torque_tool_id as string | null,
+		torqueTool: r.torque_tool as string | null,
+		toolCalibrationOverdue: Boolean(r.tool_calibration_overdue),
+		retracts: r.retracts as string | null,
+		retractedBy: r.retracted_by_id
+			? {
+					id: r.retracted_by_id as string,
+					authorName: r.retracted_by_name as string,
+					at: iso(r.retracted_at)
+				}
+			: null,
+		occurredAt: iso(r.occurred_at),
+		recordedAt: iso(r.recorded_at),
+		photos: (r.photos as { id: string; fileName: string }[] | null) ?? []
+	};
+}
+
+async function readEntry(shopId: string, id: string): Promise<EntryView | null> {
+	const rows = await db.execute(sql`${entrySelect} where e.shop_id = ${shopId} and e.id = ${id}`);
+	return rows[0] ? toEntry(rows[0]) : null;
+}
+
+/**
+ * A page of the job log, newest first. `before`: entries older than that seq (the next page);
+ * `after`: entries newer than that seq (live catch-up).
+ */
+export async function listEntries(
+	shopId: string,
+	jobId: string,
+	opts: { before?: number; after?: number; limit?: number } = {}
+): Promise<{ entries: EntryView[]; nextBefore: number | null }> {
+	const limit = Math.min(Math.max(Math.trunc(opts.limit ?? 50), 1), 200);
+	const before = opts.before !== undefined ? sql`and e.seq < ${opts.before}` : sql``;
+	const after = opts.after !== undefined ? sql`and e.seq > ${opts.after}` : sql``;
+	const rows = await db.execute(sql`${entrySelect}
+		where e.shop_id = ${shopId} and e.job_id = ${jobId} ${before} ${after}
+		order by e.seq desc limit ${limit + 1}`);
+	const entries = rows.slice(0, limit).map(toEntry);
+	const more = rows.length > limit;
+	return { entries, nextBefore: more ? entries[entries.length - 1].seq : null };
+}
+
+// --- appending --------------------------------------------------------------------------------
+
+export interface AppendInput {
+	id: string;
+	text: string;
+	source: 'typed' | 'voice';
+	occurredAt?: string;
+	torqueToolId?: string | null;
+	retracts?: string;
+}
+
+function clampTime(t: Date, now: Date): Date {
+	if (Number.isNaN(t.getTime())) return now;
+	return t.getTime() > now.getTime() + CLOCK_SKEW_MS ? now : t;
+}
+
+function describeSpec(st: BenchStep): string {
+	if (!st.unit) return 'checked without a value';
+	const unit = st.unit;
+	if (st.min !== null && st.max !== null)
+		return `${formatQuantity(st.min, unit)} – ${formatQuantity(st.max, unit)}`;
+	if (st.min !== null) return `at least ${formatQuantity(st.min, unit)}`;
+	if (st.max !== null) return `at most ${formatQuantity(st.max, unit)}`;
+	if (st.nominal !== null) return `${formatQuantity(st.nominal, unit)} (shop tolerance)`;
+	return 'no spec';
+}
+
+/** What "next" or "spec …" answers, in words. */
+export function describeStep(st: BenchStep | null, intent: 'next' | 'spec'): string {
+	if (!st) return intent === 'next' ? 'Every step is done.' : 'No step of this job matches.';
+	const head = intent === 'next' ? `Next: ${st.label}` : st.label;
+	return `${head} — ${describeSpec(st)}${st.caution ? `. Caution: ${st.caution}` : ''}`;
+}
+
+/**
+ * Appends one entry, reading the text again with the phrase engine (its verdict is the one
+ * stored). Idempotent by the device-made id: a repeat answers 200 with the stored entry.
+ */
+export async function appendEntry(
+	actor: Actor,
+	jobId: string,
+	input: AppendInput,
+	now = new Date()
+): Promise<AppendResult> {
+	const job = await getJob(actor.shopId, jobId);
+	if (!job) return { status: 404, message: NOT_FOUND };
+	if (!mayWrite(actor, job)) {
+		return {
+			status: 403,
+			message:
+				actor.role === 'technician'
+					? 'This job is not assigned to you. Ask the foreman to assign it.'
+					: 'Your role does not log work on jobs.'
+		};
+	}
+
+	const existing = await existingEntry(actor.shopId, jobId, input.id);
+	if (existing) return existing;
+
+	const steps = await listSteps(actor.shopId, jobId);
+	const { pct } = await shopTolerance(actor.shopId);
+	const deviceTime = input.occurredAt ? clampTime(new Date(input.occurredAt), now) : now;
+	const parsed = parsePhrase(input.text, {
+		steps: toStepSpecs(steps),
+		now: deviceTime,
+		tolerancePct: pct
+	});
+	const step = parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
+
+	if (parsed.intent === 'next' || parsed.intent === 'spec') {
+		const shown = parsed.intent === 'next' ? (steps.find((st) => !st.done) ?? null) : step;
+		if (parsed.intent === 'spec' && !shown) {
+			return { status: 422, message: parsed.problems[0] ?? 'No step of this job matches.' };
+		}
+		return {
+			status: 200,
+			answer: { intent: parsed.intent, step: shown, message: describeStep(shown, parsed.intent) }
+		};
+	}
+	if (parsed.intent === 'undo' || input.retracts) {
+		return retract(actor, job, input, deviceTime);
+	}
+
+	const refused = refusal(parsed, step);
+	if (refused) return { status: 422, message: refused };
+
+	const occurredAt = parsed.occurredAt
+		? clampTime(new Date(parsed.occurredAt), now)
+		: clampTime(deviceTime, now);
+	let torqueToolId: string | null = null;
+	let overdue = false;
+	const isTorque = step?.unit ? dimensionOf(step.unit) === 'torque' : false;
+	if (input.torqueToolId && isTorque && parsed.intent === 'measure') {
+		const tool = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
+		if (!tool) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
+		torqueToolId = tool.id;
+		overdue = tool.state === 'overdue';
+	}
+
+	const measured = parsed.intent === 'measure';
+	const inserted = await db
+		.insert(s.logEntry)
+		.values({
+			id: input.id,
+			shopId: actor.shopId,
+			jobId,
+			jobStepId: step?.id ?? null,
+			authorId: actor.id,
+			kind: parsed.intent as 'measure' | 'part' | 'note' | 'done',
+			rawText: input.text,
+			source: input.source,
+			value: measured ? (parsed.quantity?.value ?? null) : null,
+			unit: measured ? (parsed.quantity?.unit ?? null) : null,
+			specValue: measured ? (parsed.specValue?.value ?? null) : null,
+			specUnit: measured ? (parsed.specValue?.unit ?? null) : null,
+			verdict: measured ? parsed.verdict : null,
+			note: parsed.note,
+			torqueToolId,
+			toolCalibrationOverdue: overdue,
+			occurredAt
+		})
+		.onConflictDoNothing({ target: s.logEntry.id })
+		.returning({ id: s.logEntry.id });
+	if (inserted.length === 0) {
+		return (
+			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
+				status: 409,
+				message: 'That entry id is already used.'
+			}
+		);
+	}
+	if (job.state === 'open') await startWork(actor, jobId);
+	const entry = await readEntry(actor.shopId, input.id);
+	return { status: 201, entry: entry! };
+}
+
+/** The first entry on an open job puts it in work, recorded like any other state change. */
+async function startWork(actor: Actor, jobId: string): Promise<void> {
+	await db.transaction(async (tx) => {
+		const moved = await tx
+			.update(s.job)
+			.set({ state: 'in_work' })
+			.where(and(eq(s.job.shopId, actor.shopId), eq(s.job.id, jobId), eq(s.job.state, 'open')))
+			.returning({ id: s.job.id });
+		if (moved.length === 0) return;
+		await tx.insert(s.jobStateChange).values({
+			shopId: actor.shopId,
+			jobId,
+			fromState: 'open',
+			toState: 'in_work',
+			byUserId: actor.id
+		});
+	});
+}
+
+/** Why the parse cannot be logged, or null when it can. */
+function refusal(parsed: ParsedPhrase, step: BenchStep | null): string | null {
+	switch (parsed.intent) {
+		case 'note':
+			return parsed.note ? null : (parsed.problems[0] ?? 'Say what to note after "note".');
+		case 'part':
+			return parsed.note ? null : (parsed.problems[0] ?? 'Say which part was fitted.');
+		case 'done':
+			return step ? null : (parsed.problems[0] ?? 'Say which step is done.');
+		case 'measure':
+			if (!step) return parsed.problems[0] ?? 'No step of this job matches that phrase.';
+			if (!parsed.quantity || parsed.verdict === null) {
+				return parsed.problems[0] ?? `That value cannot be judged against ${step.label}.`;
+			}
+			return null;
+		default:
+			return (
+				parsed.problems[0] ??
+				'Benchcall could not read that phrase. Call out a step and a value, e.g. "rear axle 80 Nm".'
+			);
+	}
+}
+
+/** A repeat of an id: the stored entry when it is this job's, a 409 when the id is taken. */
+async function existingEntry(
+	shopId: string,
+	jobId: string,
+	id: string
+): Promise<AppendResult | null> {
+	const [row] = await db
+		.select({ shopId: s.logEntry.shopId, jobId: s.logEntry.jobId })
+		.from(s.logEntry)
+		.where(eq(s.logEntry.id, id))
+		.limit(1);
+	if (!row) return null;
+	if (row.shopId !== shopId || row.jobId !== jobId) {
+		return { status: 409, message: 'That entry id is already used.' };
+	}
+	const entry = await readEntry(shopId, id);
+	return entry
+		? { status: 200, entry }
+		: { status: 409, message: 'That entry id is already used.' };
+}
+
+/**
+ * Appends a retraction: of the author's own last live entry ("undo"), or of a named entry
+ * (its author, or a foreman or owner). Serialized per job so two undos never pick the same one.
+ */
+async function retract(
+	actor: Actor,
+	job: BenchJob,
+	input: AppendInput,
+	occurredAt: Date
+): Promise<AppendResult> {
+	const outcome = await db.transaction(async (tx) => {
+		await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
+		const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
+			and e.kind <> 'retraction'
+			and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${actor.shopId})`;
+		let targetRows;
+		if (input.retracts) {
+			targetRows = await tx.execute(sql`
+				select e.id, e.author_id, (${live}) as live from log_entry e
+				where e.shop_id = ${actor.shopId} and e.job_id = ${job.id} and e.id = ${input.retracts}`);
+			const t = targetRows[0];
+			if (!t) return { status: 422 as const, message: 'There is no such entry on this job.' };
+			const mine = t.author_id === actor.id;
+			if (!mine && actor.role !== 'foreman' && actor.role !== 'owner') {
+				return {
+					status: 403 as const,
+					message: 'Only its author or a foreman may retract an entry.'
+				};
+			}
+			if (!t.live) {
+				return { status: 422 as const, message: 'That entry is already retracted.' };
+			}
+		} else {
+			targetRows = await tx.execute(sql`
+				select e.id from log_entry e where ${live} and e.author_id = ${actor.id}
+				order by e.seq desc limit 1`);
+			if (!targetRows[0]) {
+				return { status: 422 as const, message: 'You have no entry on this job left to undo.' };
+			}
+		}
+		const target = targetRows[0].id as string;
+		const inserted = await tx
+			.insert(s.logEntry)
+			.values({
+				id: input.id,
+				shopId: actor.shopId,
+				jobId: job.id,
+				authorId: actor.id,
+				kind: 'retraction',
+				rawText: input.text,
+				source: input.source,
+				retracts: target,
+				occurredAt
+			})
+			.onConflictDoNothing({ target: s.logEntry.id })
+			.returning({ id: s.logEntry.id });
+		return inserted.length ? { status: 201 as const } : null;
+	});
+	if (outcome === null) {
+		return (
+			(await existingEntry(actor.shopId, job.id, input.id)) ?? {
+				status: 409,
+				message: 'That entry id is already used.'
+			}
+		);
+	}
+	if (outcome.status !== 201) return outcome;
+	const entry = await readEntry(actor.shopId, input.id);
+	return { status: 201, entry: entry! };
+}
+
+// --- final inspection -------------------------------------------------------------------------
+
+export type HandOverResult =
+	{ ok: true; state: JobState } | { ok: false; status: 403 | 404 | 409 | 422; message: string };
+
+/**
+ * in_work → final_inspection, recorded in job_state_change with who and when. When steps are
+ * not all done a reason is required (it is kept on the job and in the change).
+ */
+export async function sendToFinalInspection(
+	actor: Actor,
+	jobId: string,
+	reason?: string
+): Promise<HandOverResult> {
+	const job = await getJob(actor.shopId, jobId);
+	if (!job) return { ok: false, status: 404, message: NOT_FOUND };
+	if (!mayWrite(actor, job)) {
+		return { ok: false, status: 403, message: 'This job is not assigned to you.' };
+	}
+	const steps = await listSteps(actor.shopId, jobId);
+	const check = checkTransition(
+		job.state,
+		'final_inspection',
+		{ stepsTotal: steps.length, stepsDone: steps.filter((st) => st.done).length },
+		reason
+	);
+	if (!check.ok) {
+		return { ok: false, status: job.state === 'in_work' ? 422 : 409, message: check.message };
+	}
+	return db.transaction(async (tx) => {
+		const updated = await tx
+			.update(s.job)
+			.set({ state: 'final_inspection', stateReason: reason ?? null })
+			.where(and(eq(s.job.shopId, actor.shopId), eq(s.job.id, jobId), eq(s.job.state, 'in_work')))
+			.returning({ id: s.job.id });
+		if (updated.length === 0) {
+			return { ok: false as const, status: 409 as const, message: 'The job changed meanwhile.' };
+		}
+		await tx.insert(s.jobStateChange).values({
+			shopId: actor.shopId,
+			jobId,
+			fromState: 'in_work',
+			toState: 'final_inspection',
+			reason: reason ?? null,
+			byUserId: actor.id
+		});
+		return { ok: true as const, state: 'final_inspection' as const };
+	});
+}
+
+/** Open jobs for the Bench's picker: a technician's own, or every active one for a foreman. */
+export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
+	const mine = actor.role === 'technician' ? sql`and j.technician_id = ${actor.id}` : sql``;
+	const rows = await db.execute(sql`
+		select j.id, j.number, j.state, j.technician_id, t.name as technician_name, j.bay, j.concern,
+			nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
+			v.registration, c.name as customer_name
+		from job j
+		left join "user" t on t.id = j.technician_id and t.shop_id = j.shop_id
+		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
+		left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+		where j.shop_id = ${actor.shopId} and j.state in ('open', 'in_work', 'final_inspection', 'on_hold')
+		${mine}
+		order by (j.state = 'in_work') desc, j.number desc
+	`);
+	return rows.map((r) => ({
+		id: r.id as string,
+		number: r.number as number,
+		state: r.state as JobState,
+		technicianId: r.technician_id as string | null,
+		technicianName: r.technician_name as string | null,
+		bay: r.bay as string | null,
+		concern: r.concern as string,
+		vehicle: r.vehicle as string | null,
+		registration: r.registration as string | null,
+		customerName: r.customer_name as string | null
+	}));
+}
+
+export function isUuid(v: string): boolean {
+	return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v);
+}
