@@ -81,6 +81,7 @@ const DEFS: UnitDef[] = [
 	),
 	u('[lbf_av].[ft_i]', 'torque', 'lbf·ft', 'pound-foot', 'pound-feet', mul(LBF, FT)),
 	u('[lbf_av].[in_i]', 'torque', 'lbf·in', 'pound-inch', 'pound-inches', mul(LBF, IN)),
+	u('daN.m', 'torque', 'daN·m', 'decanewton metre', 'decanewton metres', dec('10'), false),
 	u('N.cm', 'torque', 'N·cm', 'newton centimetre', 'newton centimetres', dec('0.01'), false),
 
 	u('L', 'volume', 'L', 'litre', 'litres', ONE),

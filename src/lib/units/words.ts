@@ -76,6 +76,7 @@ const WORDS: Record<string, string[]> = {
 		'in pound',
 		'pound in'
 	],
+	'daN.m': ['dan m', 'decanewton metre', 'decanewton meter', 'deca newton metre'],
 	'N.cm': ['n cm', 'newton centimetre', 'newton centimeter'],
 	L: ['l', 'litre', 'liter', 'lt', 'ltr'],
 	mL: ['ml', 'millilitre', 'milliliter', 'mil litre', 'mil liter'],
