@@ -1,0 +1,96 @@
+import { describe, expect, it } from 'vitest';
+import {
+	PROCEDURE_FILE_FORMAT,
+	procedureFileJsonSchema,
+	readProcedureFile,
+	stepFormSchema
+} from './procedure';
+
+const good = {
+	format: PROCEDURE_FILE_FORMAT,
+	version: 1,
+	procedures: [
+		{
+			name: 'Front wheel refit',
+			appliesTo: 'Demo scooters',
+			flatRateHours: 0.5,
+			steps: [
+				{ label: 'Front axle nut', unit: 'N.m', nominal: 60, min: 55, max: 65 },
+				{ label: 'Test ride' }
+			]
+		}
+	]
+};
+
+describe('procedure file', () => {
+	it('reads a good file and fills defaults', () => {
+		const r = readProcedureFile(JSON.stringify(good));
+		expect(r.ok).toBe(true);
+		if (!r.ok) return;
+		expect(r.file.procedures[0].steps[1]).toEqual({
+			label: 'Test ride',
+			aliases: [],
+			unit: null,
+			nominal: null,
+			min: null,
+			max: null,
+			caution: null,
+			part: null
+		});
+	});
+
+	it('says where each problem is', () => {
+		const bad = structuredClone(good) as Record<string, unknown> & typeof good;
+		(bad.procedures[0].steps[0] as Record<string, unknown>).unit = 'newtons';
+		(bad.procedures[0].steps[0] as Record<string, unknown>).min = 70;
+		const r = readProcedureFile(JSON.stringify(bad));
+		expect(r.ok).toBe(false);
+		if (r.ok) return;
+		expect(r.problems).toEqual(
+			expect.arrayContaining([
+				{
+					where: 'procedures[0].steps[0].unit',
+					message: expect.stringContaining("does not know the unit 'newtons'")
+				},
+				{ where: 'procedures[0].steps[0].max', message: 'Max must not be less than min.' }
+			])
+		);
+	});
+
+	it('refuses other formats, versions and broken JSON with a message', () => {
+		const r1 = readProcedureFile(JSON.stringify({ ...good, version: 2 }));
+		expect(r1).toMatchObject({ ok: false, problems: [{ where: 'version' }] });
+		const r2 = readProcedureFile('{"format": ');
+		expect(r2).toMatchObject({ ok: false, problems: [{ where: 'file' }] });
+		const r3 = readProcedureFile(JSON.stringify({ ...good, format: 'something-else' }));
+		expect(r3).toMatchObject({ ok: false, problems: [{ where: 'format' }] });
+	});
+
+	it('generates a JSON Schema from the zod schema', () => {
+		const schema = procedureFileJsonSchema() as Record<string, unknown>;
+		expect(schema.title).toBe('Benchcall procedure file');
+		expect(JSON.stringify(schema)).toContain('"flatRateHours"');
+		expect((schema.required as string[]).sort()).toEqual(['format', 'procedures', 'version']);
+	});
+});
+
+describe('step form', () => {
+	it('stores a ± tolerance as min and max and splits aliases', () => {
+		const r = stepFormSchema.safeParse({
+			label: 'Drain plug',
+			aliases: 'sump plug, drain',
+			unit: 'N.m',
+			nominal: '24',
+			plusMinus: '2'
+		});
+		expect(r.success).toBe(true);
+		expect(r.data?.aliases).toEqual(['sump plug', 'drain']);
+	});
+
+	it('puts errors beside the field', () => {
+		const r = stepFormSchema.safeParse({ label: 'x', unit: 'N.m', min: '30', max: '20' });
+		expect(r.error?.issues[0]).toMatchObject({ path: ['max'] });
+		const r2 = stepFormSchema.safeParse({ label: 'x', nominal: '3' });
+		expect(r2.error?.issues[0]).toMatchObject({ path: ['unit'], message: 'A value needs a unit.' });
+	});
+});

@@ -1,0 +1,210 @@
+// Procedures: the editor's forms and Benchcall's procedure file (JSON, versioned).
+// The JSON Schema served at /api/procedures/schema is generated from `procedureFileSchema`.
+import { z } from 'zod';
+import { toStoredSpec } from '$lib/procedures/spec';
+import { isKnownUnit } from '$lib/units';
+
+export const PROCEDURE_FILE_FORMAT = 'benchcall.procedures';
+export const PROCEDURE_FILE_VERSION = 1;
+
+const text = (max: number, what: string) =>
+	z
+		.string({ error: `${what} must be text.` })
+		.trim()
+		.max(max, `${what} is at most ${max} characters.`);
+
+const num = (what: string) =>
+	z
+		.number({ error: `${what} must be a number.` })
+		.refine(Number.isFinite, `${what} must be a number.`);
+
+const unitCode = z
+	.string({ error: 'The unit must be a UCUM code such as N.m, L or mm.' })
+	.refine(isKnownUnit, {
+		error: (issue) =>
+			`Benchcall does not know the unit '${String(issue.input)}': use a UCUM code such as N.m, L or mm.`
+	});
+
+/** One step of a procedure in the file. Values are in `unit`. */
+export const procedureFileStep = z
+	.object({
+		label: text(200, 'A step label').min(1, 'A step needs a label.'),
+		aliases: z.array(text(100, 'An alias').min(1, 'An alias cannot be empty.')).max(20).default([]),
+		unit: unitCode.nullable().default(null),
+		nominal: num('The nominal value').nullable().default(null),
+		min: num('Min').nullable().default(null),
+		max: num('Max').nullable().default(null),
+		caution: text(2000, 'The caution').nullable().default(null),
+		part: z
+			.object({
+				code: text(60, 'The part code').min(1, 'A part needs its price-list code.'),
+				quantity: num('The quantity').positive('The quantity must be more than 0.')
+			})
+			.nullable()
+			.default(null)
+	})
+	.superRefine((step, ctx) => {
+		const spec = toStoredSpec(step);
+		if (!spec.ok) ctx.addIssue({ code: 'custom', path: [spec.field], message: spec.message });
+		if (step.unit === null && (step.nominal !== null || step.min !== null || step.max !== null)) {
+			ctx.addIssue({ code: 'custom', path: ['unit'], message: 'A value needs a unit.' });
+		}
+	});
+
+export const procedureFileEntry = z.object({
+	name: text(200, 'A procedure name').min(1, 'A procedure needs a name.'),
+	appliesTo: text(500, 'Applies to').default(''),
+	flatRateHours: num('Flat-rate hours')
+		.min(0, 'Flat-rate hours cannot be negative.')
+		.max(200, 'Flat-rate hours are at most 200.')
+		.default(0),
+	steps: z.array(procedureFileStep).max(300, 'A procedure has at most 300 steps.')
+});
+export type ProcedureFileEntry = z.output<typeof procedureFileEntry>;
+
+/** Benchcall's procedure file, version 1. */
+export const procedureFileSchema = z
+	.object({
+		format: z.literal(PROCEDURE_FILE_FORMAT, {
+			error: `This is not a Benchcall procedure file: "format" must be "${PROCEDURE_FILE_FORMAT}".`
+		}),
+		version: z.literal(PROCEDURE_FILE_VERSION, {
+			error: `Benchcall reads version ${PROCEDURE_FILE_VERSION} of the procedure file.`
+		}),
+		exportedAt: z.string().optional(),
+		procedures: z
+			.array(procedureFileEntry)
+			.min(1, 'The file holds no procedures.')
+			.max(500, 'At most 500 procedures at once.')
+	})
+	.meta({
+		title: 'Benchcall procedure file',
+		description:
+			'Procedures with their steps and specs. Units are UCUM codes; min/max are stored limits; a part is named by its price-list code.'
+	});
+export type ProcedureFile = z.output<typeof procedureFileSchema>;
+
+/** The JSON Schema of the procedure file, generated from the zod schema. */
+export function procedureFileJsonSchema() {
+	return z.toJSONSchema(procedureFileSchema, { io: 'input', unrepresentable: 'any' });
+}
+
+export interface Problem {
+	/** Where: "procedures[0].steps[2].unit", or "row 4, column unit" for CSV. */
+	where: string;
+	message: string;
+}
+
+/** Zod issues as problems with a readable path. */
+export function issuesToProblems(error: z.ZodError): Problem[] {
+	return error.issues.map((issue) => ({
+		where:
+			issue.path
+				.map((p, i) => (typeof p === 'number' ? `[${p}]` : `${i === 0 ? '' : '.'}${String(p)}`))
+				.join('') || 'file',
+		message: issue.message
+	}));
+}
+
+/** Reads a procedure file's text: JSON syntax errors and schema problems, never a throw. */
+export function readProcedureFile(
+	text: string
+): { ok: true; file: ProcedureFile } | { ok: false; problems: Problem[] } {
+	let json: unknown;
+	try {
+		json = JSON.parse(text);
+	} catch (e) {
+		return {
+			ok: false,
+			problems: [{ where: 'file', message: `Not valid JSON: ${(e as Error).message}` }]
+		};
+	}
+	const parsed = procedureFileSchema.safeParse(json);
+	if (!parsed.success) return { ok: false, problems: issuesToProblems(parsed.error) };
+	return { ok: true, file: parsed.data };
+}
+
+// ——— Editor forms ———
+
+const optionalNumber = (what: string) =>
+	z
+		.string()
+		.trim()
+		.optional()
+		.transform((v, ctx) => {
+			if (v === undefined || v === '') return null;
+			const n = Number(v.replace(',', '.'));
+			if (!Number.isFinite(n)) {
+				ctx.addIssue({ code: 'custom', message: `${what} must be a number.` });
+				return z.NEVER;
+			}
+			return n;
+		});
+
+export const procedureFormSchema = z.object({
+	name: text(200, 'The name').min(1, 'Give the procedure a name.'),
+	appliesTo: text(500, 'Applies to').default(''),
+	flatRateHours: optionalNumber('Flat-rate hours').pipe(
+		z
+			.number()
+			.min(0, 'Flat-rate hours cannot be negative.')
+			.max(200, 'At most 200 hours.')
+			.nullable()
+	)
+});
+
+export const stepFormSchema = z
+	.object({
+		stepId: z.union([z.uuid(), z.literal('')]).optional(),
+		label: text(200, 'The label').min(1, 'Give the step a label.'),
+		aliases: text(1000, 'Aliases')
+			.default('')
+			.transform((v) =>
+				v
+					.split(/[,;\n]/)
+					.map((a) => a.trim())
+					.filter(Boolean)
+			),
+		unit: z
+			.string()
+			.trim()
+			.default('')
+			.refine((u) => u === '' || isKnownUnit(u), 'Pick a unit from the list.'),
+		nominal: optionalNumber('The nominal value'),
+		min: optionalNumber('Min'),
+		max: optionalNumber('Max'),
+		plusMinus: optionalNumber('The ± tolerance'),
+		caution: text(2000, 'The caution').default(''),
+		partId: z.union([z.uuid('Pick a part from the price list.'), z.literal('')]).default(''),
+		partQuantity: optionalNumber('The quantity')
+	})
+	.superRefine((v, ctx) => {
+		const spec = toStoredSpec(v);
+		if (!spec.ok) ctx.addIssue({ code: 'custom', path: [spec.field], message: spec.message });
+		if (v.unit === '' && (v.nominal !== null || v.min !== null || v.max !== null)) {
+			ctx.addIssue({ code: 'custom', path: ['unit'], message: 'A value needs a unit.' });
+		}
+		if (v.partId && (v.partQuantity === null || v.partQuantity <= 0)) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['partQuantity'],
+				message: 'Give the quantity billed for the part.'
+			});
+		}
+	});
+export type StepForm = z.output<typeof stepFormSchema>;
+
+export const stepIdSchema = z.object({ stepId: z.uuid('Unknown step.') });
+export const stepMoveSchema = z.object({
+	stepId: z.uuid('Unknown step.'),
+	direction: z.enum(['up', 'down'])
+});
+
+/** The import form: a file, or the text of one sent back from the preview. */
+export const importFormSchema = z.object({
+	kind: z.enum(['json', 'csv']),
+	content: z
+		.string()
+		.max(2_000_000, 'The file is over 2 MB.')
+		.refine((v) => v.trim().length > 0, 'Choose a file to import.')
+});
