@@ -157,6 +157,22 @@ describe('verdicts', () => {
 		expect(r.verdict).toBe('in');
 	});
 
+	it('"degrees" alone is the temperature step’s own scale', () => {
+		const r = p('coolant temperature fan on 100 degrees');
+		expect(r.stepId).toBe('ct');
+		expect(r.quantity).toEqual({ value: 100, unit: 'Cel' });
+		expect(r.unitAssumed).toBe(true);
+		expect(r.verdict).toBe('in');
+		const f = parsePhrase('oil temp 200 degrees', {
+			steps: [{ id: 'ot', label: 'Oil temperature', unit: '[degF]', min: 180, max: 220 }]
+		});
+		expect(f.quantity).toEqual({ value: 200, unit: '[degF]' });
+		expect(f.verdict).toBe('in');
+		const none = p('chain slack 90 degrees');
+		expect(none.verdict).toBeNull();
+		expect(none.problems.join(' ')).toMatch(/"Degrees" alone is not a unit here/);
+	});
+
 	it('nominal-only rpm with the default ±10 %', () => {
 		expect(p('idle speed 1500 rpm').verdict).toBe('in');
 		expect(p('idle 1600 rpm').verdict).toBe('high');

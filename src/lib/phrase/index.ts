@@ -515,6 +515,7 @@ const VALUE_THEN = new Set([
 	'all',
 	'after'
 ]);
+const DEGREE_WORDS = new Set(['degrees', 'degree', 'deg', '°']);
 const GLUE_WORDS = new Set(['the', 'a', 'an', 'of', 'and']);
 const AFTER_VALUE_FILLERS = new Set(['done', 'ok', 'okay', 'filled', 'added', 'set']);
 
@@ -550,7 +551,7 @@ function chooseValue(
 			return span;
 		}
 		const next = rest[0];
-		if (next !== undefined && VALUE_THEN.has(next)) return span;
+		if (next !== undefined && (VALUE_THEN.has(next) || DEGREE_WORDS.has(next))) return span;
 		if (next !== undefined && /^[a-zµμω°"]/.test(next) && looksLikeUnit(next, vocabulary)) {
 			return span;
 		}
@@ -573,6 +574,30 @@ function measure(
 	const stepTokens = [...tokens.slice(0, span.start), ...tokens.slice(unitEnd)].filter(
 		(t, i, all) => !(i === all.length - 1 && AFTER_VALUE_FILLERS.has(t))
 	);
+
+	// "90 degrees": a temperature in the step's own scale (°C or °F), never an angle
+	if (!unit && DEGREE_WORDS.has(tokens[span.end] ?? '')) {
+		const words = stepTokens.filter((t, i) => !(i === span.start && DEGREE_WORDS.has(t)));
+		const hot = pickStep(
+			r,
+			words,
+			vocabulary,
+			(st) => dimensionOf(st.unit ?? '') === 'temperature',
+			'measure'
+		);
+		if (!hot || !hot.unit) {
+			if (!hot) r.problems.push('"Degrees" alone is not a unit here: say degrees C or degrees F.');
+			return;
+		}
+		r.unitAssumed = true;
+		r.quantity = { value: span.value, unit: hot.unit };
+		const judged = judge(span.value, hot.unit, hot, ctx.tolerancePct);
+		r.specValue = judged.specValue;
+		r.verdict = judged.verdict;
+		r.band = judged.band;
+		r.problems.push(...judged.problems);
+		return;
+	}
 
 	// a word right after the number that is neither a unit nor part of any step name
 	if (!unit) {
