@@ -393,6 +393,10 @@ describe('intents', () => {
 		expect(r.quantity).toBeNull();
 		expect(p('test ride ok').stepId).toBe('tr');
 		expect(p('headlight aim checked').intent).toBe('done');
+		// a number in the step's name is not a value
+		const cyl = p('done cylinder 2 intake valve clearance');
+		expect(cyl.intent).toBe('done');
+		expect(cyl.stepId).toBe('v2');
 	});
 
 	it('undo', () => {

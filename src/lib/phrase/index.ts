@@ -398,11 +398,13 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		return r;
 	}
 
-	// done: "done test ride", "rear brake light checked ok" — unless a value follows
+	// done: "done test ride", "rear brake light checked ok" — unless a value follows, as in
+	// "done chain slack 30 mm", which is a measure
 	const donePre = startsWith(tokens, DONE_PREFIXES);
 	const doneSuf = donePre ? 0 : endsWith(tokens, DONE_SUFFIXES);
-	const numbers = findNumbers(tokens);
-	if ((donePre || doneSuf) && numbers.length === 0) {
+	const body = donePre ? tokens.slice(donePre) : tokens;
+	const value = chooseValue(body, findNumbers(body), vocabulary);
+	if ((donePre || doneSuf) && !value) {
 		r.intent = 'done';
 		const words = tokens.slice(donePre, tokens.length - doneSuf);
 		if (words.length === 0) {
@@ -413,14 +415,10 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		return r;
 	}
 
-	// measure: "<step words> <number> [unit]"; "done chain slack 30 mm" is a measure too
-	const body = donePre && numbers.length > 0 ? tokens.slice(donePre) : tokens;
-	const value = chooseValue(body, body === tokens ? numbers : findNumbers(body), vocabulary);
+	// measure: "<step words> <number> [unit]"
 	if (!value) {
 		r.intent = 'unknown';
-		const words = toMatchTokens(
-			body === tokens ? tokens.slice(donePre, tokens.length - doneSuf) : body
-		);
+		const words = toMatchTokens(body);
 		const hits = index.search(words).filter((h) => h.score >= MATCH_THRESHOLD);
 		r.candidates = toCandidates(hits, steps);
 		const best = hits[0] ? steps[hits[0].index] : undefined;
