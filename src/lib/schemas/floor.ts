@@ -1,0 +1,52 @@
+// Payloads and query strings of the Floor (issue 7).
+import { z } from 'zod';
+
+const uuid = z.uuid({ message: 'That is not a valid id.' });
+
+/** Filters of the running log, from the query string. Empty strings mean "any". */
+export const logFilterSchema = z.object({
+	bay: z.string().trim().max(60).optional(),
+	technician: z.union([uuid, z.literal('')]).optional(),
+	job: z
+		.string()
+		.trim()
+		.regex(/^\d{0,9}$/, 'A job number is digits only.')
+		.optional(),
+	verdict: z.enum(['', 'in', 'low', 'high', 'no_spec', 'out']).optional(),
+	q: z.string().trim().max(120).optional()
+});
+export type LogFilterInput = z.infer<typeof logFilterSchema>;
+
+/** A page of the running log: entries older than `before` (a seq). */
+export const logPageSchema = logFilterSchema.extend({
+	before: z.coerce.number().int().positive().optional()
+});
+
+/** Where a live stream resumes: the last seq the browser saw. */
+export const streamAfterSchema = z.coerce.number().int().min(0).max(Number.MAX_SAFE_INTEGER);
+
+export const acceptSchema = z.object({
+	reason: z
+		.string({ message: 'Give a reason for accepting this value.' })
+		.trim()
+		.min(3, 'Give a reason for accepting this value (a few words at least).')
+		.max(500, 'Keep the reason under 500 characters.')
+});
+
+export const redoSchema = z.object({
+	note: z
+		.string({ message: 'Tell the technician what to redo.' })
+		.trim()
+		.min(3, 'Tell the technician what to redo (a few words at least).')
+		.max(500, 'Keep the note under 500 characters.')
+});
+
+export const inspectionTickSchema = z.object({
+	itemId: uuid,
+	ticked: z.boolean()
+});
+
+export const driftQuerySchema = z.object({
+	step: z.union([uuid, z.literal('')]).optional(),
+	tool: z.union([uuid, z.literal('')]).optional()
+});

@@ -1,0 +1,177 @@
+// The live hub: one LISTEN connection per server process, fanned out in memory by shop.
+//
+// A trigger on log_entry (drizzle/0004_log_entry_notify.sql) announces each committed entry on
+// the `log_entry` channel, so an entry written through any app server reaches the browsers of
+// every server. The payload carries ids only; subscribers read the entry, scoped by shop.
+//
+// NOTIFY is lost while a listener is disconnected. postgres.js re-listens after a dropped
+// connection but gives up silently when the database is away at that moment, so a heartbeat
+// (a NOTIFY on our own ping channel every few seconds) proves the connection; when it goes
+// quiet the connection is replaced. Every (re)connection after the first tells subscribers to
+// resync, i.e. catch up from the database, which is the only source of truth.
+import { building } from '$app/environment';
+import { env } from '$env/dynamic/private';
+import postgres from 'postgres';
+import { client } from './db';
+
+export interface LiveEvent {
+	seq: number;
+	id: string;
+	shopId: string;
+	jobId: string;
+	kind: string;
+}
+
+interface Subscriber {
+	onEvent: (e: LiveEvent) => void;
+	onResync?: () => void;
+}
+
+const channel = 'log_entry';
+const pingChannel = 'benchcall_live_ping';
+const pingEveryMs = 5_000;
+const quietLimitMs = 20_000;
+
+const byShop = new Map<string, Set<Subscriber>>();
+let conn: postgres.Sql | null = null;
+let connecting = false;
+let everConnected = false;
+let lastSign = 0;
+let timer: ReturnType<typeof setInterval> | null = null;
+let closed = false;
+
+function parse(payload: string): LiveEvent | null {
+	try {
+		const v = JSON.parse(payload) as Record<string, unknown>;
+		if (typeof v.id !== 'string' || typeof v.shopId !== 'string') return null;
+		return {
+			seq: Number(v.seq),
+			id: v.id,
+			shopId: v.shopId,
+			jobId: String(v.jobId),
+			kind: String(v.kind)
+		};
+	} catch {
+		return null;
+	}
+}
+
+function deliver(payload: string) {
+	lastSign = Date.now();
+	const event = parse(payload);
+	if (!event) return;
+	for (const s of byShop.get(event.shopId) ?? []) {
+		try {
+			s.onEvent(event);
+		} catch (err) {
+			console.error('live: a subscriber failed', err);
+		}
+	}
+}
+
+function resyncAll() {
+	for (const set of byShop.values()) {
+		for (const s of set) {
+			try {
+				s.onResync?.();
+			} catch (err) {
+				console.error('live: a subscriber failed to resync', err);
+			}
+		}
+	}
+}
+
+async function connect() {
+	if (connecting || closed || building) return;
+	connecting = true;
+	const sql = postgres(env.DATABASE_URL ?? '', {
+		max: 1,
+		onnotice: () => {},
+		connection: { application_name: 'benchcall-live' }
+	});
+	try {
+		let first = true;
+		await sql.listen(channel, deliver, () => {
+			lastSign = Date.now();
+			// postgres.js calls this again after re-listening on a new connection.
+			if (!first) resyncAll();
+			first = false;
+		});
+		await sql.listen(pingChannel, () => {
+			lastSign = Date.now();
+		});
+		conn = sql;
+		if (everConnected) resyncAll();
+		everConnected = true;
+	} catch (err) {
+		console.error('live: cannot listen yet, will retry', (err as Error).message);
+		void sql.end({ timeout: 0 });
+	} finally {
+		connecting = false;
+	}
+}
+
+async function tick() {
+	if (closed) return;
+	if (!conn) {
+		await connect();
+		return;
+	}
+	if (Date.now() - lastSign > quietLimitMs) {
+		console.error('live: the listening connection went quiet; replacing it');
+		const old = conn;
+		conn = null;
+		void old.end({ timeout: 0 });
+		await connect();
+		return;
+	}
+	try {
+		await client`select pg_notify(${pingChannel}, '')`;
+	} catch {
+		// The database is away; the quiet limit will replace the listener when it is back.
+	}
+}
+
+function start() {
+	if (timer || closed || building) return;
+	lastSign = Date.now();
+	void connect();
+	timer = setInterval(() => void tick(), pingEveryMs);
+	timer.unref?.();
+}
+
+/**
+ * Calls `onEvent` for every log entry committed in `shopId`, from any server process.
+ * `onResync` (optional) is called after the listening connection was replaced: events may have
+ * been missed, so catch up from the database. Returns the function that unsubscribes.
+ */
+export function subscribe(
+	shopId: string,
+	onEvent: (e: LiveEvent) => void,
+	onResync?: () => void
+): () => void {
+	start();
+	const sub: Subscriber = { onEvent, onResync };
+	let set = byShop.get(shopId);
+	if (!set) byShop.set(shopId, (set = new Set()));
+	set.add(sub);
+	return () => {
+		const current = byShop.get(shopId);
+		if (!current) return;
+		current.delete(sub);
+		if (current.size === 0) byShop.delete(shopId);
+	};
+}
+
+/** Whether this process is listening now (for the stream's first message and for tests). */
+export function isListening(): boolean {
+	return conn !== null;
+}
+
+process.on('sveltekit:shutdown', () => {
+	closed = true;
+	if (timer) clearInterval(timer);
+	const c = conn;
+	conn = null;
+	void c?.end({ timeout: 0 });
+});
