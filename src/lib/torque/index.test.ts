@@ -70,6 +70,7 @@ describe('calibration due', () => {
 	});
 
 	it('due soon within 30 days, overdue after the due date', () => {
+		// the 30-day warning is Benchcall's own choice, not a standard
 		expect(calibrationDue('2025-12-20', { today: '2026-12-02' }).state).toBe('due_soon');
 		const late = calibrationDue('2025-11-30', { today: '2026-12-02' });
 		expect(late.state).toBe('overdue');
@@ -79,6 +80,7 @@ describe('calibration due', () => {
 	});
 
 	it('5000 cycles, whichever comes first', () => {
+		// 12 months or 5 000 cycles (tool-maker guidance, TRADE.md §5 [SRC])
 		const s = calibrationDue('2026-06-01', { today: '2026-12-02', cyclesUsed: 5000 });
 		expect(s.state).toBe('overdue');
 		expect(s.reason).toBe('cycles');
