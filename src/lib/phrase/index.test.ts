@@ -552,6 +552,11 @@ describe('robustness', () => {
 			{ steps: JOB, tolerancePct: Number.NaN }
 		] as unknown as Parameters<typeof parsePhrase>[1][];
 		for (const c of bad) isResult(parsePhrase('front axle nut 65 nm', c));
+		// a step without an id is left out rather than matched under a made-up id
+		const noId = parsePhrase('front axle nut 65 nm', {
+			steps: [{ label: 'Front axle nut', unit: 'N.m' } as unknown as StepSpec]
+		});
+		expect(noId.stepId).toBeNull();
 		isResult(parsePhrase(undefined as unknown as string, ctx));
 		expect(parsePhrase('x 1', { steps: [] }).problems).toEqual(['This job has no steps to match.']);
 	});

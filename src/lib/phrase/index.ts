@@ -217,7 +217,12 @@ function safeSteps(steps: unknown): StepSpec[] {
 	if (!Array.isArray(steps)) return [];
 	return (steps as unknown[])
 		.slice(0, MAX_STEPS)
-		.filter((s): s is StepSpec => typeof s === 'object' && s !== null) as StepSpec[];
+		.filter(
+			(s): s is StepSpec =>
+				typeof s === 'object' &&
+				s !== null &&
+				(typeof (s as StepSpec).id === 'string' || typeof (s as StepSpec).id === 'number')
+		);
 }
 
 function buildVocabulary(raw: unknown): Vocabulary {
