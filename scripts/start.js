@@ -16,6 +16,16 @@ await ensureBuild();
 mkdirSync(config.uploadsDir, { recursive: true });
 
 const origin = process.env.ORIGIN || `http://${config.appHost}:${config.appPort}`;
+step(
+	'Starting the local mail sink and payment provider (unless SMTP_URL / STRIPE_SECRET_KEY are set)'
+);
+const { startFakes } = await import('./lib/fakes.js');
+const fakes = await startFakes({
+	appOrigin: `http://${config.appHost}:${config.appPort}`,
+	dataDir: config.dataDir,
+	smtpPort: config.smtpPort,
+	paymentsPort: config.paymentsPort
+});
 step(`Starting Benchcall on ${origin}`);
 const app = spawn(process.execPath, [join(root, 'build', 'index.js')], {
 	cwd: root,
@@ -28,7 +38,8 @@ const app = spawn(process.execPath, [join(root, 'build', 'index.js')], {
 		ORIGIN: origin,
 		DATABASE_URL: databaseUrlValue,
 		BENCHCALL_UPLOADS_DIR: config.uploadsDir,
-		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '12M'
+		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '12M',
+		...fakes.env
 	}
 });
 
@@ -51,6 +62,7 @@ for (const signal of ['SIGINT', 'SIGTERM']) {
 		stopping = true;
 		console.log('\nStopping Benchcall…');
 		app.kill('SIGTERM');
+		fakes.close();
 		setTimeout(() => app.kill('SIGKILL'), 8000).unref();
 	});
 }

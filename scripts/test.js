@@ -23,8 +23,17 @@ rmSync(reports, { recursive: true, force: true });
 mkdirSync(reports, { recursive: true });
 
 const bin = (name) => join(root, 'node_modules', '.bin', name);
+// Local mail sink and payment provider for the e2e stage (any free ports unless set).
+const { startFakes } = await import('./lib/fakes.js');
+const fakes = await startFakes({
+	appOrigin: `http://127.0.0.1:${config.testPort}`,
+	dataDir: join(config.dataDir, 'test'),
+	smtpPort: config.testSmtpPort,
+	paymentsPort: config.testPaymentsPort
+});
 const env = {
 	...process.env,
+	...fakes.env,
 	DATABASE_URL: url,
 	BENCHCALL_TEST_DATABASE_URL: url,
 	BENCHCALL_CHROMIUM: chromium,
@@ -107,6 +116,7 @@ for (const r of results) {
 	);
 }
 const stagesFailed = results.filter((r) => r.code !== 0).length;
+fakes.close();
 // On CI, leave nothing running: stop the cluster when this run started it.
 if (process.env.CI && startedHere) await stopCluster();
 console.log(`\nsummary: ${passed} passed, ${failed} failed`);

@@ -51,7 +51,18 @@ export default defineConfig({
 			ORIGIN: origin,
 			DATABASE_URL: process.env.BENCHCALL_TEST_DATABASE_URL ?? '',
 			BENCHCALL_UPLOADS_DIR: process.env.BENCHCALL_UPLOADS_DIR ?? '.data/test-uploads',
-			BODY_SIZE_LIMIT: '12M'
+			BODY_SIZE_LIMIT: '12M',
+			// The local mail sink and payment provider that scripts/test.js started.
+			...Object.fromEntries(
+				[
+					'SMTP_URL',
+					'STRIPE_SECRET_KEY',
+					'STRIPE_WEBHOOK_SECRET',
+					'STRIPE_API_HOST',
+					'STRIPE_API_PORT',
+					'STRIPE_API_PROTOCOL'
+				].map((k) => [k, process.env[k] ?? ''])
+			)
 		}
 	}
 });

@@ -46,6 +46,11 @@ export const config = {
 	appHost: env.HOST || '127.0.0.1',
 	appPort: port('PORT', 3000),
 	testPort: port('BENCHCALL_TEST_PORT', 4173),
+	// Local fakes of the mail and payment services (scripts/lib/fakes.js); 0 = any free port.
+	smtpPort: port('BENCHCALL_SMTP_PORT', 2525),
+	paymentsPort: port('BENCHCALL_PAYMENTS_PORT', 12111),
+	testSmtpPort: port('BENCHCALL_TEST_SMTP_PORT', 0),
+	testPaymentsPort: port('BENCHCALL_TEST_PAYMENTS_PORT', 0),
 	uploadsDir: resolve(root, env.BENCHCALL_UPLOADS_DIR || join('.data', 'uploads'))
 };
 

@@ -1,0 +1,684 @@
+// Invoices, credit notes and payments. Every query is scoped by the caller's shop id.
+import { randomBytes } from 'node:crypto';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
+import { buildDraftLines, type LabourMode, type LineKind } from '$lib/invoice/draft';
+import { priceLine, sumTotals } from '$lib/money';
+import { db, type Tx } from './db';
+import {
+	customer,
+	invoice,
+	invoiceCounter,
+	invoiceLine,
+	job,
+	jobProcedure,
+	jobStep,
+	logEntry,
+	part,
+	payment,
+	shop,
+	user,
+	vehicle,
+	webhookEvent,
+	type Invoice,
+	type InvoiceLine,
+	type Payment
+} from './db/schema';
+import { transitionJob } from './jobs';
+
+export type Result<T = object> =
+	({ ok: true } & T) | { ok: false; message: string; status?: number };
+
+/** 256 random bits, base64url: the customer's private page cannot be guessed. */
+export function newCustomerToken(): string {
+	return randomBytes(32).toString('base64url');
+}
+
+export async function findJobByNumber(shopId: string, number: number) {
+	const [row] = await db
+		.select({
+			id: job.id,
+			number: job.number,
+			state: job.state,
+			concern: job.concern,
+			odometer: job.odometer,
+			odometerUnit: job.odometerUnit,
+			signedOffAt: job.signedOffAt,
+			createdAt: job.createdAt,
+			customerName: customer.name,
+			customerEmail: customer.email,
+			customerPhone: customer.phone,
+			registration: vehicle.registration,
+			make: vehicle.make,
+			model: vehicle.model
+		})
+		.from(job)
+		.leftJoin(customer, and(eq(customer.id, job.customerId), eq(customer.shopId, shopId)))
+		.leftJoin(vehicle, and(eq(vehicle.id, job.vehicleId), eq(vehicle.shopId, shopId)))
+		.where(and(eq(job.shopId, shopId), eq(job.number, number)))
+		.limit(1);
+	return row ?? null;
+}
+export type JobHeader = NonNullable<Awaited<ReturnType<typeof findJobByNumber>>>;
+
+export interface InvoiceWithLines extends Invoice {
+	lines: InvoiceLine[];
+	payments: Payment[];
+	paidMinor: number;
+}
+
+async function withLines(shopId: string, rows: Invoice[]): Promise<InvoiceWithLines[]> {
+	if (rows.length === 0) return [];
+	const ids = rows.map((r) => r.id);
+	const lines = await db
+		.select()
+		.from(invoiceLine)
+		.where(and(eq(invoiceLine.shopId, shopId), inArray(invoiceLine.invoiceId, ids)))
+		.orderBy(asc(invoiceLine.position));
+	const pays = await db
+		.select()
+		.from(payment)
+		.where(and(eq(payment.shopId, shopId), inArray(payment.invoiceId, ids)))
+		.orderBy(asc(payment.receivedAt));
+	return rows.map((r) => {
+		const p = pays.filter((x) => x.invoiceId === r.id);
+		return {
+			...r,
+			lines: lines.filter((l) => l.invoiceId === r.id),
+			payments: p,
+			paidMinor: p.reduce((s, x) => s + x.amountMinor, 0)
+		};
+	});
+}
+
+/** Every invoice and credit note of a job, newest first. */
+export async function jobInvoices(shopId: string, jobId: string) {
+	const rows = await db
+		.select()
+		.from(invoice)
+		.where(and(eq(invoice.shopId, shopId), eq(invoice.jobId, jobId)))
+		.orderBy(desc(invoice.createdAt));
+	return withLines(shopId, rows);
+}
+
+export async function getInvoice(shopId: string, invoiceId: string) {
+	const rows = await db
+		.select()
+		.from(invoice)
+		.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)))
+		.limit(1);
+	return (await withLines(shopId, rows))[0] ?? null;
+}
+
+/** The customer's view: by the unguessable token alone (no sign-in), with its shop. */
+export async function invoiceByToken(token: string) {
+	if (!/^[A-Za-z0-9_-]{40,60}$/.test(token)) return null;
+	const [row] = await db.select().from(invoice).where(eq(invoice.customerToken, token)).limit(1);
+	if (!row || row.status === 'draft') return null;
+	const [inv] = await withLines(row.shopId, [row]);
+	const [s] = await db.select().from(shop).where(eq(shop.id, row.shopId)).limit(1);
+	const [j] = await db
+		.select({ number: job.number })
+		.from(job)
+		.where(and(eq(job.shopId, row.shopId), eq(job.id, row.jobId)));
+	return { invoice: inv, shop: s, jobNumber: j.number };
+}
+
+async function recomputeTotals(tx: Tx, shopId: string, invoiceId: string) {
+	const lines = await tx
+		.select({ amountMinor: invoiceLine.amountMinor, taxMinor: invoiceLine.taxMinor })
+		.from(invoiceLine)
+		.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.invoiceId, invoiceId)));
+	const t = sumTotals(lines);
+	await tx
+		.update(invoice)
+		.set({ ...t, updatedAt: new Date() })
+		.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)));
+	return t;
+}
+
+/** Locks a draft of this shop for change; null when it is not a draft (issued ones are frozen). */
+async function lockDraft(tx: Tx, shopId: string, invoiceId: string) {
+	const [row] = await tx
+		.select()
+		.from(invoice)
+		.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)))
+		.for('update');
+	return row ?? null;
+}
+
+type Refusal = { ok: false; message: string; status?: number };
+
+const frozen = (row: Invoice | null): Refusal | null =>
+	!row
+		? { ok: false, message: 'No such invoice in this shop.', status: 404 }
+		: row.status !== 'draft'
+			? {
+					ok: false,
+					message:
+						'This invoice is issued and cannot change: put a mistake right with a credit note.'
+				}
+			: null;
+
+/**
+ * Makes (or remakes) the draft invoice of a job from its log, in one transaction. Lines the
+ * service writer added by hand (sundries, discounts) are kept; lines from the log are rebuilt.
+ */
+export async function makeDraft(
+	shopId: string,
+	jobId: string,
+	byUserId: string,
+	labourMode?: LabourMode
+): Promise<Result<{ invoiceId: string }>> {
+	return db.transaction(async (tx) => {
+		const [j] = await tx
+			.select({ id: job.id, state: job.state })
+			.from(job)
+			.where(and(eq(job.shopId, shopId), eq(job.id, jobId)))
+			.for('update');
+		if (!j) return { ok: false, message: 'No such job card in this shop.', status: 404 };
+		if (j.state !== 'ready_to_invoice') {
+			return {
+				ok: false,
+				message: 'Only a signed-off job that is ready to invoice can be invoiced.'
+			};
+		}
+		const [s] = await tx.select().from(shop).where(eq(shop.id, shopId));
+		let [draft] = await tx
+			.select()
+			.from(invoice)
+			.where(
+				and(
+					eq(invoice.shopId, shopId),
+					eq(invoice.jobId, jobId),
+					eq(invoice.status, 'draft'),
+					eq(invoice.kind, 'invoice')
+				)
+			)
+			.for('update');
+		const mode = labourMode ?? draft?.labourMode ?? 'flat_rate';
+		if (!draft) {
+			[draft] = await tx
+				.insert(invoice)
+				.values({
+					shopId,
+					jobId,
+					currency: s.currency,
+					labourMode: mode,
+					labourRateMinor: s.labourRateMinor,
+					taxRateBp: s.taxRateBp,
+					customerToken: newCustomerToken(),
+					createdBy: byUserId
+				})
+				.returning();
+		} else {
+			await tx
+				.update(invoice)
+				.set({
+					labourMode: mode,
+					currency: s.currency,
+					labourRateMinor: s.labourRateMinor,
+					taxRateBp: s.taxRateBp
+				})
+				.where(eq(invoice.id, draft.id));
+		}
+		const kept = await tx
+			.select()
+			.from(invoiceLine)
+			.where(
+				and(
+					eq(invoiceLine.shopId, shopId),
+					eq(invoiceLine.invoiceId, draft.id),
+					inArray(invoiceLine.kind, ['sundry', 'discount'])
+				)
+			)
+			.orderBy(asc(invoiceLine.position));
+		await tx
+			.delete(invoiceLine)
+			.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.invoiceId, draft.id)));
+
+		const [parts, steps, entries, procedures, staff] = await Promise.all([
+			tx.select().from(part).where(eq(part.shopId, shopId)),
+			tx
+				.select()
+				.from(jobStep)
+				.where(and(eq(jobStep.shopId, shopId), eq(jobStep.jobId, jobId))),
+			tx
+				.select()
+				.from(logEntry)
+				.where(and(eq(logEntry.shopId, shopId), eq(logEntry.jobId, jobId)))
+				.orderBy(asc(logEntry.seq)),
+			tx
+				.select()
+				.from(jobProcedure)
+				.where(and(eq(jobProcedure.shopId, shopId), eq(jobProcedure.jobId, jobId)))
+				.orderBy(asc(jobProcedure.position)),
+			tx.select({ id: user.id, name: user.name }).from(user).where(eq(user.shopId, shopId))
+		]);
+		const lines = buildDraftLines({
+			parts,
+			steps,
+			entries,
+			procedures,
+			technicianNames: new Map(staff.map((u) => [u.id, u.name])),
+			labourMode: mode,
+			labourRateMinor: s.labourRateMinor,
+			idleGapMinutes: s.idleGapMinutes
+		});
+		const rows = [
+			...lines.map((l) => ({ ...l, sourceEntryId: l.sourceEntryId, sourceStepId: l.sourceStepId })),
+			...kept.map((k) => ({ ...k, suggestions: [] as string[] }))
+		].map((l, i) => {
+			const priced = priceLine({
+				quantity: l.quantity,
+				unitPriceMinor: l.unitPriceMinor,
+				taxRateBp: s.taxRateBp
+			});
+			return {
+				shopId,
+				invoiceId: draft.id,
+				kind: l.kind,
+				description: l.description,
+				partId: l.partId,
+				quantity: l.quantity,
+				unit: l.unit,
+				unitPriceMinor: l.unitPriceMinor,
+				amountMinor: priced.amountMinor,
+				taxRateBp: s.taxRateBp,
+				taxMinor: priced.taxMinor,
+				unmatched: l.unmatched,
+				sourceEntryId: l.sourceEntryId,
+				sourceStepId: l.sourceStepId,
+				position: i + 1
+			};
+		});
+		if (rows.length) await tx.insert(invoiceLine).values(rows);
+		await recomputeTotals(tx, shopId, draft.id);
+		return { ok: true, invoiceId: draft.id };
+	});
+}
+
+/** A sundry or discount added by the service writer to a draft. */
+export async function addManualLine(
+	shopId: string,
+	invoiceId: string,
+	line: {
+		kind: Extract<LineKind, 'sundry' | 'discount'>;
+		description: string;
+		quantity: number;
+		unitPriceMinor: number;
+	}
+): Promise<Result> {
+	return db.transaction(async (tx) => {
+		const row = await lockDraft(tx, shopId, invoiceId);
+		const refused = frozen(row);
+		if (refused) return refused;
+		// A discount always takes money off, whatever sign was typed.
+		const unitPriceMinor =
+			line.kind === 'discount' ? -Math.abs(line.unitPriceMinor) : line.unitPriceMinor;
+		const priced = priceLine({
+			quantity: line.quantity,
+			unitPriceMinor,
+			taxRateBp: row!.taxRateBp
+		});
+		const [{ max }] = await tx
+			.select({ max: sql<number>`coalesce(max(${invoiceLine.position}), 0)::int` })
+			.from(invoiceLine)
+			.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.invoiceId, invoiceId)));
+		await tx.insert(invoiceLine).values({
+			shopId,
+			invoiceId,
+			kind: line.kind,
+			description: line.description,
+			quantity: line.quantity,
+			unit: 'each',
+			unitPriceMinor,
+			amountMinor: priced.amountMinor,
+			taxRateBp: row!.taxRateBp,
+			taxMinor: priced.taxMinor,
+			position: max + 1
+		});
+		await recomputeTotals(tx, shopId, invoiceId);
+		return { ok: true };
+	});
+}
+
+export async function removeLine(
+	shopId: string,
+	invoiceId: string,
+	lineId: string
+): Promise<Result> {
+	return db.transaction(async (tx) => {
+		const refused = frozen(await lockDraft(tx, shopId, invoiceId));
+		if (refused) return refused;
+		await tx
+			.delete(invoiceLine)
+			.where(
+				and(
+					eq(invoiceLine.shopId, shopId),
+					eq(invoiceLine.invoiceId, invoiceId),
+					eq(invoiceLine.id, lineId)
+				)
+			);
+		await recomputeTotals(tx, shopId, invoiceId);
+		return { ok: true };
+	});
+}
+
+/** The service writer picks the price-list part for a line the log could not match. */
+export async function pickPart(
+	shopId: string,
+	invoiceId: string,
+	lineId: string,
+	partId: string
+): Promise<Result> {
+	return db.transaction(async (tx) => {
+		const row = await lockDraft(tx, shopId, invoiceId);
+		const refused = frozen(row);
+		if (refused) return refused;
+		const [p] = await tx
+			.select()
+			.from(part)
+			.where(and(eq(part.shopId, shopId), eq(part.id, partId)));
+		if (!p) return { ok: false, message: 'That part is not on this shop’s price list.' };
+		const [l] = await tx
+			.select()
+			.from(invoiceLine)
+			.where(
+				and(
+					eq(invoiceLine.shopId, shopId),
+					eq(invoiceLine.invoiceId, invoiceId),
+					eq(invoiceLine.id, lineId)
+				)
+			);
+		if (!l) return { ok: false, message: 'No such line on this invoice.', status: 404 };
+		const priced = priceLine({
+			quantity: l.quantity,
+			unitPriceMinor: p.priceMinor,
+			taxRateBp: row!.taxRateBp
+		});
+		await tx
+			.update(invoiceLine)
+			.set({
+				kind: p.unit === 'each' ? 'part' : 'fluid',
+				description: `${p.description} (${p.code})`,
+				partId: p.id,
+				unit: p.unit,
+				unitPriceMinor: p.priceMinor,
+				amountMinor: priced.amountMinor,
+				taxMinor: priced.taxMinor,
+				unmatched: false
+			})
+			.where(eq(invoiceLine.id, l.id));
+		await recomputeTotals(tx, shopId, invoiceId);
+		return { ok: true };
+	});
+}
+
+/**
+ * The shop's next invoice number, taken in the caller's transaction. The counter row is
+ * locked by `update … returning` until that transaction ends, so concurrent issuers queue and
+ * a rolled-back issue gives its number back: no gaps, no duplicates.
+ */
+async function nextNumber(tx: Tx, shopId: string): Promise<number> {
+	await tx.insert(invoiceCounter).values({ shopId, nextNumber: 1 }).onConflictDoNothing();
+	const [row] = await tx
+		.update(invoiceCounter)
+		.set({ nextNumber: sql`${invoiceCounter.nextNumber} + 1` })
+		.where(eq(invoiceCounter.shopId, shopId))
+		.returning({ taken: sql<number>`${invoiceCounter.nextNumber} - 1` });
+	return row.taken;
+}
+
+/** Issues a draft: next number, frozen from now on; the job becomes invoiced. */
+export async function issueInvoice(
+	shopId: string,
+	invoiceId: string,
+	byUserId: string
+): Promise<Result<{ number: number }>> {
+	return db.transaction(async (tx) => {
+		const row = await lockDraft(tx, shopId, invoiceId);
+		const refused = frozen(row);
+		if (refused) return refused;
+		const lines = await tx
+			.select({ unmatched: invoiceLine.unmatched })
+			.from(invoiceLine)
+			.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.invoiceId, invoiceId)));
+		if (lines.length === 0) return { ok: false, message: 'The invoice has no lines.' };
+		const open = lines.filter((l) => l.unmatched).length;
+		if (open > 0) {
+			return {
+				ok: false,
+				message: `${open} part${open === 1 ? '' : 's'} from the log ${open === 1 ? 'has' : 'have'} no price yet: pick ${open === 1 ? 'it' : 'them'} from the price list or remove the line.`
+			};
+		}
+		const moved = await transitionJob(shopId, row!.jobId, 'invoiced', {
+			byUserId,
+			expectedFrom: 'ready_to_invoice',
+			tx
+		});
+		if (!moved.ok) return moved;
+		const number = await nextNumber(tx, shopId);
+		await tx
+			.update(invoice)
+			.set({
+				number,
+				status: 'issued',
+				issuedAt: new Date(),
+				issuedBy: byUserId,
+				updatedAt: new Date()
+			})
+			.where(eq(invoice.id, invoiceId));
+		return { ok: true, number };
+	});
+}
+
+/**
+ * A credit note for an issued invoice: every line reversed exactly, issued at once with the
+ * next number. The invoice is marked credited; an invoiced (unpaid) job goes back to
+ * ready to invoice, so a corrected invoice can be drafted.
+ */
+export async function creditInvoice(
+	shopId: string,
+	invoiceId: string,
+	byUserId: string,
+	reason: string
+): Promise<Result<{ number: number; creditNoteId: string }>> {
+	return db.transaction(async (tx) => {
+		const [row] = await tx
+			.select()
+			.from(invoice)
+			.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)))
+			.for('update');
+		if (!row) return { ok: false, message: 'No such invoice in this shop.', status: 404 };
+		if (row.kind !== 'invoice' || (row.status !== 'issued' && row.status !== 'paid')) {
+			return { ok: false, message: 'Only an issued invoice can be credited.' };
+		}
+		const lines = await tx
+			.select()
+			.from(invoiceLine)
+			.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.invoiceId, invoiceId)))
+			.orderBy(asc(invoiceLine.position));
+		const number = await nextNumber(tx, shopId);
+		const [note] = await tx
+			.insert(invoice)
+			.values({
+				shopId,
+				jobId: row.jobId,
+				kind: 'credit_note',
+				number,
+				status: 'issued',
+				currency: row.currency,
+				labourMode: row.labourMode,
+				labourRateMinor: row.labourRateMinor,
+				taxRateBp: row.taxRateBp,
+				subtotalMinor: -row.subtotalMinor,
+				taxMinor: -row.taxMinor,
+				totalMinor: -row.totalMinor,
+				issuedAt: new Date(),
+				issuedBy: byUserId,
+				creditFor: row.id,
+				customerToken: newCustomerToken(),
+				createdBy: byUserId
+			})
+			.returning();
+		if (lines.length) {
+			await tx.insert(invoiceLine).values(
+				lines.map((l) => ({
+					shopId,
+					invoiceId: note.id,
+					kind: l.kind,
+					description: l.description,
+					partId: l.partId,
+					quantity: l.quantity,
+					unit: l.unit,
+					unitPriceMinor: -l.unitPriceMinor,
+					amountMinor: -l.amountMinor,
+					taxRateBp: l.taxRateBp,
+					taxMinor: -l.taxMinor,
+					position: l.position
+				}))
+			);
+		}
+		await tx
+			.update(invoice)
+			.set({ status: 'credited', updatedAt: new Date() })
+			.where(eq(invoice.id, row.id));
+		const [j] = await tx.select({ state: job.state }).from(job).where(eq(job.id, row.jobId));
+		if (j?.state === 'invoiced') {
+			const moved = await transitionJob(shopId, row.jobId, 'ready_to_invoice', {
+				byUserId,
+				reason: `Credit note ${number}: ${reason}`,
+				tx
+			});
+			if (!moved.ok) throw new Error(moved.message);
+		}
+		return { ok: true, number, creditNoteId: note.id };
+	});
+}
+
+/**
+ * Records a payment. With a provider reference it is recorded at most once (a repeated
+ * webhook finds the reference taken and changes nothing). Once the payments reach the total
+ * the invoice is paid and the job moves invoiced → paid.
+ */
+export async function recordPayment(
+	shopId: string,
+	invoiceId: string,
+	p: {
+		method: 'cash' | 'card' | 'online';
+		amountMinor: number;
+		providerReference?: string | null;
+		byUserId?: string | null;
+	},
+	outer?: Tx
+): Promise<Result<{ recorded: boolean; paid: boolean }>> {
+	const run = async (tx: Tx): Promise<Result<{ recorded: boolean; paid: boolean }>> => {
+		const [row] = await tx
+			.select()
+			.from(invoice)
+			.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)))
+			.for('update');
+		if (!row) return { ok: false, message: 'No such invoice in this shop.', status: 404 };
+		if (row.kind !== 'invoice' || (row.status !== 'issued' && row.status !== 'paid')) {
+			return { ok: false, message: 'Payments are taken on an issued invoice only.' };
+		}
+		if (!Number.isInteger(p.amountMinor) || p.amountMinor <= 0) {
+			return { ok: false, message: 'The amount must be more than zero.' };
+		}
+		const inserted = await tx
+			.insert(payment)
+			.values({
+				shopId,
+				invoiceId,
+				method: p.method,
+				amountMinor: p.amountMinor,
+				providerReference: p.providerReference ?? null,
+				recordedBy: p.byUserId ?? null
+			})
+			.onConflictDoNothing({ target: payment.providerReference })
+			.returning({ id: payment.id });
+		const recorded = inserted.length > 0;
+		const [{ paid }] = await tx
+			.select({ paid: sql<number>`coalesce(sum(${payment.amountMinor}), 0)::int` })
+			.from(payment)
+			.where(and(eq(payment.shopId, shopId), eq(payment.invoiceId, invoiceId)));
+		const nowPaid = paid >= row.totalMinor;
+		if (nowPaid && row.status === 'issued') {
+			await tx
+				.update(invoice)
+				.set({ status: 'paid', paidAt: new Date(), updatedAt: new Date() })
+				.where(eq(invoice.id, invoiceId));
+			const [j] = await tx.select({ state: job.state }).from(job).where(eq(job.id, row.jobId));
+			if (j?.state === 'invoiced') {
+				const moved = await transitionJob(shopId, row.jobId, 'paid', {
+					byUserId: p.byUserId ?? row.issuedBy ?? row.createdBy ?? '',
+					tx
+				});
+				if (!moved.ok) throw new Error(moved.message);
+			}
+		}
+		return { ok: true, recorded, paid: nowPaid };
+	};
+	return outer ? run(outer) : db.transaction(run);
+}
+
+export async function setCheckoutSession(shopId: string, invoiceId: string, sessionId: string) {
+	await db
+		.update(invoice)
+		.set({ checkoutSessionId: sessionId })
+		.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)));
+}
+
+/**
+ * A completed checkout from the provider's webhook, handled exactly once: the event id is
+ * recorded in the same transaction as the payment, so a repeat finds it and does nothing.
+ */
+export async function applyCheckoutCompleted(ev: {
+	eventId: string;
+	type: string;
+	invoiceId: string;
+	shopId: string;
+	sessionId: string;
+	amountMinor: number;
+	currency: string;
+}): Promise<Result<{ duplicate: boolean }>> {
+	return db.transaction(async (tx) => {
+		const [inv] = await tx
+			.select()
+			.from(invoice)
+			.where(and(eq(invoice.shopId, ev.shopId), eq(invoice.id, ev.invoiceId)));
+		if (!inv) return { ok: false, message: 'No such invoice.', status: 404 };
+		if (inv.currency.toLowerCase() !== ev.currency.toLowerCase()) {
+			return { ok: false, message: 'The payment is in another currency.', status: 400 };
+		}
+		const fresh = await tx
+			.insert(webhookEvent)
+			.values({ eventId: ev.eventId, shopId: ev.shopId, type: ev.type })
+			.onConflictDoNothing()
+			.returning({ id: webhookEvent.eventId });
+		if (fresh.length === 0) return { ok: true, duplicate: true };
+		const r = await recordPayment(
+			ev.shopId,
+			ev.invoiceId,
+			{ method: 'online', amountMinor: ev.amountMinor, providerReference: ev.sessionId },
+			tx
+		);
+		if (!r.ok) return r;
+		return { ok: true, duplicate: !r.recorded };
+	});
+}
+
+/** Price-list parts of the shop, for picking a part for an unmatched line. */
+export async function priceList(shopId: string) {
+	return db
+		.select({
+			id: part.id,
+			code: part.code,
+			description: part.description,
+			unit: part.unit,
+			priceMinor: part.priceMinor
+		})
+		.from(part)
+		.where(and(eq(part.shopId, shopId), eq(part.active, true)))
+		.orderBy(asc(part.code));
+}
