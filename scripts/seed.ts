@@ -1,6 +1,7 @@
 // Seeds the demo shop: an invented workshop, staff, customers, motorcycles, procedures with
 // demo specs (not from any maker's manual), a price list, torque tools and jobs in several
 // states with some log entries. Run by `npm start` and `npm test` on an empty database.
+import { and, eq } from 'drizzle-orm';
 import { drizzle } from 'drizzle-orm/postgres-js';
 import postgres from 'postgres';
 import * as s from '../src/lib/server/db/schema.ts';
@@ -841,6 +842,109 @@ async function main() {
 			createdMinutesAgo: 60 * 26,
 			reason: 'Waiting for parts: chain kit'
 		});
+
+		// Invoicing demo: signed off and ready to invoice, with a full log. The oil was called
+		// out in US quarts against a per-litre oil (billed as 1.041 L), the chain lube was logged
+		// as a part by its words only, one wrong value was retracted, and the foreman accepted an
+		// idle speed just over spec with a reason.
+		const foreman = byRole('foreman');
+		const billable = await makeJob({
+			number: 1046,
+			vehicle: 2,
+			procs: [0],
+			state: 'ready_to_invoice',
+			tech: tomasz,
+			bay: null,
+			concern: 'Service due at 18 000 km; chain dry.',
+			odometer: 18020,
+			createdMinutesAgo: 60 * 7
+		});
+		const at = (m: number) => ({ occurredAt: ago(m), recordedAt: ago(m) });
+		await log(billable, tomasz, 'Engine oil drain plug', 42, 330);
+		const wrongPlug = (
+			await tx
+				.select({ id: s.logEntry.id })
+				.from(s.logEntry)
+				.where(eq(s.logEntry.jobId, billable.job.id))
+		)[0].id;
+		const plugStep = billable.steps.find((st) => st.label === 'Engine oil drain plug')!;
+		await tx.insert(s.logEntry).values({
+			id: crypto.randomUUID(),
+			shopId: shop.id,
+			jobId: billable.job.id,
+			jobStepId: plugStep.id,
+			authorId: tomasz.id,
+			kind: 'retraction',
+			rawText: 'scratch that, misread the scale',
+			source: 'voice',
+			retracts: wrongPlug,
+			...at(328)
+		});
+		await log(billable, tomasz, 'Engine oil drain plug', 24, 327);
+		await log(billable, tomasz, 'Oil filter cover bolts', 10, 318);
+		await log(billable, tomasz, 'Engine oil fill', 1.1, 310, {
+			rawText: 'oil fill one point one quarts',
+			source: 'voice',
+			unit: '[qt_us]',
+			specValue: 1.041,
+			specUnit: 'L',
+			verdict: 'in'
+		});
+		await log(billable, tomasz, 'Spark plug', 1.3, 300);
+		await log(billable, tomasz, 'Valve clearance intake', 0.1, 285);
+		await log(billable, tomasz, 'Valve clearance exhaust', 0.19, 276);
+		await log(billable, tomasz, 'Throttle grip free play', 4, 268);
+		await log(billable, tomasz, 'Clutch lever free play', 13, 262);
+		await log(billable, tomasz, 'Drive chain slack', 28, 255);
+		await tx.insert(s.logEntry).values({
+			id: crypto.randomUUID(),
+			shopId: shop.id,
+			jobId: billable.job.id,
+			authorId: tomasz.id,
+			kind: 'part',
+			rawText: 'used chain lube spray on the chain',
+			source: 'voice',
+			partQuantity: 1,
+			...at(253)
+		});
+		await log(billable, tomasz, 'Rear axle nut', 88, 250);
+		await log(billable, tomasz, 'Front tyre pressure', 200, 246);
+		await log(billable, tomasz, 'Rear tyre pressure', 225, 244);
+		await log(billable, tomasz, 'Battery voltage', 12.7, 240);
+		await log(billable, tomasz, 'Idle speed', 1540, 236);
+		const idle = billable.steps.find((st) => st.label === 'Idle speed')!;
+		const [idleEntry] = await tx
+			.select({ id: s.logEntry.id })
+			.from(s.logEntry)
+			.where(and(eq(s.logEntry.jobId, billable.job.id), eq(s.logEntry.jobStepId, idle.id)));
+		await tx.insert(s.logEntry).values({
+			id: crypto.randomUUID(),
+			shopId: shop.id,
+			jobId: billable.job.id,
+			jobStepId: idle.id,
+			authorId: foreman.id,
+			kind: 'accept',
+			rawText: 'accept idle 1540',
+			source: 'typed',
+			note: 'Idle settles to 1480 once warm; within the usual drift. Customer told.',
+			respondsTo: idleEntry.id,
+			...at(200)
+		});
+		await log(billable, tomasz, 'Test ride', null, 228);
+		await tx.insert(s.logEntry).values({
+			id: crypto.randomUUID(),
+			shopId: shop.id,
+			jobId: billable.job.id,
+			authorId: foreman.id,
+			kind: 'sign_off',
+			rawText: 'signed off',
+			source: 'typed',
+			...at(190)
+		});
+		await tx
+			.update(s.job)
+			.set({ signedOffBy: foreman.id, signedOffAt: ago(190) })
+			.where(eq(s.job.id, billable.job.id));
 	});
 
 	// A second shop, so that shop scoping is visible in the demo and testable.
