@@ -16,6 +16,8 @@ export const entryPostSchema = z.object({
 		.datetime({ offset: true, error: 'occurredAt must be an ISO 8601 date-time.' })
 		.optional(),
 	torqueToolId: z.uuid({ error: 'torqueToolId must be a UUID.' }).nullish(),
+	/** A step picked from the candidates instead of the best match. */
+	stepId: z.uuid({ error: 'stepId must be the id of a step of this job.' }).optional(),
 	/** A foreman retracting a named entry (an undo without it retracts the author's last one). */
 	retracts: z.uuid({ error: 'retracts must be the id of an entry.' }).optional()
 });

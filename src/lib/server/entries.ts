@@ -3,13 +3,16 @@
 // another shop's job reads as "no such job".
 import { and, eq, sql } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
+import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
 import type { JobState } from '$lib/jobs/states';
 import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
 import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
+import { checkPhoto } from '$lib/uploads/check';
 import { db } from './db';
 import * as s from './db/schema';
+import { uploads, type FileStorage } from './storage';
 
 /** How far ahead of the server's clock a device's time may be before it is clamped. */
 export const CLOCK_SKEW_MS = 2 * 60_000;
@@ -342,6 +345,7 @@ export interface AppendInput {
 	source: 'typed' | 'voice';
 	occurredAt?: string;
 	torqueToolId?: string | null;
+	stepId?: string;
 	retracts?: string;
 }
 
@@ -396,11 +400,13 @@ export async function appendEntry(
 	const steps = await listSteps(actor.shopId, jobId);
 	const { pct } = await shopTolerance(actor.shopId);
 	const deviceTime = input.occurredAt ? clampTime(new Date(input.occurredAt), now) : now;
-	const parsed = parsePhrase(input.text, {
-		steps: toStepSpecs(steps),
-		now: deviceTime,
-		tolerancePct: pct
-	});
+	const specs = toStepSpecs(steps);
+	let parsed = parsePhrase(input.text, { steps: specs, now: deviceTime, tolerancePct: pct });
+	if (input.stepId) {
+		const picked = specs.find((st) => st.id === input.stepId);
+		if (!picked) return { status: 422, message: 'That step is not on this job.' };
+		parsed = withStep(parsed, picked, pct);
+	}
 	const step = parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
 
 	if (parsed.intent === 'next' || parsed.intent === 'spec') {
@@ -685,4 +691,72 @@ export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 
 export function isUuid(v: string): boolean {
 	return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v);
+}
+
+// --- photos -----------------------------------------------------------------------------------
+
+export type PhotoResult =
+	{ status: 201; entry: EntryView } | { status: 400 | 403 | 404; message: string };
+
+/** Attaches a photo to an entry of the job: type checked from the bytes, at most 10 MB. */
+export async function attachPhoto(
+	actor: Actor,
+	jobId: string,
+	entryId: string,
+	file: { bytes: Uint8Array; name: string },
+	storage: FileStorage = uploads()
+): Promise<PhotoResult> {
+	const job = await getJob(actor.shopId, jobId);
+	if (!job) return { status: 404, message: NOT_FOUND };
+	if (!mayWrite(actor, job)) return { status: 403, message: 'This job is not assigned to you.' };
+	if (!isUuid(entryId)) return { status: 404, message: 'No such entry on this job.' };
+	const [entry] = await db
+		.select({ id: s.logEntry.id })
+		.from(s.logEntry)
+		.where(
+			and(
+				eq(s.logEntry.shopId, actor.shopId),
+				eq(s.logEntry.jobId, jobId),
+				eq(s.logEntry.id, entryId)
+			)
+		);
+	if (!entry) return { status: 404, message: 'No such entry on this job.' };
+	const check = checkPhoto(file.bytes);
+	if (!check.ok) return { status: 400, message: check.message };
+	const id = crypto.randomUUID();
+	const key = `${actor.shopId}/${id}.${check.extension}`;
+	await storage.put(key, file.bytes);
+	try {
+		await db.insert(s.attachment).values({
+			id,
+			shopId: actor.shopId,
+			jobId,
+			entryId,
+			fileName: (file.name || `photo.${check.extension}`).slice(0, 200),
+			mime: check.mime,
+			bytes: file.bytes.length,
+			storageKey: key,
+			uploadedBy: actor.id
+		});
+	} catch (e) {
+		await storage.remove(key).catch(() => {});
+		throw e;
+	}
+	return { status: 201, entry: (await readEntry(actor.shopId, entryId))! };
+}
+
+/** A stored photo of the shop, or null (another shop's photo reads as missing). */
+export async function readPhoto(
+	shopId: string,
+	id: string,
+	storage: FileStorage = uploads()
+): Promise<{ mime: string; bytes: Uint8Array } | null> {
+	if (!isUuid(id)) return null;
+	const [row] = await db
+		.select({ mime: s.attachment.mime, key: s.attachment.storageKey })
+		.from(s.attachment)
+		.where(and(eq(s.attachment.shopId, shopId), eq(s.attachment.id, id)));
+	if (!row) return null;
+	const bytes = await storage.get(row.key);
+	return bytes ? { mime: row.mime, bytes } : null;
 }

@@ -1,0 +1,63 @@
+// The Bench's browser side of "no entry lost": the pure queue wired to IndexedDB (idb-keyval)
+// and fetch. Imported only from the Bench page.
+import { createStore, get, set } from 'idb-keyval';
+import { EntryQueue, outcomeOfStatus, type QueuedEntry, type QueueOptions } from './queue';
+
+const KEY = 'waiting-entries';
+
+/** A v4 UUID also where crypto.randomUUID is missing (plain http on a shop network). */
+export function newId(): string {
+	if (typeof crypto.randomUUID === 'function') return crypto.randomUUID();
+	const b = crypto.getRandomValues(new Uint8Array(16));
+	b[6] = (b[6] & 0x0f) | 0x40;
+	b[8] = (b[8] & 0x3f) | 0x80;
+	const h = [...b].map((x) => x.toString(16).padStart(2, '0')).join('');
+	return `${h.slice(0, 8)}-${h.slice(8, 12)}-${h.slice(12, 16)}-${h.slice(16, 20)}-${h.slice(20)}`;
+}
+
+/** Sends one waiting entry to the entries endpoint. */
+export async function sendEntry(e: QueuedEntry) {
+	let res: Response;
+	try {
+		res = await fetch(`/api/jobs/${e.jobId}/entries`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json', accept: 'application/json' },
+			body: JSON.stringify({
+				id: e.id,
+				text: e.text,
+				source: e.source,
+				occurredAt: e.occurredAt,
+				torqueToolId: e.torqueToolId ?? undefined,
+				stepId: e.stepId,
+				retracts: e.retracts
+			})
+		});
+	} catch {
+		return outcomeOfStatus(
+			0,
+			'Not sent: no connection. It stays on this device and is sent later.'
+		);
+	}
+	let body: unknown = null;
+	try {
+		body = await res.json();
+	} catch {
+		body = null;
+	}
+	const said = body && typeof body === 'object' && 'message' in body ? String(body.message) : '';
+	const message = said || `The server answered ${res.status}.`;
+	return outcomeOfStatus(res.status, message, body);
+}
+
+/** The queue on IndexedDB, one store per signed-in user so accounts never mix. */
+export function browserQueue(userId: string, opts: Omit<QueueOptions, 'storage' | 'send'>) {
+	const store = createStore(`benchcall-${userId}`, 'outbox');
+	return new EntryQueue({
+		...opts,
+		send: sendEntry,
+		storage: {
+			load: () => get<QueuedEntry[]>(KEY, store),
+			save: (entries) => set(KEY, entries, store)
+		}
+	});
+}

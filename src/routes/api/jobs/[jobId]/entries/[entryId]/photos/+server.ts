@@ -1,0 +1,23 @@
+import { error, json } from '@sveltejs/kit';
+import { requireRole } from '$lib/server/auth';
+import { attachPhoto } from '$lib/server/entries';
+import { MAX_PHOTO_BYTES } from '$lib/uploads/check';
+import type { RequestHandler } from './$types';
+
+/** Attaches a photo (multipart field `photo`) to an entry of the job. */
+export const POST: RequestHandler = async ({ params, request }) => {
+	const user = requireRole('technician', 'foreman', 'owner');
+	let form: FormData;
+	try {
+		form = await request.formData();
+	} catch {
+		error(400, 'Send the photo as multipart form data in the field "photo".');
+	}
+	const file = form.get('photo');
+	if (!(file instanceof File)) error(400, 'Choose a photo to attach.');
+	if (file.size > MAX_PHOTO_BYTES) error(400, 'The photo is larger than 10 MB.');
+	const bytes = new Uint8Array(await file.arrayBuffer());
+	const result = await attachPhoto(user, params.jobId, params.entryId, { bytes, name: file.name });
+	if ('message' in result) error(result.status, result.message);
+	return json({ entry: result.entry }, { status: 201 });
+};
