@@ -3,9 +3,12 @@ import { describe, expect, it } from 'vitest';
 import {
 	MAX_PHRASE_CHARS,
 	createPhraseParser,
+	formatSpec,
 	isCancel,
 	judge,
 	parsePhrase,
+	readBack,
+	verdictWords,
 	type ParsedPhrase,
 	type StepSpec
 } from './index';
@@ -462,6 +465,34 @@ describe('times', () => {
 		const r = parsePhrase('chain slack 30 mm at 08:00', { ...ctx, timeZone: 'Nowhere/Bay' });
 		expect(r.occurredAt).toBe('2026-12-02T08:00:00.000Z');
 		expect(r.problems[0]).toMatch(/Unknown time zone 'Nowhere\/Bay'/);
+	});
+});
+
+describe('words for the screen and the read-back', () => {
+	it('formats a spec', () => {
+		expect(formatSpec({ unit: 'N.m', min: 80, max: 90 })).toBe('80–90 N·m');
+		expect(formatSpec({ unit: 'N.m', min: 80, max: 90 }, { spoken: true })).toBe(
+			'80 to 90 newton metres'
+		);
+		expect(formatSpec({ unit: 'V', min: 12.4 })).toBe('at least 12.4 V');
+		expect(formatSpec({ unit: 'mm', max: 1.5 })).toBe('at most 1.5 mm');
+		expect(formatSpec({ unit: 'kgf.m', nominal: 5.4 })).toBe('5.4 kgf·m');
+		expect(formatSpec({})).toBe('no spec');
+	});
+
+	it('reads back what was understood, in Benchcall words', () => {
+		const c = { steps: ISSUE_STEPS };
+		const say = (t: string) => readBack(parsePhrase(t, c), ISSUE_STEPS);
+		expect(say('swingarm pivot 85 newton metres')).toBe(
+			'Swingarm pivot nut, 85 newton metres, in spec'
+		);
+		expect(say('fork oil 4.5 fl oz')).toBe('Fork oil, 4.5 US fluid ounces, over');
+		expect(say('brake pedal play 12')).toBe('Brake pedal free play, 12 millimetres, under');
+		expect(say('spec fork fluid')).toBe('Fork oil: spec 115 to 125 millilitres');
+		expect(say('new fork seal')).toBe('New fork seal');
+		expect(say('next')).toBe('Next: Swingarm pivot nut');
+		expect(say('fork oil 80 nm')).toBe('Fork oil is measured in mL (volume); 80 N·m is a torque.');
+		expect(verdictWords('no_spec')).toBe('no spec');
 	});
 });
 
