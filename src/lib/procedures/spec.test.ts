@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { plusMinusOf, toStoredSpec } from './spec';
+import { describeSpec, plusMinusOf, toStoredSpec } from './spec';
 
 describe('toStoredSpec', () => {
 	it('turns nominal ± tolerance into min and max', () => {
@@ -58,5 +58,20 @@ describe('toStoredSpec', () => {
 		expect(plusMinusOf({ nominal: 1.1, min: 1.05, max: 1.15 })).toBe(0.05);
 		expect(plusMinusOf({ nominal: 80, min: 78, max: 96 })).toBeNull();
 		expect(plusMinusOf({ nominal: 10, min: null, max: null })).toBeNull();
+	});
+});
+
+describe('describeSpec', () => {
+	const fmt = (n: number) => String(n);
+	const sym = (c: string) => (c === 'N.m' ? 'N·m' : c);
+	it('reads a spec the way the trade writes it', () => {
+		expect(describeSpec({ nominal: 24, min: 22, max: 26, unit: 'N.m' }, fmt, sym)).toBe(
+			'22–26 N·m (nominal 24)'
+		);
+		expect(describeSpec({ nominal: 1.1, min: null, max: null, unit: 'L' }, fmt, sym)).toBe('1.1 L');
+		expect(describeSpec({ nominal: null, min: 20, max: null, unit: 'mm' }, fmt, sym)).toBe(
+			'≥ 20 mm'
+		);
+		expect(describeSpec({ nominal: null, min: null, max: null, unit: null }, fmt, sym)).toBe('—');
 	});
 });

@@ -84,3 +84,20 @@ export function plusMinusOf(spec: StoredSpec): number | null {
 	const above = clean(spec.max - spec.nominal);
 	return below === above && below > 0 ? below : null;
 }
+
+/** A spec for screens: "22–26 N·m (nominal 24)", "1.1 L", "≥ 20 mm", "—" for a check. */
+export function describeSpec(
+	spec: StoredSpec & { unit: string | null },
+	fmt: (n: number) => string,
+	symbol: (code: string) => string
+): string {
+	const u = spec.unit ? ` ${symbol(spec.unit)}` : '';
+	const { nominal, min, max } = spec;
+	if (min !== null && max !== null) {
+		return `${fmt(min)}–${fmt(max)}${u}${nominal !== null ? ` (nominal ${fmt(nominal)})` : ''}`;
+	}
+	if (min !== null) return `≥ ${fmt(min)}${u}`;
+	if (max !== null) return `≤ ${fmt(max)}${u}`;
+	if (nominal !== null) return `${fmt(nominal)}${u}`;
+	return '—';
+}

@@ -361,7 +361,7 @@ export async function exportProcedures(shopId: string, ids?: string[]): Promise<
 		.where(
 			and(
 				eq(procedure.shopId, shopId),
-				ids ? inArray(procedure.id, ids.length ? ids : [sql`null`]) : isNull(procedure.archivedAt)
+				ids ? (ids.length ? inArray(procedure.id, ids) : sql`false`) : isNull(procedure.archivedAt)
 			)
 		)
 		.orderBy(asc(procedure.name));

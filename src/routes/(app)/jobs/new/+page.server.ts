@@ -1,0 +1,41 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { intakeFromForm, intakeSchema } from '$lib/schemas/job';
+import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { requireRole } from '$lib/server/auth';
+import { createJobCard, findCustomers, listBays, listTechnicians } from '$lib/server/job-cards';
+import { listProcedures } from '$lib/server/procedures';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ url }) => {
+	const user = requireRole('service_writer', 'owner');
+	const find = (url.searchParams.get('find') ?? '').trim().slice(0, 120);
+	const [matches, procedures, technicians, bays] = await Promise.all([
+		findCustomers(user.shopId, find),
+		listProcedures(user.shopId),
+		listTechnicians(user.shopId),
+		listBays(user.shopId)
+	]);
+	return { find, matches, procedures, technicians, bays };
+};
+
+export const actions = {
+	default: async ({ request }) => {
+		const user = requireRole('service_writer', 'owner');
+		const form = await request.formData();
+		const values = echoValues(form);
+		const procedureIds = form.getAll('procedureIds').map(String);
+		const parsed = intakeSchema.safeParse(intakeFromForm(form));
+		if (!parsed.success) {
+			return fail(400, { values, procedureIds, errors: fieldErrors(parsed.error) });
+		}
+		const result = await createJobCard(user.shopId, user.id, parsed.data);
+		if (!result.ok) {
+			return fail(400, {
+				values,
+				procedureIds,
+				errors: formError(result.message, result.field)
+			});
+		}
+		redirect(303, `/jobs/${result.number}?opened=1`);
+	}
+} satisfies Actions;
