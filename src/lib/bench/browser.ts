@@ -38,12 +38,7 @@ export async function sendEntry(e: QueuedEntry) {
 			'Not sent: no connection. It stays on this device and is sent later.'
 		);
 	}
-	let body: unknown = null;
-	try {
-		body = await res.json();
-	} catch {
-		body = null;
-	}
+	const body: unknown = await res.json().catch(() => null);
 	const said = body && typeof body === 'object' && 'message' in body ? String(body.message) : '';
 	const message = said || `The server answered ${res.status}.`;
 	return outcomeOfStatus(res.status, message, body);
