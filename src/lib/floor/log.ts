@@ -94,3 +94,15 @@ export function filterParams(f: LogFilter): URLSearchParams {
 	if (f.q) p.set('q', f.q);
 	return p;
 }
+
+/** A redo the foreman ordered that the technician has not answered with a new entry yet. */
+export interface OpenRedo {
+	id: string;
+	jobStepId: string;
+	stepLabel: string;
+	note: string;
+	foremanName: string;
+	orderedAt: string;
+	/** What was logged before (the value the redo answers). */
+	previous: string | null;
+}
