@@ -1,0 +1,298 @@
+import { expect, test, type Page } from '@playwright/test';
+import { demo, signIn } from './helpers/auth';
+import { db, entry, jobId } from './helpers/bench-db';
+
+const bar = (page: Page) => page.getByRole('combobox', { name: 'Call bar' });
+const rows = (page: Page) => page.getByTestId('log-entry');
+const tag = () => Math.random().toString(36).slice(2, 8);
+
+async function openJob(page: Page, number: number, who = demo.tomasz) {
+	await signIn(page, who);
+	await page.goto(`/bench?job=${number}`);
+	await expect(page.getByRole('heading', { name: new RegExp(`Job ${number}`) })).toBeVisible();
+	await expect(bar(page)).toBeFocused();
+}
+
+async function call(page: Page, text: string) {
+	await bar(page).fill(text);
+	await expect(page.getByTestId('candidate').first()).toBeVisible();
+}
+
+test.describe('the Bench', () => {
+	test('a typed phrase is previewed, logged with Enter and stored with the right verdict', async ({
+		page
+	}) => {
+		await openJob(page, 1042);
+		// 5.9 kgf·m × 9.80665 = 57.86 N·m (NIST SP 811 B.8), inside the demo band 50–60 N·m
+		await call(page, 'lower mount 5.9 kgf m');
+		const top = page.getByTestId('candidate').first();
+		await expect(top).toContainText('Lower engine mount bolt');
+		await expect(top.getByTestId('preview-value')).toHaveText('57.86 N·m');
+		await expect(top.locator('[data-verdict="in"]')).toHaveText(/In spec/);
+		await expect(top.getByTestId('preview-caution')).toBeVisible();
+		const before = await rows(page).count();
+		await page.keyboard.press('Enter');
+		await expect(rows(page)).toHaveCount(before + 1);
+		const first = rows(page).first();
+		await expect(first).toContainText('lower mount 5.9 kgf m');
+		await expect(first).toHaveAttribute('data-verdict', 'in');
+		await expect(bar(page)).toHaveValue('');
+		const stored = await entry((await first.getAttribute('data-entry-id'))!);
+		expect(stored).toMatchObject({
+			kind: 'measure',
+			verdict: 'in',
+			unit: 'kgf.m',
+			spec_unit: 'N.m'
+		});
+		expect(stored!.spec_value).toBeCloseTo(57.859, 2);
+
+		// an out-of-spec value stands out
+		await call(page, 'lower mount 70 nm');
+		await page.keyboard.press('Enter');
+		await expect(rows(page).first()).toHaveAttribute('data-verdict', 'high');
+		await expect(rows(page).first()).toContainText('Over');
+	});
+
+	test('arrow keys pick another matching step', async ({ page }) => {
+		await openJob(page, 1042);
+		await call(page, 'engine mount 3.4 kgf m');
+		await expect(page.getByTestId('candidate')).toHaveCount(3);
+		await page.keyboard.press('ArrowDown');
+		const second = page.getByTestId('candidate').nth(1);
+		await expect(second).toHaveAttribute('aria-selected', 'true');
+		const label = (await second.locator('p').nth(1).innerText()).trim();
+		await page.keyboard.press('Enter');
+		await expect(rows(page).first()).toContainText(label);
+		const stored = await entry((await rows(page).first().getAttribute('data-entry-id'))!);
+		const [step] = await db()`select label from job_step where id = ${stored!.job_step_id}`;
+		expect(step.label).toBe(label);
+	});
+
+	test('"next" and "spec" show a step without logging', async ({ page }) => {
+		await openJob(page, 1042);
+		const before = await rows(page).count();
+		await call(page, 'next');
+		await page.keyboard.press('Enter');
+		const next = (await page.getByTestId('next-step').locator('p').first().innerText()).trim();
+		await expect(page.getByTestId('answer')).toContainText(next);
+		await call(page, 'spec front mount');
+		await page.keyboard.press('Enter');
+		await expect(page.getByTestId('answer')).toContainText('Front engine mount bolts');
+		await expect(page.getByTestId('answer')).toContainText('3 kgf·m – 3.6 kgf·m');
+		await expect(rows(page)).toHaveCount(before);
+		await page.keyboard.press('Escape');
+		await expect(page.getByTestId('answer')).toHaveCount(0);
+	});
+
+	test('undo strikes through your last entry and keeps both in the log', async ({ page }) => {
+		await openJob(page, 1041);
+		const t = tag();
+		await call(page, `note undo check ${t}`);
+		await page.keyboard.press('Enter');
+		const made = rows(page).filter({ hasText: `undo check ${t}` });
+		await expect(made).toHaveCount(1);
+		const id = (await made.getAttribute('data-entry-id'))!;
+		const noted = page.locator(`[data-entry-id="${id}"]`);
+		await call(page, 'undo');
+		await page.keyboard.press('Enter');
+		await expect(noted).toHaveAttribute('data-retracted', 'yes');
+		await expect(noted.getByTestId('retracted-by')).toContainText('Tomasz');
+		await expect(rows(page).first()).toHaveAttribute('data-kind', 'retraction');
+		const [r] = await db()`select count(*)::int as n from log_entry where retracts = ${id}`;
+		expect(r.n).toBe(1);
+	});
+
+	test('a photo attaches to an entry; an .exe renamed .jpg is refused', async ({ page }) => {
+		await openJob(page, 1041);
+		await call(page, `note photo ${tag()}`);
+		await page.keyboard.press('Enter');
+		const first = rows(page).first();
+		await expect(first).toHaveAttribute('data-kind', 'note');
+		// the smallest valid PNG: 1×1 transparent pixel (PNG specification signature and chunks)
+		const png = Buffer.from(
+			'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNkYPhfDwAChwGA60e6kgAAAABJRU5ErkJggg==',
+			'base64'
+		);
+		await first.getByTestId('photo-input').setInputFiles({
+			name: 'axle.png',
+			mimeType: 'image/png',
+			buffer: png
+		});
+		const thumb = first.getByTestId('photo-thumb');
+		await expect(thumb).toBeVisible();
+		const src = (await thumb.getAttribute('src'))!;
+		const res = await page.request.get(src);
+		expect(res.status()).toBe(200);
+		expect(res.headers()['content-type']).toBe('image/png');
+
+		// "MZ" starts every Windows program (PE/COFF specification)
+		const exe = Buffer.concat([Buffer.from('MZ'), Buffer.alloc(200)]);
+		await first.getByTestId('photo-input').setInputFiles({
+			name: 'invoice.jpg',
+			mimeType: 'image/jpeg',
+			buffer: exe
+		});
+		await expect(first.getByTestId('photo-error')).toContainText('not a JPEG, PNG or WebP');
+		await expect(first.getByTestId('photo-thumb')).toHaveCount(1);
+
+		// another shop never sees the photo
+		const other = await page.context().browser()!.newContext();
+		const p2 = await other.newPage();
+		await signIn(p2, demo.otherOwner);
+		const base = new URL(page.url()).origin;
+		expect((await p2.request.get(base + src)).status()).toBe(404);
+		await other.close();
+	});
+
+	test('a dictated phrase is logged after the countdown; another is cancelled', async ({
+		page
+	}) => {
+		await page.addInitScript(() => {
+			type Handler = ((e: unknown) => void) | null;
+			class FakeRecognition {
+				lang = '';
+				continuous = false;
+				interimResults = false;
+				onresult: Handler = null;
+				onerror: Handler = null;
+				onend: (() => void) | null = null;
+				start() {
+					(window as unknown as { __rec: FakeRecognition }).__rec = this;
+				}
+				stop() {
+					this.onend?.();
+				}
+				say(text: string, isFinal: boolean) {
+					const result = Object.assign([{ transcript: text }], { isFinal });
+					this.onresult?.({ resultIndex: 0, results: [result] });
+				}
+			}
+			(window as unknown as Record<string, unknown>).SpeechRecognition = FakeRecognition;
+		});
+		await openJob(page, 1041);
+		await page.getByRole('button', { name: /Start listening/ }).click();
+		await page.waitForFunction(() => '__rec' in window);
+		const say = (text: string, isFinal = true) =>
+			page.evaluate(
+				([t, f]) =>
+					(window as unknown as { __rec: { say: (t: string, f: boolean) => void } }).__rec.say(
+						t as string,
+						f as boolean
+					),
+				[text, isFinal] as const
+			);
+		const t = tag();
+		await say('note dictated', false);
+		await expect(bar(page)).toHaveValue('note dictated');
+		await say(`note dictated ${t}`);
+		await expect(page.getByTestId('countdown')).toBeVisible();
+		await expect(rows(page).filter({ hasText: `dictated ${t}` })).toHaveCount(0);
+		await expect(rows(page).filter({ hasText: `dictated ${t}` })).toHaveCount(1, {
+			timeout: 8000
+		});
+		const id = await rows(page)
+			.filter({ hasText: `dictated ${t}` })
+			.getAttribute('data-entry-id');
+		expect((await entry(id!))!.source).toBe('voice');
+		await expect(page.getByTestId('readback')).toContainText('Note logged');
+
+		await say(`note never ${t}`);
+		await expect(page.getByTestId('countdown')).toBeVisible();
+		await say('cancel');
+		await expect(page.getByTestId('bar-message')).toContainText('Cancelled');
+		await page.waitForTimeout(4000);
+		const [n] =
+			await db()`select count(*)::int as n from log_entry where raw_text = ${`note never ${t}`}`;
+		expect(n.n).toBe(0);
+	});
+
+	test('entries made offline survive a reload and arrive exactly once with their own time', async ({
+		page,
+		context
+	}) => {
+		await openJob(page, 1041);
+		const t = tag();
+		await context.setOffline(true);
+		const madeAt = Date.now();
+		for (const n of [1, 2, 3]) {
+			await call(page, `note offline ${n} ${t}`);
+			await page.keyboard.press('Enter');
+		}
+		await expect(page.getByTestId('waiting')).toHaveText(/3 waiting/);
+		await expect(page.getByTestId('waiting-entry')).toHaveCount(3);
+		// keep the server unreachable across the reload, then let it through
+		await page.route('**/api/jobs/*/entries', (route) =>
+			route.request().method() === 'POST' ? route.abort() : route.continue()
+		);
+		await context.setOffline(false);
+		await page.waitForTimeout(1500);
+		await page.reload();
+		await expect(page.getByTestId('waiting')).toHaveText(/3 waiting/);
+		const onlineAt = Date.now();
+		await page.unroute('**/api/jobs/*/entries');
+		await expect(page.getByTestId('waiting')).toHaveCount(0, { timeout: 20_000 });
+		const stored = await db()`
+			select raw_text, occurred_at, recorded_at from log_entry
+			where raw_text like ${`note offline % ${t}`} order by seq`;
+		expect(stored.map((r) => r.raw_text)).toEqual([1, 2, 3].map((n) => `note offline ${n} ${t}`));
+		for (const r of stored) {
+			const occurred = new Date(r.occurred_at).getTime();
+			expect(occurred).toBeGreaterThanOrEqual(madeAt - 1000);
+			expect(occurred).toBeLessThan(onlineAt);
+			expect(new Date(r.recorded_at).getTime()).toBeGreaterThan(occurred);
+		}
+		await expect(rows(page).filter({ hasText: `${t}` })).toHaveCount(3);
+	});
+});
+
+test.describe('the entries API', () => {
+	test('repeats are idempotent; bad input 400; not yours 403; another shop 404', async ({
+		page,
+		browser
+	}) => {
+		const id1042 = await jobId(1042);
+		await signIn(page, demo.tomasz);
+		const url = `/api/jobs/${id1042}/entries`;
+		const body = { id: crypto.randomUUID(), text: 'lower mount 55 nm', source: 'typed' };
+		const first = await page.request.post(url, { data: body });
+		expect(first.status()).toBe(201);
+		const again = await page.request.post(url, { data: body });
+		expect(again.status()).toBe(200);
+		expect((await again.json()).entry.id).toBe(body.id);
+		const [n] = await db()`select count(*)::int as n from log_entry where id = ${body.id}`;
+		expect(n.n).toBe(1);
+
+		const bad = await page.request.post(url, {
+			headers: { 'content-type': 'application/json' },
+			data: Buffer.from('{"id": oops')
+		});
+		expect(bad.status()).toBe(400);
+		expect((await bad.json()).message).toContain('JSON');
+		const noId = await page.request.post(url, { data: { text: 'x', source: 'typed' } });
+		expect(noId.status()).toBe(400);
+		expect((await noId.json()).message).toContain('id');
+		const badPage = await page.request.get(`${url}?limit=5000`);
+		expect(badPage.status()).toBe(400);
+
+		const ruth = await browser.newContext();
+		const rp = await ruth.newPage();
+		await signIn(rp, demo.ruth);
+		const base = new URL(page.url()).origin;
+		const forbidden = await rp.request.post(base + url, {
+			data: { ...body, id: crypto.randomUUID() }
+		});
+		expect(forbidden.status()).toBe(403);
+		await ruth.close();
+
+		const other = await browser.newContext();
+		const op = await other.newPage();
+		await signIn(op, demo.otherTech);
+		const hidden = await op.request.post(base + url, {
+			data: { ...body, id: crypto.randomUUID() }
+		});
+		expect(hidden.status()).toBe(404);
+		expect(await hidden.text()).not.toContain('1042');
+		expect((await op.request.get(`${base}/api/jobs/${id1042}/steps`)).status()).toBe(404);
+		await other.close();
+	});
+});
