@@ -9,6 +9,7 @@ import {
 	mayWrite,
 	shopTolerance
 } from '$lib/server/entries';
+import { listOpenRedos } from '$lib/server/floor';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {
@@ -26,11 +27,12 @@ export const load: PageServerLoad = async ({ url }) => {
 		else notice = `Job ${number} is not on your bench.`;
 	}
 	job ??= jobs.find((j) => j.state === 'in_work') ?? jobs[0] ?? null;
-	const [steps, log, tools, { pct }] = await Promise.all([
+	const [steps, log, tools, { pct }, redos] = await Promise.all([
 		job ? listSteps(user.shopId, job.id) : [],
 		job ? listEntries(user.shopId, job.id, { limit: 50 }) : { entries: [], nextBefore: null },
 		listTools(user.shopId),
-		shopTolerance(user.shopId)
+		shopTolerance(user.shopId),
+		job ? listOpenRedos(user.shopId, job.id) : []
 	]);
 	return {
 		me: { id: user.id, name: user.name, role: user.role },
@@ -41,6 +43,7 @@ export const load: PageServerLoad = async ({ url }) => {
 		nextBefore: log.nextBefore,
 		tools,
 		tolerancePct: pct,
-		notice
+		notice,
+		redos
 	};
 };
