@@ -738,6 +738,25 @@ async function main() {
 			});
 		}
 
+		// Demo history for spec drift (issue 7): 24 past paid services, one every five days, whose
+		// rear axle nut was torqued with TW-02. Invented values that creep upward, so the Floor's
+		// spec drift page has a chart, Cp/Cpk (n ≥ 20) and a tool leaning above nominal to show.
+		for (let i = 0; i < 24; i++) {
+			const past = await makeJob({
+				number: 1001 + i,
+				vehicle: i % 4,
+				procs: [0],
+				state: 'paid',
+				tech: i % 2 ? ruth : tomasz,
+				bay: `Bay ${(i % 4) + 1}`,
+				concern: 'Routine service (demo history).',
+				odometer: 4000 + i * 350,
+				createdMinutesAgo: (24 - i) * 5 * 24 * 60 + 120
+			});
+			const value = Math.round((87 + i * 0.25 + ((i * 7) % 5) - 2) * 10) / 10;
+			await log(past, i % 2 ? ruth : tomasz, 'Rear axle nut', value, (24 - i) * 5 * 24 * 60);
+		}
+
 		await makeJob({
 			number: 1039,
 			vehicle: 3,
