@@ -1,0 +1,139 @@
+import { describe, expect, it } from 'vitest';
+import { wordsToNumber } from '../phrase/index';
+import { unitFromWords } from '../units/index';
+import {
+	SPOKEN_UNITS,
+	buildGrammar,
+	numberWords,
+	pronounce,
+	spokenWords,
+	unitPhrases
+} from './grammar';
+
+// A few entries in the model dictionary's format (ARPAbet phones, as in CMUdict).
+const DICT: Record<string, string> = {
+	rear: 'R IH R',
+	axle: 'AE K S AH L',
+	nut: 'N AH T',
+	engine: 'EH N JH AH N',
+	oil: 'OY L',
+	fill: 'F IH L',
+	newton: 'N UW T AH N',
+	liters: 'L IY T ER Z',
+	tick: 'T IH K',
+	over: 'OW V ER',
+	idle: 'AY D AH L',
+	speed: 'S P IY D',
+	tire: 'T AY ER',
+	front: 'F R AH N T',
+	batch: 'B AE CH'
+};
+const lookup = (w: string) => DICT[w] ?? null;
+
+describe('numberWords', () => {
+	it('says whole numbers the way the phrase engine reads them back, 0 to 999', () => {
+		expect(numberWords(0)).toBe('zero');
+		expect(numberWords(13)).toBe('thirteen');
+		expect(numberWords(88)).toBe('eighty eight');
+		expect(numberWords(105)).toBe('one hundred and five');
+		expect(numberWords(999)).toBe('nine hundred and ninety nine');
+		for (let n = 0; n <= 999; n++) expect(wordsToNumber(numberWords(n))).toBe(n);
+	});
+	it('refuses what the grammar cannot say', () => {
+		expect(() => numberWords(1000)).toThrow(RangeError);
+		expect(() => numberWords(1.5)).toThrow(RangeError);
+	});
+});
+
+describe('spoken units', () => {
+	it('every spoken unit phrase reads back to its own UCUM code', () => {
+		for (const [code, phrases] of Object.entries(SPOKEN_UNITS)) {
+			for (const p of phrases) expect(unitFromWords(p), p).toBe(code);
+		}
+	});
+	it('offers only the kinds of quantity the job measures', () => {
+		const phrases = unitPhrases([{ label: 'Rear axle nut', unit: 'N.m' }]);
+		expect(phrases).toContain('newton metres');
+		expect(phrases).toContain('foot pounds');
+		expect(phrases).not.toContain('litres');
+		expect(phrases).not.toContain('volts');
+	});
+});
+
+describe('pronounce', () => {
+	it('uses the dictionary first', () => {
+		expect(pronounce('axle', lookup)).toBe('AE K S AH L');
+	});
+	it('builds British spellings, plurals and run-together words from known words', () => {
+		expect(pronounce('litres', lookup)).toBe('L IY T ER Z');
+		expect(pronounce('tyre', lookup)).toBe('T AY ER');
+		expect(pronounce('newtons', lookup)).toBe('N UW T AH N Z');
+		expect(pronounce('nuts', lookup)).toBe('N AH T S');
+		expect(pronounce('batches', lookup)).toBeNull();
+		expect(pronounce('tickover', lookup)).toBe('T IH K OW V ER');
+	});
+	it('gives up on words it cannot build', () => {
+		expect(pronounce('qwxz', lookup)).toBeNull();
+		expect(pronounce('m8', lookup)).toBeNull();
+	});
+});
+
+describe('spokenWords', () => {
+	it('lower-cases, splits on punctuation and says digits as numbers', () => {
+		expect(spokenWords('Leak check after warm-up')).toEqual([
+			'leak',
+			'check',
+			'after',
+			'warm',
+			'up'
+		]);
+		expect(spokenWords('Cylinder 2 spark plug')).toEqual(['cylinder', 'two', 'spark', 'plug']);
+		expect(spokenWords('M8 bolts')).toEqual(['m', 'eight', 'bolts']);
+	});
+});
+
+describe('buildGrammar', () => {
+	const steps = [
+		{ label: 'Rear axle nut', aliases: ['axle nut', 'rear wheel spindle'], unit: 'N.m' },
+		{ label: 'Engine oil fill', aliases: ['oil'], unit: 'L' },
+		{ label: 'Idle speed', aliases: ['tickover'], unit: '/min' }
+	];
+	it('holds the job’s steps, intents, numbers and units', () => {
+		const g = buildGrammar({ steps }, () => 'AH');
+		expect(g.jsgf).toMatch(/^#JSGF V1\.0;/);
+		expect(g.jsgf).toContain('<step> = (rear axle nut) | (axle nut) | (rear wheel spindle)');
+		expect(g.jsgf).toContain('(engine oil fill) | oil | (idle speed) | tickover;');
+		expect(g.jsgf).toMatch(/<unit> = .*\(newton metres\)/);
+		expect(g.jsgf).toMatch(/<unit> = .*litres/);
+		expect(g.jsgf).toMatch(/<unit> = .*\(r p m\)/);
+		expect(g.jsgf).not.toMatch(/volts|kilopascals/);
+		for (const rule of ['next', 'undo', 'cancel', 'specword', 'doneword', 'partword', 'note']) {
+			expect(g.jsgf).toContain(`<${rule}> =`);
+		}
+		expect(g.jsgf).toContain('<number> = <whole> [point <digit> [<digit> [<digit>]]];');
+		expect(g.missing).toEqual([]);
+	});
+	it('leaves out phrases with unknown words and lists those words', () => {
+		const g = buildGrammar({ steps }, lookup);
+		expect(g.missing).toContain('spindle');
+		expect(g.missing).toContain('wheel');
+		expect(g.jsgf).not.toContain('spindle');
+		expect(g.jsgf).toContain('(rear axle nut)');
+		expect(g.jsgf).toContain('tickover');
+		expect(g.added).toContainEqual(['tickover', 'T IH K OW V ER']);
+		expect(g.added).toContainEqual(['litres', 'L IY T ER Z']);
+		// every word of the job's own rules has a pronunciation: the dictionary's or one made here
+		const added = new Map(g.added);
+		const ruleWords = g.jsgf
+			.split('\n')
+			.filter((l) => /^<(step|unit|partname|noteword)> =/.test(l))
+			.flatMap((l) => l.replace(/<[^>]+>/g, ' ').match(/[a-z']+/g) ?? []);
+		expect(ruleWords.length).toBeGreaterThan(5);
+		expect(ruleWords.filter((w) => !lookup(w) && !added.has(w))).toEqual([]);
+	});
+	it('still parses for a job without steps', () => {
+		const g = buildGrammar({ steps: [] }, () => 'AH');
+		expect(g.jsgf).toContain('<step> = <VOID>;');
+		expect(g.jsgf).toContain('<unit> = <VOID>;');
+	});
+});

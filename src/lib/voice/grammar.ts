@@ -1,0 +1,282 @@
+/**
+ * The offline recogniser decodes a finite-state grammar, not free speech. This builds that
+ * grammar (JSGF) from the job in front of the technician: its step labels and aliases, the
+ * intents the phrase engine knows (next, spec, done, undo, note, new/replaced, cancel),
+ * numbers as spoken (zero to 999, "point" and decimals) and the spoken unit words of the
+ * job's kinds of quantity. Pure: the pronunciation dictionary comes in as a lookup function,
+ * so the same code runs against the model's dictionary in Node and in the browser.
+ */
+import { dimensionOf } from '../units/index';
+
+export interface GrammarStep {
+	label: string;
+	aliases?: string[];
+	unit?: string | null;
+}
+
+export interface GrammarInput {
+	steps: GrammarStep[];
+	/** Names of parts the job may fit ("drain plug washer"), for "new …" and "… replaced". */
+	parts?: string[];
+}
+
+/** The model dictionary: a word's phones ("S P EH K"), or null when the word is unknown. */
+export type Lookup = (word: string) => string | null;
+
+export interface VoiceGrammar {
+	jsgf: string;
+	/** Every word the grammar uses. */
+	words: string[];
+	/** Words not in the dictionary with pronunciations made here from known words. */
+	added: [string, string][];
+	/** Words with no pronunciation: the phrases holding them were left out. */
+	missing: string[];
+}
+
+// --- numbers ------------------------------------------------------------------------------------
+
+const ONES = ['zero', 'one', 'two', 'three', 'four', 'five', 'six', 'seven', 'eight', 'nine'];
+const TEENS = [
+	'ten',
+	'eleven',
+	'twelve',
+	'thirteen',
+	'fourteen',
+	'fifteen',
+	'sixteen',
+	'seventeen',
+	'eighteen',
+	'nineteen'
+];
+const TENS = ['', '', 'twenty', 'thirty', 'forty', 'fifty', 'sixty', 'seventy', 'eighty', 'ninety'];
+
+/** A whole number 0–999 in words, as the grammar says it ("one hundred and five"). */
+export function numberWords(n: number): string {
+	if (!Number.isInteger(n) || n < 0 || n > 999) throw new RangeError(`not 0–999: ${n}`);
+	if (n < 10) return ONES[n];
+	if (n < 20) return TEENS[n - 10];
+	if (n < 100) return TENS[Math.floor(n / 10)] + (n % 10 ? ' ' + ONES[n % 10] : '');
+	const rest = n % 100;
+	return ONES[Math.floor(n / 100)] + ' hundred' + (rest ? ' and ' + numberWords(rest) : '');
+}
+
+// --- units --------------------------------------------------------------------------------------
+
+/**
+ * How units are said aloud, by UCUM code. Every phrase here must read back to its code through
+ * `unitFromWords` (a unit test checks), so the phrase engine understands what the grammar
+ * lets the recogniser hear.
+ */
+export const SPOKEN_UNITS: Record<string, string[]> = {
+	'N.m': ['newton metres', 'newton meters', 'newton metre', 'newtons'],
+	'kgf.m': ['kilogram metres', 'kilogram force metres'],
+	'kgf.cm': ['kilogram centimetres'],
+	'[lbf_av].[ft_i]': ['foot pounds', 'pound feet'],
+	'[lbf_av].[in_i]': ['inch pounds'],
+	'daN.m': ['decanewton metres'],
+	'N.cm': ['newton centimetres'],
+	L: ['litres', 'litre', 'liters', 'liter'],
+	mL: ['millilitres', 'milliliters'],
+	cm3: ['cubic centimetres', 'c c'],
+	'[qt_us]': ['quarts', 'quart'],
+	'[foz_us]': ['fluid ounces', 'ounces'],
+	'[pt_us]': ['pints'],
+	mm: ['millimetres', 'millimeters', 'millimetre'],
+	cm: ['centimetres', 'centimeters'],
+	'[in_i]': ['inches', 'inch'],
+	'[mil_i]': ['thou'],
+	kPa: ['kilopascals', 'k p a'],
+	bar: ['bar'],
+	'[psi]': ['p s i', 'pounds per square inch'],
+	V: ['volts', 'volt'],
+	mV: ['millivolts'],
+	Ohm: ['ohms'],
+	kOhm: ['kilo ohms'],
+	'/min': ['r p m', 'revs per minute'],
+	Cel: ['degrees celsius'],
+	'[degF]': ['degrees fahrenheit']
+};
+
+/** Spoken unit phrases for the kinds of quantity the steps measure. */
+export function unitPhrases(steps: GrammarStep[]): string[] {
+	const dims = new Set(steps.map((s) => (s.unit ? dimensionOf(s.unit) : null)).filter(Boolean));
+	const out: string[] = [];
+	for (const [code, phrases] of Object.entries(SPOKEN_UNITS)) {
+		const d = dimensionOf(code);
+		if (d && dims.has(d)) out.push(...phrases);
+	}
+	return out;
+}
+
+// --- intents ------------------------------------------------------------------------------------
+
+const NEXT = ['next', 'next step', 'what is next', 'whats next'];
+const UNDO = ['undo', 'undo that', 'undo last entry', 'scratch that'];
+const CANCEL = ['cancel', 'cancel that', 'never mind'];
+const SPEC_PREFIX = ['spec', 'spec for', 'what is the spec for', 'whats the spec for'];
+const DONE_PREFIX = ['done', 'mark done', 'finished'];
+const DONE_SUFFIX = ['done', 'checked', 'okay'];
+const PART_PREFIX = ['new', 'fitted new', 'replaced'];
+const PART_SUFFIX = ['replaced', 'renewed', 'fitted'];
+/** Words a short note may hold besides the job's own words (common practice at the bench). */
+const NOTE_WORDS = (
+	'a the is are and on at left right front rear top bottom upper lower inner outer worn ' +
+	'loose tight leaking weeping cracked damaged missing dirty clean seized noisy bent broken ' +
+	'low high ok good needs check customer told seal gasket hose cable bolt nut washer'
+).split(' ');
+
+// --- words and pronunciations -------------------------------------------------------------------
+
+/** Lower-case words of a label: letters and apostrophes; digits said as numbers. */
+export function spokenWords(text: string): string[] {
+	const out: string[] = [];
+	for (const raw of text.toLowerCase().split(/[^a-z0-9']+/)) {
+		const w = raw.replace(/^'+|'+$/g, '');
+		if (!w) continue;
+		if (/^\d+$/.test(w)) {
+			const n = Number(w);
+			if (n <= 999) out.push(...numberWords(n).split(' '));
+			else out.push(w);
+			continue;
+		}
+		for (const part of w.split(/(?<=\D)(?=\d)|(?<=\d)(?=\D)/)) {
+			if (/^\d+$/.test(part) && Number(part) <= 999)
+				out.push(...numberWords(Number(part)).split(' '));
+			else out.push(part);
+		}
+	}
+	return out;
+}
+
+const VOICELESS = new Set(['P', 'T', 'K', 'F', 'TH']);
+const SIBILANT = new Set(['S', 'Z', 'SH', 'ZH', 'CH', 'JH']);
+
+/**
+ * A pronunciation for a word: from the dictionary, else built from known words — the
+ * American spelling ("litres" → "liters"), a plural of a known word ("newtons"), or two known
+ * words run together ("tickover", "countershaft"). Null when none of these works.
+ */
+export function pronounce(word: string, lookup: Lookup, depth = 0): string | null {
+	if (!/^[a-z']+$/.test(word)) return null;
+	const known = lookup(word);
+	if (known) return known;
+	if (depth > 2) return null;
+	const american = word
+		.replace(/tre(s?)$/, 'ter$1')
+		.replace(/yre(s?)$/, 'ire$1')
+		.replace(/our(s?)$/, 'or$1');
+	if (american !== word) {
+		const p = lookup(american);
+		if (p) return p;
+	}
+	if (word.length > 3 && word.endsWith('s') && !word.endsWith('ss')) {
+		const stem = pronounce(word.slice(0, -1), lookup, depth + 1);
+		if (stem) {
+			const last = stem.split(' ').at(-1) ?? '';
+			const tail = SIBILANT.has(last) ? 'IH Z' : VOICELESS.has(last) ? 'S' : 'Z';
+			return `${stem} ${tail}`;
+		}
+	}
+	for (let i = word.length - 3; i >= 3; i--) {
+		const head = lookup(word.slice(0, i));
+		if (!head) continue;
+		const tail = pronounce(word.slice(i), lookup, depth + 1);
+		if (tail) return `${head} ${tail}`;
+	}
+	return null;
+}
+
+// --- the grammar --------------------------------------------------------------------------------
+
+function alternatives(phrases: Iterable<string>): string {
+	return [...phrases].map((p) => (p.includes(' ') ? `(${p})` : p)).join(' | ');
+}
+
+/** Builds the JSGF grammar for a job. Never throws; unknown words are reported in `missing`. */
+export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar {
+	const prons = new Map<string, string | null>();
+	const added: [string, string][] = [];
+	const missing = new Set<string>();
+	const pron = (w: string): string | null => {
+		if (!prons.has(w)) {
+			const direct = /^[a-z']+$/.test(w) ? lookup(w) : null;
+			const p = direct ?? pronounce(w, lookup);
+			prons.set(w, p);
+			if (!direct && p) added.push([w, p]);
+		}
+		return prons.get(w) ?? null;
+	};
+	/** The phrase's words joined, or null (and its unknown words noted) when one is unknown. */
+	const phrase = (text: string): string | null => {
+		const words = spokenWords(text);
+		if (!words.length) return null;
+		const bad = words.filter((w) => pron(w) === null);
+		if (bad.length) {
+			for (const b of bad) missing.add(b);
+			return null;
+		}
+		return words.join(' ');
+	};
+	const keep = (list: Iterable<string>): Set<string> => {
+		const out = new Set<string>();
+		for (const t of list) {
+			const p = phrase(t);
+			if (p) out.add(p);
+		}
+		return out;
+	};
+
+	const steps = keep(input.steps.flatMap((s) => [s.label, ...(s.aliases ?? [])]));
+	const parts = keep([...(input.parts ?? []), ...steps]);
+	const units = keep(unitPhrases(input.steps));
+	const noteWords = new Set<string>();
+	for (const p of [...steps, ...parts, ...NOTE_WORDS]) {
+		for (const w of p.split(' ')) if (pron(w)) noteWords.add(w);
+	}
+	for (const w of [...ONES, ...TEENS, ...TENS.filter(Boolean), 'hundred', 'and', 'point', 'oh']) {
+		pron(w);
+	}
+	const rule = (name: string, list: Iterable<string>) => {
+		const body = alternatives(list);
+		// an empty rule must still exist, or the grammar would not parse
+		return `<${name}> = ${body || '<VOID>'};`;
+	};
+
+	const calls = ['<measure>', '<spec>', '<done>', '<part>', '<note>', '<next>', '<undo>'];
+	const lines = [
+		'#JSGF V1.0;',
+		'grammar benchcall;',
+		`public <call> = ${[...calls, '<cancel>'].join(' | ')};`,
+		'<measure> = <step> <number> [<unit>];',
+		'<spec> = <specword> <step>;',
+		'<done> = <doneword> <step> | <step> <donetail>;',
+		'<part> = <partword> <partname> | <partname> <parttail>;',
+		'<note> = note <noteword>+;',
+		rule('next', keep(NEXT)),
+		rule('undo', keep(UNDO)),
+		rule('cancel', keep(CANCEL)),
+		rule('specword', keep(SPEC_PREFIX)),
+		rule('doneword', keep(DONE_PREFIX)),
+		rule('donetail', keep(DONE_SUFFIX)),
+		rule('partword', keep(PART_PREFIX)),
+		rule('parttail', keep(PART_SUFFIX)),
+		rule('noteword', noteWords),
+		'<number> = <whole> [point <digit> [<digit> [<digit>]]];',
+		'<whole> = zero | <below100> | <one> hundred [[and] <below100>];',
+		'<below100> = <one> | <teen> | <tens> [<one>];',
+		`<digit> = zero | oh | ${ONES.slice(1).join(' | ')};`,
+		`<one> = ${ONES.slice(1).join(' | ')};`,
+		`<teen> = ${TEENS.join(' | ')};`,
+		`<tens> = ${TENS.filter(Boolean).join(' | ')};`
+	];
+	// A job with no named steps still gets the intents that need no step.
+	lines.push(rule('step', steps), rule('partname', parts), rule('unit', units));
+
+	const words = [...prons.entries()].filter(([, p]) => p !== null).map(([w]) => w);
+	return {
+		jsgf: lines.join('\n') + '\n',
+		words: words.sort(),
+		added,
+		missing: [...missing].sort()
+	};
+}
