@@ -9,7 +9,7 @@ export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
 import { db } from './db';
 import * as s from './db/schema';
-import { listJobs } from './jobs';
+import { listJobs, transitionJob } from './jobs';
 
 export interface Actor {
 	id: string;
@@ -509,27 +509,18 @@ export async function readyToInvoiceBlockers(shopId: string, jobId: string): Pro
 	return out;
 }
 
-/** Moves a signed-off job to "ready to invoice", recording the change. */
+/**
+ * Moves a signed-off job to "ready to invoice" through the Jobs state machine (transitionJob),
+ * which records the change; the Floor's own check runs first for its clearer messages.
+ */
 export async function markReadyToInvoice(actor: Actor, jobId: string) {
 	const blockers = await readyToInvoiceBlockers(actor.shopId, jobId);
 	if (blockers.length > 0) error(409, `Not ready to invoice. ${blockers.join(' ')}`);
-	await db.transaction(async (tx) => {
-		const [row] = await tx.execute(sql`
-			select state from job where id = ${jobId} and shop_id = ${actor.shopId} for update`);
-		if (row.state !== 'final_inspection') {
-			error(409, 'Only a job in final inspection moves to ready to invoice.');
-		}
-		await tx.execute(
-			sql`update job set state = 'ready_to_invoice', state_reason = null where id = ${jobId}`
-		);
-		await tx.insert(s.jobStateChange).values({
-			shopId: actor.shopId,
-			jobId,
-			fromState: 'final_inspection',
-			toState: 'ready_to_invoice',
-			byUserId: actor.id
-		});
+	const result = await transitionJob(actor.shopId, jobId, 'ready_to_invoice', {
+		byUserId: actor.id,
+		expectedFrom: 'final_inspection'
 	});
+	if (!result.ok) error(409, result.message);
 }
 
 // ——— The bay board ———
