@@ -17,6 +17,11 @@ describe('navFor', () => {
 			expect(navFor(role).map((n) => n.href)).not.toContain('/shop');
 		}
 	});
+	it('shows the procedure library to those who edit or attach procedures', () => {
+		for (const role of ['owner', 'foreman', 'service_writer'] as const) {
+			expect(navFor(role).map((n) => n.href)).toContain('/procedures');
+		}
+	});
 	it('gives a technician the Bench and not the Floor', () => {
 		const hrefs = navFor('technician').map((n) => n.href);
 		expect(hrefs).toEqual(['/bench']);

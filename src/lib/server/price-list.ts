@@ -1,0 +1,64 @@
+// The shop's price list (parts, consumables, fluids). Scoped by shop id.
+import { and, asc, eq } from 'drizzle-orm';
+import { db } from './db';
+import { part } from './db/schema';
+
+export function listParts(shopId: string, opts: { all?: boolean } = {}) {
+	return db
+		.select()
+		.from(part)
+		.where(and(eq(part.shopId, shopId), opts.all ? undefined : eq(part.active, true)))
+		.orderBy(asc(part.code));
+}
+
+export type PartResult = { ok: true } | { ok: false; field?: string; message: string };
+
+export async function savePart(
+	shopId: string,
+	input: {
+		partId?: string;
+		code: string;
+		description: string;
+		unit: 'each' | 'L' | 'mL';
+		priceMinor: number;
+	}
+): Promise<PartResult> {
+	const values = {
+		code: input.code,
+		description: input.description,
+		unit: input.unit,
+		priceMinor: input.priceMinor
+	};
+	try {
+		if (input.partId) {
+			const rows = await db
+				.update(part)
+				.set(values)
+				.where(and(eq(part.shopId, shopId), eq(part.id, input.partId)))
+				.returning({ id: part.id });
+			if (!rows.length) return { ok: false, message: 'No such part in this shop.' };
+		} else {
+			await db.insert(part).values({ shopId, ...values });
+		}
+		return { ok: true };
+	} catch (e) {
+		const err = e as { code?: string; cause?: { code?: string } };
+		if (err.code === '23505' || err.cause?.code === '23505') {
+			return {
+				ok: false,
+				field: 'code',
+				message: `The code ${input.code} is already on the list.`
+			};
+		}
+		throw e;
+	}
+}
+
+export async function setPartActive(shopId: string, partId: string, active: boolean) {
+	const rows = await db
+		.update(part)
+		.set({ active })
+		.where(and(eq(part.shopId, shopId), eq(part.id, partId)))
+		.returning({ id: part.id });
+	return rows.length > 0;
+}

@@ -1,0 +1,62 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { procedureEditors, procedureReaders } from '$lib/procedures/access';
+import { procedureFormSchema } from '$lib/schemas/procedure';
+import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { requireRole } from '$lib/server/auth';
+import * as procedures from '$lib/server/procedures';
+import type { Actions, PageServerLoad } from './$types';
+
+const readers = procedureReaders;
+const editors = procedureEditors;
+const idSchema = z.object({ id: z.uuid('Unknown procedure.') });
+
+export const load: PageServerLoad = async ({ url }) => {
+	const user = requireRole(...readers);
+	const archived = url.searchParams.get('archived') === '1';
+	return {
+		procedures: await procedures.listProcedures(user.shopId, { archived }),
+		archived,
+		canEdit: editors.includes(user.role)
+	};
+};
+
+export const actions = {
+	create: async ({ request }) => {
+		const user = requireRole(...editors);
+		const form = await request.formData();
+		const parsed = procedureFormSchema.safeParse(Object.fromEntries(form));
+		if (!parsed.success) {
+			return fail(400, {
+				action: 'create',
+				values: echoValues(form),
+				errors: fieldErrors(parsed.error)
+			});
+		}
+		const id = await procedures.createProcedure(user.shopId, parsed.data);
+		redirect(303, `/procedures/${id}`);
+	},
+	duplicate: async ({ request }) => {
+		const user = requireRole(...editors);
+		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success)
+			return fail(400, { action: 'duplicate', errors: fieldErrors(parsed.error) });
+		const id = await procedures.duplicateProcedure(user.shopId, parsed.data.id);
+		if (!id) return fail(404, { action: 'duplicate', errors: formError('No such procedure.') });
+		redirect(303, `/procedures/${id}?copied=1`);
+	},
+	archive: async ({ request }) => {
+		const user = requireRole(...editors);
+		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return fail(400, { action: 'archive', errors: fieldErrors(parsed.error) });
+		await procedures.setArchived(user.shopId, parsed.data.id, true);
+		return { action: 'archive', done: 'Archived: it is no longer offered for new jobs.' };
+	},
+	restore: async ({ request }) => {
+		const user = requireRole(...editors);
+		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return fail(400, { action: 'restore', errors: fieldErrors(parsed.error) });
+		await procedures.setArchived(user.shopId, parsed.data.id, false);
+		return { action: 'restore', done: 'Back in the library.' };
+	}
+} satisfies Actions;
