@@ -174,6 +174,36 @@ describe('appendEntry', () => {
 	});
 });
 
+describe('a step picked from the candidates', () => {
+	it('judges the value against the picked step, and refuses a step of another job', async () => {
+		const f = await makeShop('Bench');
+		const [front] = await db
+			.insert(s.jobStep)
+			.values({
+				shopId: f.shop.id,
+				jobId: f.job.id,
+				jobProcedureId: f.step.jobProcedureId,
+				position: 2,
+				label: 'Front axle nut',
+				unit: 'N.m',
+				min: 55,
+				max: 65
+			})
+			.returning();
+		const e = entryOf(
+			await appendEntry(as(f.tech), f.job.id, post('rear axle nut 60 nm', { stepId: front.id }))
+		);
+		expect(e).toMatchObject({ stepId: front.id, verdict: 'in' });
+		const other = await makeShop('Other');
+		const refused = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('rear axle nut 60 nm', { stepId: other.step.id })
+		);
+		expect(refused.status).toBe(422);
+	});
+});
+
 describe('retraction', () => {
 	it("undo retracts the author's own last live entry, and the step is no longer done", async () => {
 		const f = await makeShop('Bench');
