@@ -1,0 +1,88 @@
+/**
+ * Offline voice benchmark: loads the soundswallower model, builds each demo job's grammar and
+ * decodes every committed test phrase (tests/fixtures/voice) several times. Prints model load
+ * time, grammar build time and p50 / p95 decode time per phrase, with what was heard. It prints
+ * figures only; nothing here is asserted. Goal (issue 5): decode ≤ 300 ms per phrase and model
+ * load ≤ 2 s on a 2-core machine.
+ *
+ *   npm run bench:voice            (5 rounds)
+ *   npm run bench:voice -- 20      (20 rounds)
+ */
+import { readFileSync } from 'node:fs';
+import { performance } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+import createModule from 'soundswallower';
+import { parsePhrase, isCancel, type StepSpec } from '../src/lib/phrase/index';
+import { createDecoder, decodePhrase, readWav, useGrammar } from '../src/lib/voice/decoder';
+
+const rounds = Math.max(1, Number(process.argv[2]) || 5);
+const dir = fileURLToPath(new URL('../tests/fixtures/voice/', import.meta.url));
+const manifest = JSON.parse(readFileSync(dir + 'manifest.json', 'utf8')) as {
+	jobs: Record<string, Omit<StepSpec, 'id'>[]>;
+	phrases: {
+		file: string;
+		job: number;
+		text: string;
+		intent: string;
+		step: string | null;
+		value: number | null;
+		unit: string | null;
+	}[];
+};
+
+function pct(sorted: number[], p: number): number {
+	return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
+}
+const ms = (n: number) => `${n.toFixed(0).padStart(5)} ms`;
+
+const t0 = performance.now();
+const modelBase = fileURLToPath(new URL('../node_modules/soundswallower/model/', import.meta.url));
+const ss = await createModule({ modelBase } as never);
+const decoder = await createDecoder(ss);
+const loadMs = performance.now() - t0;
+console.log(`model load (WASM + acoustic model + dictionary): ${ms(loadMs)}`);
+
+const all: number[] = [];
+let right = 0;
+let currentJob = -1;
+for (const p of manifest.phrases) {
+	const steps = manifest.jobs[String(p.job)].map((s) => ({ ...s, id: s.label }));
+	if (p.job !== currentJob) {
+		const g0 = performance.now();
+		const g = useGrammar(decoder, { steps });
+		console.log(
+			`job ${p.job}: grammar of ${g.words.length} words built in ${ms(performance.now() - g0)}` +
+				(g.missing.length ? `; left out: ${g.missing.join(', ')}` : '')
+		);
+		currentJob = p.job;
+	}
+	const { samples } = readWav(readFileSync(dir + p.file));
+	const times: number[] = [];
+	let heard = '';
+	for (let i = 0; i < rounds; i++) {
+		const s = performance.now();
+		heard = decodePhrase(decoder, samples);
+		times.push(performance.now() - s);
+	}
+	times.sort((a, b) => a - b);
+	all.push(...times);
+	const r = parsePhrase(heard, { steps });
+	const ok =
+		p.intent === 'cancel'
+			? isCancel(heard)
+			: r.intent === p.intent &&
+				r.stepId === p.step &&
+				(r.quantity?.value ?? null) === p.value &&
+				(r.quantity?.unit ?? null) === p.unit;
+	if (ok) right++;
+	const secs = (samples.length / 16000).toFixed(1);
+	console.log(
+		`${ok ? 'ok  ' : 'MISS'} p50 ${ms(pct(times, 50))}  p95 ${ms(pct(times, 95))}  ${secs} s  ${p.file}: "${heard}"`
+	);
+}
+all.sort((a, b) => a - b);
+console.log(
+	`all phrases (${rounds} rounds): p50 ${ms(pct(all, 50))}, p95 ${ms(pct(all, 95))}; ` +
+		`${right}/${manifest.phrases.length} right`
+);
+decoder.delete();
