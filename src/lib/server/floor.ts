@@ -2,13 +2,14 @@
 // sign-off. Every query is scoped by the caller's shop id. The log stays append-only: an accept,
 // a redo, an inspection tick and a sign-off are all new entries.
 import { error } from '@sveltejs/kit';
-import { and, eq, isNull, sql, type SQL } from 'drizzle-orm';
+import { and, eq, isNull, sql } from 'drizzle-orm';
 import type { FloorEntry, LogFilter, OpenRedo, Verdict } from '$lib/floor/log';
 
 export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
 import { db } from './db';
 import * as s from './db/schema';
+import { driftStepSql, entryColumns, entryJoins, logPageSql } from './floor-sql';
 import { listJobs, transitionJob } from './jobs';
 
 export interface Actor {
@@ -29,15 +30,6 @@ const openStates: JobState[] = [
 	'on_hold',
 	'ready_to_invoice'
 ];
-
-const entryColumns = sql`
-	e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.author_id, u.name as author_name,
-	e.kind, e.raw_text, e.value, e.unit, e.spec_value, e.spec_unit, e.verdict, e.note,
-	st.label as step_label, e.retracts, e.responds_to, e.occurred_at`;
-const entryJoins = sql`
-	join job j on j.id = e.job_id
-	join "user" u on u.id = e.author_id
-	left join job_step st on st.id = e.job_step_id`;
 
 function toEntry(r: Record<string, unknown>): FloorEntry {
 	return {
@@ -80,24 +72,6 @@ export async function readJsonBody(request: Request): Promise<unknown> {
 	}
 }
 
-function likePattern(q: string): string {
-	return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-}
-
-function filterSql(f: LogFilter): SQL {
-	const parts: SQL[] = [];
-	if (f.bay) parts.push(sql`and j.bay = ${f.bay}`);
-	if (f.technician) parts.push(sql`and e.author_id = ${f.technician}`);
-	if (f.job !== undefined) parts.push(sql`and j.number = ${f.job}`);
-	if (f.verdict === 'out') parts.push(sql`and e.verdict in ('low', 'high')`);
-	else if (f.verdict) parts.push(sql`and e.verdict = ${f.verdict}`);
-	if (f.q) {
-		const p = likePattern(f.q);
-		parts.push(sql`and (e.raw_text ilike ${p} or st.label ilike ${p})`);
-	}
-	return sql.join(parts, sql` `);
-}
-
 /**
  * One page of the running log, newest first; `before` is the seq of the oldest entry already
  * shown (keyset pagination: stable while new entries arrive).
@@ -108,15 +82,7 @@ export async function listLog(
 	before?: number,
 	limit = PAGE_SIZE
 ): Promise<{ entries: FloorEntry[]; more: boolean }> {
-	const rows = await db.execute(sql`
-		select ${entryColumns}
-		from log_entry e ${entryJoins}
-		where e.shop_id = ${shopId}
-		  ${before ? sql`and e.seq < ${before}` : sql``}
-		  ${filterSql(filter)}
-		order by e.seq desc
-		limit ${limit + 1}
-	`);
+	const rows = await db.execute(logPageSql(shopId, filter, before, limit + 1));
 	const entries = rows.slice(0, limit).map(toEntry);
 	return { entries, more: rows.length > limit };
 }
@@ -600,16 +566,7 @@ export async function driftForStep(shopId: string, procedureStepId: string) {
 		join shop sh on sh.id = ps.shop_id
 		where ps.id = ${procedureStepId} and ps.shop_id = ${shopId}`);
 	if (!step) return null;
-	const rows = await db.execute(sql`
-		select e.occurred_at, e.spec_value, j.number as job_number, t.identifier as tool, e.verdict
-		from job_step js
-		join log_entry e on e.job_step_id = js.id
-		join job j on j.id = e.job_id
-		left join torque_tool t on t.id = e.torque_tool_id
-		where js.procedure_step_id = ${procedureStepId} and js.shop_id = ${shopId}
-		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = ${step.unit as string}
-		  and not exists (select 1 from log_entry r where r.retracts = e.id)
-		order by e.occurred_at asc`);
+	const rows = await db.execute(driftStepSql(shopId, procedureStepId, step.unit as string));
 	const nominal = step.nominal === null ? null : Number(step.nominal);
 	const tol = Number(step.default_tolerance_pct) / 100;
 	let lsl = step.min === null ? null : Number(step.min);
