@@ -16,6 +16,7 @@ import {
 	setInspectionTick,
 	signOff
 } from './floor';
+import { listJobs } from './jobs';
 
 async function withForeman(f: Awaited<ReturnType<typeof makeShop>>) {
 	const [foreman] = await db
@@ -70,8 +71,13 @@ describe('out-of-spec queue', () => {
 	it('a redo reopens the step until a new entry; an in-spec value clears it', async () => {
 		const f = await withForeman(await makeShop('Redo'));
 		const low = await logMeasurement(f, 60, 'low');
+		const stepsDone = async () =>
+			(await listJobs(f.shop.id)).find((j) => j.id === f.job.id)?.stepsDone;
+		expect(await stepsDone()).toBe(1);
 		await orderRedo(f.foreman, low.id, 'Torque again with TW-02 and log it');
 		expect(await listOutOfSpec(f.shop.id)).toEqual([]);
+		// The step counts as not done again until a new entry.
+		expect(await stepsDone()).toBe(0);
 		const redos = await listOpenRedos(f.shop.id, f.job.id);
 		expect(redos).toHaveLength(1);
 		expect(redos[0]).toMatchObject({
@@ -81,6 +87,7 @@ describe('out-of-spec queue', () => {
 		});
 		await logMeasurement(f, 88, 'in');
 		expect(await listOpenRedos(f.shop.id, f.job.id)).toEqual([]);
+		expect(await stepsDone()).toBe(1);
 		expect(await listOutOfSpec(f.shop.id)).toEqual([]);
 	});
 

@@ -59,8 +59,11 @@ export async function listJobs(
 			j.technician_id, t.name as technician_name, c.name as customer_name,
 			v.registration, nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
 			(select count(*) from job_step s where s.job_id = j.id)::int as steps_total,
+			-- A foreman's redo reopens a step until a newer entry for it (issue 7).
 			(select count(distinct l.job_step_id) from live l where l.job_id = j.id
-				and l.kind in ('measure', 'done', 'part'))::int as steps_done,
+				and l.kind in ('measure', 'done', 'part')
+				and not exists (select 1 from live d where d.job_step_id = l.job_step_id
+					and d.kind = 'redo' and d.seq > l.seq))::int as steps_done,
 			(select count(*) from job_step s join latest on latest.job_step_id = s.id
 				where s.job_id = j.id and latest.verdict in ('low', 'high'))::int as out_of_spec,
 			(select max(l.occurred_at) from live l where l.job_id = j.id) as last_entry_at
