@@ -127,7 +127,7 @@ export function matchByWords(
 	const words = text
 		.toLowerCase()
 		.split(/[^\p{L}\p{N}-]+/u)
-		.filter((w) => w.length >= 2 && !NOISE.has(w));
+		.filter((w, i, all) => w.length >= 2 && !NOISE.has(w) && all.indexOf(w) === i);
 	const score = new Map<string, { part: PriceListPart; words: number; quality: number }>();
 	for (const w of words) {
 		for (const hit of fuse.search(w)) {

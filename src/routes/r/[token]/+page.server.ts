@@ -1,9 +1,8 @@
 // The customer's private page: no sign-in; the unguessable token in the address is the key.
-import { error, fail, redirect } from '@sveltejs/kit';
+import { error } from '@sveltejs/kit';
 import { invoiceByToken } from '$lib/server/invoices';
-import { checkoutUrl } from '$lib/server/payments';
 import { workReport } from '$lib/server/work-report';
-import type { Actions, PageServerLoad } from './$types';
+import type { PageServerLoad } from './$types';
 
 async function byToken(token: string) {
 	const found = await invoiceByToken(token);
@@ -11,25 +10,14 @@ async function byToken(token: string) {
 	return found;
 }
 
-export const load: PageServerLoad = async ({ params, setHeaders }) => {
+export const load: PageServerLoad = async ({ params, setHeaders, url }) => {
 	setHeaders({ 'cache-control': 'private, no-store', 'x-robots-tag': 'noindex' });
 	const { invoice, shop, jobNumber } = await byToken(params.token);
 	return {
+		payError: url.searchParams.get('payerror'),
 		invoice,
 		shop: { name: shop.name },
 		jobNumber,
 		report: await workReport(invoice.shopId, invoice.jobId)
 	};
 };
-
-export const actions = {
-	pay: async ({ params, url }) => {
-		const { invoice, shop } = await byToken(params.token);
-		const r = await checkoutUrl(invoice, {
-			shopName: shop.name,
-			returnUrl: `${url.origin}/r/${params.token}`
-		});
-		if (!r.ok) return fail(400, { error: r.message });
-		redirect(303, r.url);
-	}
-} satisfies Actions;
