@@ -1,0 +1,106 @@
+// Forms of the Shop settings: rates and policies, the price list, torque tools.
+import { z } from 'zod';
+import { isKnownCurrency } from '$lib/money';
+import { isKnownUnit, dimensionOf } from '$lib/units';
+
+const num = (what: string, min: number, max: number) =>
+	z
+		.string()
+		.trim()
+		.min(1, `Give ${what}.`)
+		.transform((v, ctx) => {
+			const n = Number(v.replace(',', '.'));
+			if (!Number.isFinite(n) || n < min || n > max) {
+				ctx.addIssue({
+					code: 'custom',
+					message: `${what[0].toUpperCase()}${what.slice(1)} must be from ${min} to ${max}.`
+				});
+				return z.NEVER;
+			}
+			return n;
+		});
+
+export const settingsSchema = z.object({
+	currency: z
+		.string()
+		.trim()
+		.toUpperCase()
+		.refine(
+			(c) => /^[A-Z]{3}$/.test(c) && isKnownCurrency(c),
+			'Use an ISO 4217 code such as EUR or GBP.'
+		),
+	/** In the currency's major units as typed ("62.50"); stored in minor units by the server. */
+	labourRate: z.string().trim().min(1, 'Give the labour rate per hour.').max(20),
+	taxRatePct: num('the tax rate', 0, 100),
+	defaultTolerancePct: num('the default tolerance', 0.1, 50),
+	idleGapMinutes: num('the idle gap', 1, 480).pipe(z.number().int('Whole minutes.')),
+	calibrationMonths: num('the calibration interval', 1, 120).pipe(z.number().int('Whole months.')),
+	bays: z
+		.string()
+		.default('')
+		.transform((v) => [
+			...new Set(
+				v
+					.split(/[\n,]/)
+					.map((b) => b.trim())
+					.filter(Boolean)
+			)
+		])
+		.pipe(
+			z
+				.array(z.string().max(60, 'A bay name is at most 60 characters.'))
+				.max(50, 'At most 50 bays.')
+		)
+});
+
+export const partSchema = z.object({
+	partId: z.union([z.uuid(), z.literal('')]).default(''),
+	code: z.string().trim().min(1, 'Give a code.').max(60, 'At most 60 characters.'),
+	description: z
+		.string()
+		.trim()
+		.min(1, 'Describe the part or fluid.')
+		.max(200, 'At most 200 characters.'),
+	unit: z.enum(['each', 'L', 'mL'], { error: 'Pick each, L or mL.' }),
+	priceMinor: num('the price', 0, 100_000_000).pipe(
+		z.number().int('The price is in minor units (whole cents).')
+	)
+});
+
+export const toolSchema = z
+	.object({
+		toolId: z.union([z.uuid(), z.literal('')]).default(''),
+		identifier: z
+			.string()
+			.trim()
+			.min(1, 'Give the tool an identifier.')
+			.max(60, 'At most 60 characters.'),
+		kind: z
+			.string()
+			.trim()
+			.min(1, 'Say what kind of tool it is.')
+			.max(120, 'At most 120 characters.'),
+		rangeMin: num('the lowest setting', 0, 100_000),
+		rangeMax: num('the highest setting', 0, 100_000),
+		unit: z
+			.string()
+			.refine((u) => isKnownUnit(u) && dimensionOf(u) === 'torque', 'Pick a torque unit.'),
+		calibratedOn: z.union([z.iso.date('Give a date.'), z.literal('')]).default(''),
+		intervalMonths: z
+			.string()
+			.trim()
+			.default('')
+			.transform((v, ctx) => {
+				if (!v) return null;
+				const n = Number(v);
+				if (!Number.isInteger(n) || n < 1 || n > 120) {
+					ctx.addIssue({ code: 'custom', message: 'Whole months from 1 to 120.' });
+					return z.NEVER;
+				}
+				return n;
+			})
+	})
+	.refine((t) => t.rangeMin < t.rangeMax, {
+		path: ['rangeMax'],
+		message: 'The highest setting must be above the lowest.'
+	});

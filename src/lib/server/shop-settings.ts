@@ -1,0 +1,74 @@
+// Shop settings and torque tools. Scoped by shop id.
+import { and, asc, eq } from 'drizzle-orm';
+import { db } from './db';
+import { shop, torqueTool } from './db/schema';
+
+export async function updateSettings(
+	shopId: string,
+	input: {
+		currency: string;
+		labourRateMinor: number;
+		taxRateBp: number;
+		defaultTolerancePct: number;
+		idleGapMinutes: number;
+		calibrationMonths: number;
+		bays: string[];
+	}
+) {
+	await db.update(shop).set(input).where(eq(shop.id, shopId));
+}
+
+export function listTools(shopId: string) {
+	return db
+		.select()
+		.from(torqueTool)
+		.where(eq(torqueTool.shopId, shopId))
+		.orderBy(asc(torqueTool.identifier));
+}
+
+export async function saveTool(
+	shopId: string,
+	input: {
+		toolId: string;
+		identifier: string;
+		kind: string;
+		rangeMin: number;
+		rangeMax: number;
+		unit: string;
+		calibratedOn: string;
+		intervalMonths: number | null;
+	}
+): Promise<{ ok: true } | { ok: false; field?: string; message: string }> {
+	const values = {
+		identifier: input.identifier,
+		kind: input.kind,
+		rangeMin: input.rangeMin,
+		rangeMax: input.rangeMax,
+		unit: input.unit,
+		calibratedOn: input.calibratedOn || null,
+		intervalMonths: input.intervalMonths
+	};
+	try {
+		if (input.toolId) {
+			const rows = await db
+				.update(torqueTool)
+				.set(values)
+				.where(and(eq(torqueTool.shopId, shopId), eq(torqueTool.id, input.toolId)))
+				.returning({ id: torqueTool.id });
+			if (!rows.length) return { ok: false, message: 'No such tool in this shop.' };
+		} else {
+			await db.insert(torqueTool).values({ shopId, ...values });
+		}
+		return { ok: true };
+	} catch (e) {
+		const err = e as { code?: string; cause?: { code?: string } };
+		if (err.code === '23505' || err.cause?.code === '23505') {
+			return {
+				ok: false,
+				field: 'identifier',
+				message: `A tool named ${input.identifier} exists.`
+			};
+		}
+		throw e;
+	}
+}

@@ -1,0 +1,89 @@
+import { fail } from '@sveltejs/kit';
+import { parseMoney } from '$lib/money';
+import { partSchema, settingsSchema, toolSchema } from '$lib/schemas/shop';
+import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { requireRole } from '$lib/server/auth';
+import { listParts, savePart } from '$lib/server/price-list';
+import { getShop } from '$lib/server/shop';
+import { listTools, saveTool, updateSettings } from '$lib/server/shop-settings';
+import { calibrationDue } from '$lib/torque';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => {
+	const user = requireRole('owner');
+	const [shop, parts, tools] = await Promise.all([
+		getShop(user.shopId),
+		listParts(user.shopId, { all: true }),
+		listTools(user.shopId)
+	]);
+	if (!shop) throw new Error('The signed-in user has no shop.');
+	return {
+		shop,
+		parts,
+		tools: tools.map((t) => ({
+			...t,
+			// ISO 6789 / tool makers' guidance: 12 months unless the shop or the tool says otherwise.
+			due: t.calibratedOn
+				? calibrationDue(t.calibratedOn, { months: t.intervalMonths ?? shop.calibrationMonths })
+				: null
+		}))
+	};
+};
+
+export const actions = {
+	settings: async ({ request }) => {
+		const user = requireRole('owner');
+		const form = await request.formData();
+		const values = echoValues(form);
+		const parsed = settingsSchema.safeParse(Object.fromEntries(form));
+		if (!parsed.success) {
+			return fail(400, { action: 'settings', values, errors: fieldErrors(parsed.error) });
+		}
+		const rate = parseMoney(parsed.data.labourRate, parsed.data.currency);
+		if (!rate.ok || rate.minor < 0) {
+			return fail(400, {
+				action: 'settings',
+				values,
+				errors: formError(rate.ok ? 'The rate cannot be negative.' : rate.error, 'labourRate')
+			});
+		}
+		await updateSettings(user.shopId, {
+			currency: parsed.data.currency,
+			labourRateMinor: rate.minor,
+			taxRateBp: Math.round(parsed.data.taxRatePct * 100),
+			defaultTolerancePct: parsed.data.defaultTolerancePct,
+			idleGapMinutes: parsed.data.idleGapMinutes,
+			calibrationMonths: parsed.data.calibrationMonths,
+			bays: parsed.data.bays
+		});
+		return { action: 'settings', done: 'Settings saved.' };
+	},
+	part: async ({ request }) => {
+		const user = requireRole('owner');
+		const form = await request.formData();
+		const values = echoValues(form);
+		const key = values.partId || 'new';
+		const parsed = partSchema.safeParse(Object.fromEntries(form));
+		if (!parsed.success) {
+			return fail(400, { action: 'part', key, values, errors: fieldErrors(parsed.error) });
+		}
+		const r = await savePart(user.shopId, parsed.data);
+		if (!r.ok)
+			return fail(400, { action: 'part', key, values, errors: formError(r.message, r.field) });
+		return { action: 'part', key, done: `${parsed.data.code} saved.` };
+	},
+	tool: async ({ request }) => {
+		const user = requireRole('owner');
+		const form = await request.formData();
+		const values = echoValues(form);
+		const key = values.toolId || 'new';
+		const parsed = toolSchema.safeParse(Object.fromEntries(form));
+		if (!parsed.success) {
+			return fail(400, { action: 'tool', key, values, errors: fieldErrors(parsed.error) });
+		}
+		const r = await saveTool(user.shopId, parsed.data);
+		if (!r.ok)
+			return fail(400, { action: 'tool', key, values, errors: formError(r.message, r.field) });
+		return { action: 'tool', key, done: `${parsed.data.identifier} saved.` };
+	}
+} satisfies Actions;
