@@ -10,7 +10,8 @@ const config = {
 			mode: 'auto',
 			directives: {
 				'default-src': ['self'],
-				'script-src': ['self'],
+				// 'wasm-unsafe-eval': the offline recogniser compiles its WebAssembly (no JS eval).
+				'script-src': ['self', 'wasm-unsafe-eval'],
 				// Svelte transitions and style: directives set inline styles.
 				'style-src': ['self', 'unsafe-inline'],
 				'img-src': ['self', 'data:', 'blob:'],

@@ -1,9 +1,10 @@
 import { sveltekit } from '@sveltejs/kit/vite';
 import tailwindcss from '@tailwindcss/vite';
 import { defineConfig } from 'vitest/config';
+import { voiceModel } from './scripts/lib/voice-model-plugin.js';
 
 export default defineConfig({
-	plugins: [tailwindcss(), sveltekit()],
+	plugins: [tailwindcss(), sveltekit(), voiceModel()],
 	server: { host: '127.0.0.1' },
 	test: {
 		expect: { requireAssertions: true },
