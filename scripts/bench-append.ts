@@ -1,7 +1,7 @@
 /**
  * Append benchmark: the built app and the local PostgreSQL, 50 signed-in clients posting entries
- * for 20 s (closed-loop fetch clients; autocannon sent but got no answers here); then, on the same database, the raw single-row INSERT rate of
- * log_entry from a plain postgres.js loop with the same concurrency, and the ratio. It prints
+ * for 20 s (closed-loop fetch clients: autocannon 9 sent requests here but counted no answers);
+ * then, on the same database, the raw single-row INSERT rate of log_entry from a plain postgres.js loop with the same concurrency, and the ratio. It prints
  * measured figures only; nothing is asserted. Goal (issue 4): p99 ≤ 30 ms, rate ≥ 50 % of raw.
  * Runs on its own scratch database (benchcall_bench, made anew each run), never on the demo one.
  *
