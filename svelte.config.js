@@ -16,7 +16,8 @@ const config = {
 				'style-src': ['self', 'unsafe-inline'],
 				'img-src': ['self', 'data:', 'blob:'],
 				'media-src': ['self', 'blob:'],
-				'font-src': ['self'],
+				// Vite inlines the smallest font subsets as data: URLs.
+				'font-src': ['self', 'data:'],
 				'connect-src': ['self'],
 				'worker-src': ['self', 'blob:'],
 				'frame-ancestors': ['none'],

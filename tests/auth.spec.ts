@@ -4,7 +4,7 @@ import { demo, signIn } from './helpers/auth';
 test.describe('sign-in lands each role on its home', () => {
 	const cases = [
 		{ email: demo.tomasz, home: '/bench', heading: /^Job 1042/, role: 'Technician' },
-		{ email: demo.foreman, home: '/floor', heading: 'Bay board', role: 'Foreman' },
+		{ email: demo.foreman, home: '/floor', heading: 'Floor', role: 'Foreman' },
 		{ email: demo.writer, home: '/jobs', heading: 'Job cards', role: 'Service writer' },
 		{ email: demo.owner, home: '/jobs', heading: 'Job cards', role: 'Owner' }
 	];
