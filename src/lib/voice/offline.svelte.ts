@@ -146,7 +146,8 @@ export class OfflineVoice {
 	#quietMs = 0;
 	#floor = 0.005;
 	#preroll: Float32Array[] = [];
-	#blocks = 0;
+	/** The phrase's audio: decoded whole at its end, with the utterance's own normalisation. */
+	#utterance: Float32Array[] = [];
 
 	async #listen(events: RecogniserEvents) {
 		if (this.listening) return;
@@ -154,7 +155,15 @@ export class OfflineVoice {
 		this.listening = true;
 		try {
 			this.#stream = await navigator.mediaDevices.getUserMedia({
-				audio: { channelCount: 1, echoCancellation: true, noiseSuppression: true }
+				// the model hears best the plain signal: the browser's noise suppression and gain
+				// control leave artefacts it was not trained on (push-to-talk and a close microphone
+				// are the remedy for a noisy workshop)
+				audio: {
+					channelCount: 1,
+					echoCancellation: false,
+					noiseSuppression: false,
+					autoGainControl: false
+				}
 			});
 			const ctx = new AudioContext({ sampleRate: SAMPLE_RATE });
 			this.#ctx = ctx;
@@ -181,19 +190,26 @@ export class OfflineVoice {
 
 	#begin() {
 		this.#applyGrammar();
-		this.#decoder!.start();
 		this.#inUtterance = true;
 		this.#uttMs = 0;
 		this.#quietMs = 0;
-		for (const b of this.#preroll) this.#decoder!.process_audio(b);
+		this.#utterance = this.#preroll;
 		this.#preroll = [];
 	}
 
 	#end() {
 		if (!this.#inUtterance || !this.#decoder) return;
 		this.#inUtterance = false;
-		this.#decoder.stop();
-		const words = this.#decoder.get_text().trim();
+		const blocks = this.#utterance;
+		this.#utterance = [];
+		const samples = new Float32Array(blocks.reduce((n, b) => n + b.length, 0));
+		let at = 0;
+		for (const b of blocks) {
+			samples.set(b, at);
+			at += b.length;
+		}
+		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.3 s a phrase)
+		const words = this.#grammarTools!.decodePhrase(this.#decoder, samples);
 		this.#events?.onInterim('');
 		if (words) this.#events?.onFinal(words);
 		// a grammar for a job changed while speaking
@@ -216,13 +232,9 @@ export class OfflineVoice {
 			}
 			this.#begin();
 		}
-		this.#decoder!.process_audio(block);
+		this.#utterance.push(block);
 		this.#uttMs += ms;
 		this.#quietMs = speech ? 0 : this.#quietMs + ms;
-		if (++this.#blocks % 5 === 0) {
-			const partial = this.#decoder!.get_text().trim();
-			if (partial) this.#events?.onInterim(partial);
-		}
 		if (!this.pushToTalk && (this.#quietMs >= END_SILENCE_MS || this.#uttMs >= MAX_UTTERANCE_MS)) {
 			this.#end();
 		}
