@@ -35,11 +35,10 @@ test('a service writer takes a walk-in from intake to an assigned job with two p
 	await expect(
 		page.getByRole('heading', { name: /Drive chain and sprocket renewal/ })
 	).toBeVisible();
-	await expect(page.getByLabel('Technician')).toHaveValue(/.+/);
-	await expect(page.getByLabel('Technician').locator('option:checked')).toHaveText(
-		'Ruth Adeyemi-Holt'
-	);
-	await expect(page.getByLabel('Bay')).toHaveValue('Bay 3');
+	await expect(
+		page.getByRole('combobox', { name: 'Technician' }).locator('option:checked')
+	).toHaveText('Ruth Adeyemi-Holt');
+	await expect(page.getByRole('combobox', { name: 'Bay' })).toHaveValue('Bay 3');
 	await expect(page.getByText(/Open\s+by Dev Ramanathan/)).toBeVisible();
 
 	// The new card is in the table, found by its registration.
