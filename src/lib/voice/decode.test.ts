@@ -72,7 +72,7 @@ describe('the demo jobs’ grammars', () => {
 			currentJob = job;
 			expect(g.missing, `job ${job}`).toEqual([]);
 		}
-	});
+	}, 30_000);
 });
 
 describe('spoken phrases', () => {
@@ -101,6 +101,6 @@ describe('spoken phrases', () => {
 				expect(r.verdict, heard).toBe(p.verdict);
 			}
 			row.ok = true;
-		});
+		}, 30_000);
 	}
 });
