@@ -25,6 +25,7 @@ export interface LiveEvent {
 interface Subscriber {
 	onEvent: (e: LiveEvent) => void;
 	onResync?: () => void;
+	onClose?: () => void;
 }
 
 const channel = 'log_entry';
@@ -143,15 +144,18 @@ function start() {
 /**
  * Calls `onEvent` for every log entry committed in `shopId`, from any server process.
  * `onResync` (optional) is called after the listening connection was replaced: events may have
- * been missed, so catch up from the database. Returns the function that unsubscribes.
+ * been missed, so catch up from the database. `onClose` (optional) is called when this process
+ * is asked to stop: end the stream, and the browser reconnects to another server.
+ * Returns the function that unsubscribes.
  */
 export function subscribe(
 	shopId: string,
 	onEvent: (e: LiveEvent) => void,
-	onResync?: () => void
+	onResync?: () => void,
+	onClose?: () => void
 ): () => void {
 	start();
-	const sub: Subscriber = { onEvent, onResync };
+	const sub: Subscriber = { onEvent, onResync, onClose };
 	let set = byShop.get(shopId);
 	if (!set) byShop.set(shopId, (set = new Set()));
 	set.add(sub);
@@ -166,6 +170,16 @@ export function subscribe(
 /** Whether this process is listening now (for the stream's first message and for tests). */
 export function isListening(): boolean {
 	return conn !== null;
+}
+
+// adapter-node waits for open requests before it shuts down, and a live stream never ends by
+// itself: on a stop signal, end the streams so the browsers move to another server.
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+	process.once(signal, () => {
+		for (const set of byShop.values()) for (const s of set) s.onClose?.();
+		// Alone (no server of adapter-node's listening), keep the signal's default: exit.
+		if (process.listenerCount(signal) === 0) process.kill(process.pid, signal);
+	});
 }
 
 process.on('sveltekit:shutdown', () => {

@@ -73,7 +73,8 @@ export const GET: RequestHandler = async ({ request, url }) => {
 			const unsubscribe = subscribe(
 				shopId,
 				(e) => run(async () => send(await entriesByIds(shopId, [e.id]))),
-				() => run(catchUp)
+				() => run(catchUp),
+				() => close()
 			);
 			const heartbeat = setInterval(() => write(': keep-alive\n\n'), heartbeatMs);
 			function close() {
