@@ -111,6 +111,8 @@ describe('buildGrammar', () => {
 			expect(g.jsgf).toContain(`<${rule}> =`);
 		}
 		expect(g.jsgf).toContain('<number> = <whole> [point <digit> [<digit> [<digit>]]];');
+		expect(g.jsgf).toContain('<below100> hundred [[and] <below100>]');
+		expect(g.jsgf).toContain('<one> thousand [<one> hundred]');
 		expect(g.missing).toEqual([]);
 	});
 	it('leaves out phrases with unknown words and lists those words', () => {

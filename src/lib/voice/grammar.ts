@@ -2,7 +2,7 @@
  * The offline recogniser decodes a finite-state grammar, not free speech. This builds that
  * grammar (JSGF) from the job in front of the technician: its step labels and aliases, the
  * intents the phrase engine knows (next, spec, done, undo, note, new/replaced, cancel),
- * numbers as spoken (zero to 999, "point" and decimals) and the spoken unit words of the
+ * numbers as spoken (zero to 999, "point" and decimals, and hundreds and thousands for revs) and the spoken unit words of the
  * job's kinds of quantity. Pure: the pronunciation dictionary comes in as a lookup function,
  * so the same code runs against the model's dictionary in Node and in the browser.
  */
@@ -262,7 +262,8 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		rule('parttail', keep(PART_SUFFIX)),
 		rule('noteword', noteWords),
 		'<number> = <whole> [point <digit> [<digit> [<digit>]]];',
-		'<whole> = zero | <below100> | <one> hundred [[and] <below100>];',
+		// up to 999, plus the way shops say revs: "fourteen hundred", "one thousand five hundred"
+		'<whole> = zero | <below100> | <below100> hundred [[and] <below100>] | <one> thousand [<one> hundred] [[and] <below100>];',
 		'<below100> = <one> | <teen> | <tens> [<one>];',
 		`<digit> = zero | oh | ${ONES.slice(1).join(' | ')};`,
 		`<one> = ${ONES.slice(1).join(' | ')};`,
