@@ -107,7 +107,12 @@ test('repeated failures pause sign-in for that e-mail and say so', async ({ page
 	for (let i = 0; i < 5; i++) {
 		await page.getByLabel('E-mail').fill(email);
 		await page.getByLabel('Password').fill(`wrong-${i}`);
+		// Wait for each answer: from the third failure on, answers are slowed down.
+		const answered = page.waitForResponse(
+			(r) => r.url().includes('/sign-in') && r.request().method() === 'POST'
+		);
 		await page.getByRole('button', { name: 'Sign in' }).click();
+		await answered;
 		await expect(page.getByRole('alert')).toBeVisible();
 	}
 	await page.getByLabel('E-mail').fill(email);

@@ -9,9 +9,9 @@ import type { JobState } from '$lib/jobs/states';
 import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
 import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
-import { checkPhoto } from '$lib/uploads/check';
 import { db } from './db';
 import * as s from './db/schema';
+import { storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
 
 /** How far ahead of the server's clock a device's time may be before it is clamped. */
@@ -721,27 +721,12 @@ export async function attachPhoto(
 			)
 		);
 	if (!entry) return { status: 404, message: 'No such entry on this job.' };
-	const check = checkPhoto(file.bytes);
-	if (!check.ok) return { status: 400, message: check.message };
-	const id = crypto.randomUUID();
-	const key = `${actor.shopId}/${id}.${check.extension}`;
-	await storage.put(key, file.bytes);
-	try {
-		await db.insert(s.attachment).values({
-			id,
-			shopId: actor.shopId,
-			jobId,
-			entryId,
-			fileName: (file.name || `photo.${check.extension}`).slice(0, 200),
-			mime: check.mime,
-			bytes: file.bytes.length,
-			storageKey: key,
-			uploadedBy: actor.id
-		});
-	} catch (e) {
-		await storage.remove(key).catch(() => {});
-		throw e;
-	}
+	const stored = await storePhoto(
+		{ shopId: actor.shopId, jobId, entryId, uploadedBy: actor.id },
+		file,
+		storage
+	);
+	if (!stored.ok) return { status: 400, message: stored.message };
 	return { status: 201, entry: (await readEntry(actor.shopId, entryId))! };
 }
 

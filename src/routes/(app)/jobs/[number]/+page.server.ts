@@ -12,7 +12,9 @@ import {
 	listTechnicians
 } from '$lib/server/job-cards';
 import { stateHistory, transitionFacts, transitionJob } from '$lib/server/jobs';
+import { listIntakePhotos, storePhoto } from '$lib/server/photos';
 import { listProcedures } from '$lib/server/procedures';
+import { MAX_PHOTO_BYTES } from '$lib/uploads/check';
 import type { Actions, PageServerLoad } from './$types';
 
 function jobNumber(raw: string): number {
@@ -30,12 +32,13 @@ async function cardOr404(shopId: string, raw: string) {
 export const load: PageServerLoad = async ({ params }) => {
 	const user = requireRole('service_writer', 'owner', 'foreman');
 	const card = await cardOr404(user.shopId, params.number);
-	const [history, facts, technicians, bays, procedures] = await Promise.all([
+	const [history, facts, technicians, bays, procedures, photos] = await Promise.all([
 		stateHistory(user.shopId, card.job.id),
 		transitionFacts(db, user.shopId, card.job.id),
 		listTechnicians(user.shopId),
 		listBays(user.shopId),
-		listProcedures(user.shopId)
+		listProcedures(user.shopId),
+		listIntakePhotos(user.shopId, card.job.id)
 	]);
 	const from = card.job.state;
 	return {
@@ -44,6 +47,7 @@ export const load: PageServerLoad = async ({ params }) => {
 		technicians,
 		bays,
 		procedures,
+		photos,
 		canEdit: user.role !== 'foreman',
 		actions: {
 			hold: checkTransition(from, 'on_hold', facts, 'r').ok,
@@ -54,6 +58,44 @@ export const load: PageServerLoad = async ({ params }) => {
 };
 
 export const actions = {
+	/** Intake photos: the Bench's rules (type from the bytes, at most 10 MB each). */
+	photo: async ({ request, params }) => {
+		const user = requireRole('service_writer', 'owner');
+		const card = await cardOr404(user.shopId, params.number);
+		let form: FormData;
+		try {
+			form = await request.formData();
+		} catch {
+			return fail(400, { action: 'photo', errors: formError('Choose one or more photos to add.') });
+		}
+		const files = form.getAll('photo').filter((f): f is File => f instanceof File && f.size > 0);
+		if (files.length === 0) {
+			return fail(400, { action: 'photo', errors: formError('Choose one or more photos to add.') });
+		}
+		const refused: string[] = [];
+		let added = 0;
+		for (const file of files.slice(0, 12)) {
+			if (file.size > MAX_PHOTO_BYTES) {
+				refused.push(`${file.name}: larger than 10 MB.`);
+				continue;
+			}
+			const bytes = new Uint8Array(await file.arrayBuffer());
+			const result = await storePhoto(
+				{ shopId: user.shopId, jobId: card.job.id, entryId: null, uploadedBy: user.id },
+				{ bytes, name: file.name }
+			);
+			if (result.ok) added += 1;
+			else refused.push(`${file.name}: ${result.message}`);
+		}
+		if (refused.length > 0) {
+			const kept = added > 0 ? ` ${added} photo${added === 1 ? ' was' : 's were'} added.` : '';
+			return fail(400, {
+				action: 'photo',
+				errors: formError(`Not added — ${refused.join(' ')}${kept}`)
+			});
+		}
+		return { action: 'photo', done: `${added} intake photo${added === 1 ? '' : 's'} added.` };
+	},
 	state: async ({ request, params }) => {
 		const user = requireRole('service_writer', 'owner');
 		const card = await cardOr404(user.shopId, params.number);

@@ -1,0 +1,61 @@
+// Photos of a job: on a log entry (the Bench) or taken at intake (the job card). One set of
+// rules for both: type from the bytes, at most 10 MB, stored behind the storage interface.
+import { and, asc, eq, isNull } from 'drizzle-orm';
+import { checkPhoto } from '$lib/uploads/check';
+import { db } from './db';
+import * as s from './db/schema';
+import { uploads, type FileStorage } from './storage';
+
+export type StoreResult = { ok: true; id: string } | { ok: false; message: string };
+
+/**
+ * Checks and stores one photo for a job of the shop (the caller has checked the job and the
+ * entry belong to the shop). The file is removed again if the row cannot be written.
+ */
+export async function storePhoto(
+	target: { shopId: string; jobId: string; entryId: string | null; uploadedBy: string },
+	file: { bytes: Uint8Array; name: string },
+	storage: FileStorage = uploads()
+): Promise<StoreResult> {
+	const check = checkPhoto(file.bytes);
+	if (!check.ok) return { ok: false, message: check.message };
+	const id = crypto.randomUUID();
+	const key = `${target.shopId}/${id}.${check.extension}`;
+	await storage.put(key, file.bytes);
+	try {
+		await db.insert(s.attachment).values({
+			id,
+			shopId: target.shopId,
+			jobId: target.jobId,
+			entryId: target.entryId,
+			fileName: (file.name || `photo.${check.extension}`).slice(0, 200),
+			mime: check.mime,
+			bytes: file.bytes.length,
+			storageKey: key,
+			uploadedBy: target.uploadedBy
+		});
+	} catch (e) {
+		await storage.remove(key).catch(() => {});
+		throw e;
+	}
+	return { ok: true, id };
+}
+
+/** Photos taken at intake (not on an entry), oldest first. */
+export function listIntakePhotos(shopId: string, jobId: string) {
+	return db
+		.select({
+			id: s.attachment.id,
+			fileName: s.attachment.fileName,
+			createdAt: s.attachment.createdAt
+		})
+		.from(s.attachment)
+		.where(
+			and(
+				eq(s.attachment.shopId, shopId),
+				eq(s.attachment.jobId, jobId),
+				isNull(s.attachment.entryId)
+			)
+		)
+		.orderBy(asc(s.attachment.createdAt));
+}

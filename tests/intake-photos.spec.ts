@@ -1,0 +1,52 @@
+import { expect, test } from '@playwright/test';
+import { demo, signIn } from './helpers/auth';
+
+// A 1×1 PNG: the 8-byte PNG signature, IHDR, IDAT and IEND chunks.
+const png = Buffer.from(
+	'89504e470d0a1a0a0000000d4948445200000001000000010806000000' +
+		'1f15c4890000000d49444154789c6360000002000154a24f5d0000000049454e44ae426082',
+	'hex'
+);
+// A Windows executable starts "MZ": renamed .jpg it must still be refused.
+const exe = Buffer.concat([Buffer.from('MZ'), Buffer.alloc(200, 0x90)]);
+
+test('a service writer adds intake photos to a job card; a renamed program is refused', async ({
+	page
+}) => {
+	await signIn(page, demo.writer);
+	await page.goto('/jobs/1041');
+	const input = page.getByLabel('Intake photos to add');
+
+	await input.setInputFiles({ name: 'left-side-scratch.png', mimeType: 'image/png', buffer: png });
+	await page.getByRole('button', { name: 'Add photos' }).click();
+	await expect(page.getByRole('status')).toHaveText('1 intake photo added.');
+	const img = page.getByRole('img', { name: 'Intake photo left-side-scratch.png' });
+	await expect(img).toBeVisible();
+	const src = await img.getAttribute('src');
+	const served = await page.request.get(src!);
+	expect(served.headers()['content-type']).toBe('image/png');
+	expect(Buffer.from(await served.body()).equals(png)).toBe(true);
+
+	await input.setInputFiles({ name: 'photo.jpg', mimeType: 'image/jpeg', buffer: exe });
+	await page.getByRole('button', { name: 'Add photos' }).click();
+	await expect(page.getByRole('alert')).toContainText('not a JPEG, PNG or WebP photo');
+	await expect(page.getByRole('img', { name: /Intake photo/ })).toHaveCount(1);
+});
+
+test("another shop cannot read a shop's intake photo", async ({ browser }) => {
+	const writer = await browser.newPage();
+	await signIn(writer, demo.writer);
+	await writer.goto('/jobs/1045');
+	await writer
+		.getByLabel('Intake photos to add')
+		.setInputFiles({ name: 'dent.png', mimeType: 'image/png', buffer: png });
+	await writer.getByRole('button', { name: 'Add photos' }).click();
+	const src = await writer.getByRole('img', { name: 'Intake photo dent.png' }).getAttribute('src');
+
+	const other = await browser.newPage();
+	await signIn(other, demo.otherOwner);
+	const res = await other.request.get(src!);
+	expect(res.status()).toBe(404);
+	await writer.close();
+	await other.close();
+});
