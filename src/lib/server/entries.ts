@@ -121,8 +121,10 @@ export async function getJob(shopId: string, jobId: string): Promise<BenchJob | 
 		left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
 		where j.shop_id = ${shopId} and j.id = ${jobId}
 	`);
-	const r = rows[0];
-	if (!r) return null;
+	return rows[0] ? toBenchJob(rows[0]) : null;
+}
+
+function toBenchJob(r: Record<string, unknown>): BenchJob {
 	return {
 		id: r.id as string,
 		number: r.number as number,
@@ -675,18 +677,7 @@ export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 		${mine}
 		order by (j.state = 'in_work') desc, j.number desc
 	`);
-	return rows.map((r) => ({
-		id: r.id as string,
-		number: r.number as number,
-		state: r.state as JobState,
-		technicianId: r.technician_id as string | null,
-		technicianName: r.technician_name as string | null,
-		bay: r.bay as string | null,
-		concern: r.concern as string,
-		vehicle: r.vehicle as string | null,
-		registration: r.registration as string | null,
-		customerName: r.customer_name as string | null
-	}));
+	return rows.map(toBenchJob);
 }
 
 export function isUuid(v: string): boolean {

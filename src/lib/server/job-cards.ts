@@ -3,6 +3,7 @@
 import { and, asc, desc, eq, ilike, inArray, isNull, or, sql } from 'drizzle-orm';
 import type { IntakeInput } from '$lib/schemas/job';
 import { db, type Tx } from './db';
+import { specFields } from './db/spec-fields';
 import {
 	customer,
 	job,
@@ -164,15 +165,7 @@ export async function copyProcedures(
 					jobProcedureId: jp.id,
 					procedureStepId: s.id,
 					position: ++stepPosition,
-					label: s.label,
-					aliases: s.aliases,
-					unit: s.unit,
-					nominal: s.nominal,
-					min: s.min,
-					max: s.max,
-					caution: s.caution,
-					partId: s.partId,
-					partQuantity: s.partQuantity
+					...specFields(s)
 				}))
 			);
 		}

@@ -12,6 +12,7 @@ import {
 } from '$lib/schemas/procedure';
 import { toStoredSpec } from '$lib/procedures/spec';
 import { db, type Tx } from './db';
+import { specFields } from './db/spec-fields';
 import { part, procedure, procedureStep } from './db/schema';
 
 export interface ProcedureSummary {
@@ -151,15 +152,7 @@ export async function duplicateProcedure(shopId: string, id: string): Promise<st
 					shopId,
 					procedureId: copy.id,
 					position: s.position,
-					label: s.label,
-					aliases: s.aliases,
-					unit: s.unit,
-					nominal: s.nominal,
-					min: s.min,
-					max: s.max,
-					caution: s.caution,
-					partId: s.partId,
-					partQuantity: s.partQuantity
+					...specFields(s)
 				}))
 			);
 		}
