@@ -4,9 +4,9 @@ import { streamAfterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
 import { entriesByIds, entriesSince, latestSeq } from '$lib/server/floor';
 import { subscribe } from '$lib/server/live';
+import { eventStream } from '$lib/server/sse';
 import type { RequestHandler } from './$types';
 
-const heartbeatMs = 15_000;
 const rememberIds = 5_000;
 
 /**
@@ -28,89 +28,52 @@ export const GET: RequestHandler = async ({ request, url }) => {
 		after = parsed.data;
 	}
 	const shopId = user.shopId;
-	const encoder = new TextEncoder();
-	let cleanup = () => {};
+	return eventStream((sink) => {
+		const { write, close } = sink;
+		let highSeq = 0;
+		const sent = new Set<string>();
+		let chain: Promise<void> = Promise.resolve();
 
-	const stream = new ReadableStream<Uint8Array>({
-		start(controller) {
-			let open = true;
-			let highSeq = 0;
-			const sent = new Set<string>();
-			let chain: Promise<void> = Promise.resolve();
-
-			const write = (text: string) => {
-				if (!open) return;
-				try {
-					controller.enqueue(encoder.encode(text));
-				} catch {
-					close();
-				}
-			};
-			const send = (entries: FloorEntry[]) => {
-				for (const e of entries) {
-					if (sent.has(e.id)) continue;
-					sent.add(e.id);
-					if (sent.size > rememberIds) sent.delete(sent.values().next().value as string);
-					highSeq = Math.max(highSeq, e.seq);
-					write(`id: ${highSeq}\nevent: entry\ndata: ${JSON.stringify(e)}\n\n`);
-				}
-			};
-			const run = (task: () => Promise<void>) => {
-				chain = chain.then(task).catch((err) => {
-					console.error('floor stream: a step failed', err);
-					// Let the browser reconnect and catch up rather than leave a gap.
-					close();
-				});
-			};
-			const catchUp = async () => {
-				for (;;) {
-					const batch = await entriesSince(shopId, highSeq);
-					const before = highSeq;
-					send(batch);
-					if (batch.length < 500 || highSeq === before) break;
-				}
-			};
-			const unsubscribe = subscribe(
-				shopId,
-				(e) => run(async () => send(await entriesByIds(shopId, [e.id]))),
-				() => run(catchUp),
-				() => close()
-			);
-			const heartbeat = setInterval(() => write(': keep-alive\n\n'), heartbeatMs);
-			function close() {
-				if (!open) return;
-				open = false;
-				unsubscribe();
-				clearInterval(heartbeat);
-				try {
-					controller.close();
-				} catch {
-					// already closed by the client
-				}
+		const send = (entries: FloorEntry[]) => {
+			for (const e of entries) {
+				if (sent.has(e.id)) continue;
+				sent.add(e.id);
+				if (sent.size > rememberIds) sent.delete(sent.values().next().value as string);
+				highSeq = Math.max(highSeq, e.seq);
+				write(`id: ${highSeq}\nevent: entry\ndata: ${JSON.stringify(e)}\n\n`);
 			}
-			cleanup = close;
-
-			write('retry: 2000\n\n');
-			run(async () => {
-				if (after === null) {
-					highSeq = await latestSeq(shopId);
-				} else {
-					highSeq = after;
-					await catchUp();
-				}
-				write(`event: ready\ndata: ${JSON.stringify({ seq: highSeq })}\n\n`);
+		};
+		const run = (task: () => Promise<void>) => {
+			chain = chain.then(task).catch((err) => {
+				console.error('floor stream: a step failed', err);
+				// Let the browser reconnect and catch up rather than leave a gap.
+				close();
 			});
-		},
-		cancel() {
-			cleanup();
-		}
-	});
-
-	return new Response(stream, {
-		headers: {
-			'content-type': 'text/event-stream; charset=utf-8',
-			'cache-control': 'no-cache, no-transform',
-			'x-accel-buffering': 'no'
-		}
+		};
+		const catchUp = async () => {
+			for (;;) {
+				const batch = await entriesSince(shopId, highSeq);
+				const before = highSeq;
+				send(batch);
+				if (batch.length < 500 || highSeq === before) break;
+			}
+		};
+		const unsubscribe = subscribe(
+			shopId,
+			(e) => run(async () => send(await entriesByIds(shopId, [e.id]))),
+			() => run(catchUp),
+			() => close()
+		);
+		write('retry: 2000\n\n');
+		run(async () => {
+			if (after === null) {
+				highSeq = await latestSeq(shopId);
+			} else {
+				highSeq = after;
+				await catchUp();
+			}
+			write(`event: ready\ndata: ${JSON.stringify({ seq: highSeq })}\n\n`);
+		});
+		return unsubscribe;
 	});
 };
