@@ -1,0 +1,128 @@
+/**
+ * Call-bar benchmark: the built app in Debian's Chromium, a job with 2,000 steps, 200 keystrokes
+ * typed into the call bar; prints p50/p95 of keystroke-to-preview time, measured inside the page
+ * from the keydown event to the first animation frame after the preview list changed. It prints
+ * measured figures only; nothing is asserted. Goal (issue 4): p95 ≤ 16 ms (one frame).
+ * Runs on its own scratch database (benchcall_bench_bar, made anew each run).
+ *
+ *   npm run bench:bar
+ */
+import { chromium } from '@playwright/test';
+import { spawn } from 'node:child_process';
+import postgres from 'postgres';
+import { ensureBuild } from './lib/build.js';
+import { demoPassword } from './lib/demo.js';
+import { prepareDatabase } from './lib/prepare.js';
+
+const STEPS = 2_000;
+const KEYSTROKES = 200;
+const PORT = Number(process.env.BENCH_PORT ?? 4198);
+const base = `http://127.0.0.1:${PORT}`;
+
+const url = await prepareDatabase('benchcall_bench_bar', { fresh: true });
+await ensureBuild();
+
+// 2,000 steps on job 1042: invented labels from a small vocabulary, each with a torque spec.
+const sql = postgres(url, { max: 1, onnotice: () => {} });
+const [job] = await sql`select id, shop_id from job where number = 1042
+	and shop_id = (select shop_id from "user" where email = 'tomasz@kettlestreet.test')`;
+const [jp] = await sql`insert into job_procedure (shop_id, job_id, name, position)
+	values (${job.shop_id}, ${job.id}, 'Benchmark: 2,000 steps', 9) returning id`;
+const parts = ['cover', 'bracket', 'clamp', 'housing', 'mount', 'flange', 'guard', 'stay'];
+const places = ['front', 'rear', 'left', 'right', 'upper', 'lower', 'inner', 'outer'];
+const things = ['bolt', 'nut', 'screw', 'stud'];
+const rows = Array.from({ length: STEPS }, (_, i) => ({
+	shop_id: job.shop_id,
+	job_id: job.id,
+	job_procedure_id: jp.id,
+	position: 10_000 + i,
+	label: `${places[i % 8]} ${parts[Math.floor(i / 8) % 8]} ${things[Math.floor(i / 64) % 4]} ${i}`,
+	unit: 'N.m',
+	min: 8 + (i % 40),
+	max: 10 + (i % 40)
+}));
+for (let i = 0; i < rows.length; i += 500)
+	await sql`insert into job_step ${sql(rows.slice(i, i + 500))}`;
+await sql.end();
+
+const server = spawn(process.execPath, ['build'], {
+	env: { ...process.env, DATABASE_URL: url, PORT: String(PORT), HOST: '127.0.0.1', ORIGIN: base },
+	stdio: ['ignore', 'ignore', 'inherit']
+});
+process.on('exit', () => server.kill('SIGTERM'));
+for (let i = 0; i < 100; i++) {
+	try {
+		if ((await fetch(`${base}/sign-in`)).ok) break;
+	} catch {
+		// not up yet
+	}
+	await new Promise((r) => setTimeout(r, 200));
+}
+
+const browser = await chromium.launch({
+	executablePath: process.env.BENCHCALL_CHROMIUM ?? '/usr/bin/chromium',
+	args: [
+		'--no-sandbox',
+		'--disable-gpu',
+		'--disable-quic',
+		'--no-first-run',
+		'--disable-background-networking',
+		'--disable-component-update',
+		'--disable-sync'
+	]
+});
+const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+await page.goto(`${base}/sign-in`);
+await page.getByLabel('E-mail').fill('tomasz@kettlestreet.test');
+await page.getByLabel('Password').fill(demoPassword);
+await page.getByRole('button', { name: 'Sign in' }).click();
+await page.waitForURL(/\/bench/);
+const bar = page.getByRole('combobox', { name: 'Call bar' });
+await bar.waitFor();
+
+// Inside the page: time from each keydown to the first frame after the candidate list changed.
+await page.evaluate(() => {
+	const w = window as unknown as { benchTimes: number[]; benchStart: number | null };
+	w.benchTimes = [];
+	w.benchStart = null;
+	const list = document.querySelector('[aria-label="What will be logged"]')!;
+	document.addEventListener('keydown', () => (w.benchStart = performance.now()), true);
+	new MutationObserver(() => {
+		const start = w.benchStart;
+		if (start === null) return;
+		w.benchStart = null;
+		requestAnimationFrame(() => w.benchTimes.push(performance.now() - start));
+	}).observe(list, { childList: true, subtree: true, characterData: true });
+});
+
+const phrases = [
+	'rear mount bolt 1234 12.5 nm ',
+	'lower cover screw 77 9 ',
+	'front clamp nut 300 20 nm '
+];
+let typed = 0;
+await bar.click();
+while (typed < KEYSTROKES) {
+	for (const ch of phrases[typed % phrases.length]) {
+		if (typed >= KEYSTROKES) break;
+		await page.keyboard.type(ch);
+		typed++;
+		await page.waitForTimeout(30);
+	}
+	await page.keyboard.press('Escape');
+}
+const times = (
+	await page.evaluate(() => (window as unknown as { benchTimes: number[] }).benchTimes)
+).sort((a, b) => a - b);
+await browser.close();
+server.kill('SIGTERM');
+
+const q = (p: number) => times[Math.min(times.length - 1, Math.floor(p * times.length))];
+console.log(
+	`\nCall bar, ${STEPS} steps, ${typed} keystrokes (${times.length} preview updates measured)`
+);
+console.log(
+	`  keystroke → preview   p50 ${q(0.5).toFixed(1)} ms   p95 ${q(0.95).toFixed(1)} ms   max ${times[times.length - 1].toFixed(1)} ms`
+);
+console.log('  goal: p95 ≤ 16 ms (one frame at 60 Hz)');
+process.exit(0);
