@@ -1,6 +1,7 @@
 // The shop's price list (parts, consumables, fluids). Scoped by shop id.
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
+import { isUniqueViolation } from './db/errors';
 import { part } from './db/schema';
 
 export function listParts(shopId: string, opts: { all?: boolean } = {}) {
@@ -42,8 +43,7 @@ export async function savePart(
 		}
 		return { ok: true };
 	} catch (e) {
-		const err = e as { code?: string; cause?: { code?: string } };
-		if (err.code === '23505' || err.cause?.code === '23505') {
+		if (isUniqueViolation(e)) {
 			return {
 				ok: false,
 				field: 'code',

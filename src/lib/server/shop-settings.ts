@@ -1,6 +1,7 @@
 // Shop settings and torque tools. Scoped by shop id.
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
+import { isUniqueViolation } from './db/errors';
 import { shop, torqueTool } from './db/schema';
 
 export async function updateSettings(
@@ -61,8 +62,7 @@ export async function saveTool(
 		}
 		return { ok: true };
 	} catch (e) {
-		const err = e as { code?: string; cause?: { code?: string } };
-		if (err.code === '23505' || err.cause?.code === '23505') {
+		if (isUniqueViolation(e)) {
 			return {
 				ok: false,
 				field: 'identifier',
