@@ -46,22 +46,34 @@ export function startPaymentsFake({ port = 12111, secretKey, webhookSecret, webh
 	const apiError = (res, status, message) =>
 		json(res, status, { error: { type: 'invalid_request_error', message } });
 
+	/**
+	 * Posts the signed event to the app. Like the real service, a failed delivery (no answer,
+	 * or a 5xx) is tried again, here a few times within seconds rather than over days.
+	 */
 	async function deliver(event) {
 		const payload = JSON.stringify(event, null, 2);
-		try {
-			const r = await fetch(webhookUrl, {
-				method: 'POST',
-				headers: {
-					'content-type': 'application/json',
-					'stripe-signature': signPayload(payload, webhookSecret)
-				},
-				body: payload
-			});
-			return r.status;
-		} catch (err) {
-			console.error(`[payments fake] webhook to ${webhookUrl} failed: ${err.message}`);
-			return 0;
+		let status = 0;
+		for (let attempt = 1; attempt <= 4; attempt++) {
+			try {
+				const r = await fetch(webhookUrl, {
+					method: 'POST',
+					headers: {
+						'content-type': 'application/json',
+						'stripe-signature': signPayload(payload, webhookSecret)
+					},
+					body: payload
+				});
+				status = r.status;
+				if (status < 500) return status;
+			} catch (err) {
+				const cause = err.cause?.code ?? err.cause?.message ?? '';
+				console.error(
+					`[payments fake] webhook to ${webhookUrl} failed (try ${attempt}): ${err.message} ${cause}`
+				);
+			}
+			await new Promise((r) => setTimeout(r, 250 * attempt));
 		}
+		return status;
 	}
 
 	const server = createServer(async (req, res) => {
