@@ -11,6 +11,7 @@ import { chromium } from '@playwright/test';
 import { spawn } from 'node:child_process';
 import postgres from 'postgres';
 import { ensureBuild } from './lib/build.js';
+import { chromiumArgs, chromiumPath } from './lib/chromium.js';
 import { demoPassword } from './lib/demo.js';
 import { prepareDatabase } from './lib/prepare.js';
 
@@ -60,16 +61,8 @@ for (let i = 0; i < 100; i++) {
 }
 
 const browser = await chromium.launch({
-	executablePath: process.env.BENCHCALL_CHROMIUM ?? '/usr/bin/chromium',
-	args: [
-		'--no-sandbox',
-		'--disable-gpu',
-		'--disable-quic',
-		'--no-first-run',
-		'--disable-background-networking',
-		'--disable-component-update',
-		'--disable-sync'
-	]
+	executablePath: chromiumPath,
+	args: chromiumArgs
 });
 const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
 await page.goto(`${base}/sign-in`);

@@ -3,12 +3,13 @@
 // in Debian's Chromium. Exits non-zero on any failure; ends with a one-line summary.
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
+import { chromiumPath } from './lib/chromium.js';
 import { config, root } from './lib/config.js';
 import { startedHere, stopCluster } from './lib/pg.js';
 import { ensurePackages, prepareDatabase } from './lib/prepare.js';
 import { isRoot, must, run, step } from './lib/run.js';
 
-const chromium = process.env.BENCHCALL_CHROMIUM || '/usr/bin/chromium';
+const chromium = chromiumPath;
 const reports = join(root, 'test-results', 'reports');
 const only = process.argv.slice(2); // e.g. `npm test -- e2e` runs one stage
 

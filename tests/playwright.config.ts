@@ -1,5 +1,6 @@
 import { defineConfig } from '@playwright/test';
 import { fileURLToPath } from 'node:url';
+import { chromiumArgs, chromiumPath } from '../scripts/lib/chromium.js';
 
 // Lives in tests/ to keep the top level to what the project conventions list.
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -25,16 +26,8 @@ export default defineConfig({
 		video: 'off',
 		viewport: { width: 1280, height: 800 },
 		launchOptions: {
-			executablePath: process.env.BENCHCALL_CHROMIUM ?? '/usr/bin/chromium',
-			args: [
-				'--no-sandbox',
-				'--disable-gpu',
-				'--disable-quic',
-				'--no-first-run',
-				'--disable-background-networking',
-				'--disable-component-update',
-				'--disable-sync'
-			]
+			executablePath: chromiumPath,
+			args: chromiumArgs
 		}
 	},
 	webServer: {

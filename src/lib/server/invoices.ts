@@ -136,8 +136,8 @@ async function recomputeTotals(tx: Tx, shopId: string, invoiceId: string) {
 	return t;
 }
 
-/** Locks a draft of this shop for change; null when it is not a draft (issued ones are frozen). */
-async function lockDraft(tx: Tx, shopId: string, invoiceId: string) {
+/** Locks an invoice of this shop for change (FOR UPDATE); null when the shop has no such invoice. */
+async function lockInvoice(tx: Tx, shopId: string, invoiceId: string) {
 	const [row] = await tx
 		.select()
 		.from(invoice)
@@ -309,7 +309,7 @@ export async function addManualLine(
 	}
 ): Promise<Result> {
 	return db.transaction(async (tx) => {
-		const row = await lockDraft(tx, shopId, invoiceId);
+		const row = await lockInvoice(tx, shopId, invoiceId);
 		const refused = frozen(row);
 		if (refused) return refused;
 		// A discount always takes money off, whatever sign was typed.
@@ -348,7 +348,7 @@ export async function removeLine(
 	lineId: string
 ): Promise<Result> {
 	return db.transaction(async (tx) => {
-		const refused = frozen(await lockDraft(tx, shopId, invoiceId));
+		const refused = frozen(await lockInvoice(tx, shopId, invoiceId));
 		if (refused) return refused;
 		await tx
 			.delete(invoiceLine)
@@ -372,7 +372,7 @@ export async function pickPart(
 	partId: string
 ): Promise<Result> {
 	return db.transaction(async (tx) => {
-		const row = await lockDraft(tx, shopId, invoiceId);
+		const row = await lockInvoice(tx, shopId, invoiceId);
 		const refused = frozen(row);
 		if (refused) return refused;
 		const [p] = await tx
@@ -436,7 +436,7 @@ export async function issueInvoice(
 	byUserId: string
 ): Promise<Result<{ number: number }>> {
 	return db.transaction(async (tx) => {
-		const row = await lockDraft(tx, shopId, invoiceId);
+		const row = await lockInvoice(tx, shopId, invoiceId);
 		const refused = frozen(row);
 		if (refused) return refused;
 		const lines = await tx
@@ -484,11 +484,7 @@ export async function creditInvoice(
 	reason: string
 ): Promise<Result<{ number: number; creditNoteId: string }>> {
 	return db.transaction(async (tx) => {
-		const [row] = await tx
-			.select()
-			.from(invoice)
-			.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)))
-			.for('update');
+		const row = await lockInvoice(tx, shopId, invoiceId);
 		if (!row) return { ok: false, message: 'No such invoice in this shop.', status: 404 };
 		if (row.kind !== 'invoice' || (row.status !== 'issued' && row.status !== 'paid')) {
 			return { ok: false, message: 'Only an issued invoice can be credited.' };
@@ -573,11 +569,7 @@ export async function recordPayment(
 	outer?: Tx
 ): Promise<Result<{ recorded: boolean; paid: boolean }>> {
 	const run = async (tx: Tx): Promise<Result<{ recorded: boolean; paid: boolean }>> => {
-		const [row] = await tx
-			.select()
-			.from(invoice)
-			.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)))
-			.for('update');
+		const row = await lockInvoice(tx, shopId, invoiceId);
 		if (!row) return { ok: false, message: 'No such invoice in this shop.', status: 404 };
 		if (row.kind !== 'invoice' || (row.status !== 'issued' && row.status !== 'paid')) {
 			return { ok: false, message: 'Payments are taken on an issued invoice only.' };
