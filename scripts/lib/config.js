@@ -12,6 +12,11 @@ if (existsSync(envFile)) process.loadEnvFile(envFile);
 
 const env = process.env;
 
+/**
+ * @param {string} name
+ * @param {number} fallback
+ * @returns {number}
+ */
 function port(name, fallback) {
 	const raw = env[name];
 	if (raw === undefined || raw === '') return fallback;
