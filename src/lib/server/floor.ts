@@ -18,8 +18,9 @@ export interface Actor {
 	name: string;
 }
 
-/** How far back (in seq) a catch-up re-scans, for transactions that committed late. */
-export const RESCAN_WINDOW = 200;
+import { RESCAN_WINDOW } from '$lib/floor/resume';
+
+export { RESCAN_WINDOW };
 export const PAGE_SIZE = 50;
 
 /** Job states whose out-of-spec entries still need an answer. */
