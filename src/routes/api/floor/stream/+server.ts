@@ -3,7 +3,7 @@ import type { FloorEntry } from '$lib/floor/log';
 import { encodeResume, RESCAN_WINDOW, type ResumePoint } from '$lib/floor/resume';
 import { streamAfterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
-import { entriesByIds, entriesSince, latestSeq } from '$lib/server/floor';
+import { announcedEntries, entriesSince, latestSeq } from '$lib/server/floor';
 import { subscribe } from '$lib/server/live';
 import { eventStream } from '$lib/server/sse';
 import type { RequestHandler } from './$types';
@@ -68,9 +68,20 @@ export const GET: RequestHandler = async ({ request, url }) => {
 				if (batch.length < 500 || highSeq === before) break;
 			}
 		};
+		// Entries announced while a read is in flight wait for the next one and go together, so a
+		// busy floor costs one read at a time per stream, not one per entry (which fell behind).
+		let announced: string[] = [];
 		const unsubscribe = subscribe(
 			shopId,
-			(e) => run(async () => send(await entriesByIds(shopId, [e.id]))),
+			(e) => {
+				announced.push(e.id);
+				if (announced.length > 1) return;
+				run(async () => {
+					const ids = announced;
+					announced = [];
+					send(await announcedEntries(shopId, ids));
+				});
+			},
 			() => run(catchUp),
 			() => close()
 		);
