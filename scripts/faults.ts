@@ -205,9 +205,9 @@ function typeOn(benches: Bench[], scene: () => string, gapMs: number) {
 			const s = scene();
 			const text = `note ${s} b${String(b.index + 1).padStart(2, '0')} e${String(b.typed.length + 1).padStart(3, '0')}`;
 			await bar.fill(text);
-			await top.waitFor({ state: 'visible', timeout: 10_000 });
+			await top.waitFor({ state: 'visible', timeout: 30_000 });
 			await bar.press('Enter');
-			for (let i = 0; i < 100 && (await bar.inputValue()) !== ''; i++) await sleep(20);
+			for (let i = 0; i < 500 && (await bar.inputValue()) !== ''; i++) await sleep(20);
 			if ((await bar.inputValue()) !== '')
 				throw new Error(`bench ${b.index + 1}: Enter did not take "${text}"`);
 			b.typed.push({ text, scene: s, at: Date.now() });
@@ -672,7 +672,7 @@ async function openFloor(email: string) {
 			})
 		);
 	});
-	await page.goto('/floor');
+	await page.goto('/floor', { waitUntil: 'domcontentloaded', timeout: 120_000 });
 	await page.locator('[data-testid="connection"][data-state="live"]').waitFor({ timeout: 20_000 });
 	const received = () =>
 		page.evaluate(() => (window as unknown as { __floor: FloorEvent[] }).__floor);
