@@ -349,7 +349,8 @@ export async function getInspection(shopId: string, jobId: string): Promise<Insp
 			  and not exists (select 1 from log_entry r where r.retracts = e.id)
 			order by e.seq desc limit 1
 		) tick on true
-		where i.shop_id = ${shopId} and i.active
+		-- A line the owner has since removed still shows where it was ticked on this job.
+		where i.shop_id = ${shopId} and (i.active or tick.occurred_at is not null)
 		order by i.position`);
 	return {
 		job: {
