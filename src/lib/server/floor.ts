@@ -7,6 +7,7 @@ import type { FloorEntry, LogFilter, OpenRedo, Verdict } from '$lib/floor/log';
 
 export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
+import { announceEntry } from './announce';
 import { db } from './db';
 import * as s from './db/schema';
 import { driftStepSql, entryColumns, entryJoins, logPageSql } from './floor-sql';
@@ -233,7 +234,17 @@ async function requireOpenItem(shopId: string, entryId: string): Promise<QueueIt
 }
 
 async function appendEntry(values: typeof s.logEntry.$inferInsert) {
-	const [row] = await db.insert(s.logEntry).values(values).returning({ id: s.logEntry.id });
+	const [row] = await db
+		.insert(s.logEntry)
+		.values(values)
+		.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
+	void announceEntry({
+		seq: row.seq,
+		id: row.id,
+		shopId: values.shopId,
+		jobId: values.jobId,
+		kind: values.kind
+	});
 	return row.id;
 }
 
@@ -441,7 +452,7 @@ export async function signOff(actor: Actor, jobId: string) {
 	const state = await getInspection(actor.shopId, jobId);
 	const blockers = signOffBlockers(state);
 	if (blockers.length > 0) error(409, `Cannot sign off yet. ${blockers.join(' ')}`);
-	await db.transaction(async (tx) => {
+	const entry = await db.transaction(async (tx) => {
 		const now = new Date();
 		// The condition repeats the check inside the transaction so two foremen cannot both sign.
 		const updated = await tx
@@ -450,17 +461,22 @@ export async function signOff(actor: Actor, jobId: string) {
 			.where(and(eq(s.job.id, jobId), eq(s.job.shopId, actor.shopId), isNull(s.job.signedOffAt)))
 			.returning({ id: s.job.id });
 		if (updated.length === 0) error(409, 'The job is signed off already.');
-		await tx.insert(s.logEntry).values({
-			id: crypto.randomUUID(),
-			shopId: actor.shopId,
-			jobId,
-			authorId: actor.id,
-			kind: 'sign_off',
-			rawText: 'signed off after final inspection',
-			source: 'typed',
-			occurredAt: now
-		});
+		const [row] = await tx
+			.insert(s.logEntry)
+			.values({
+				id: crypto.randomUUID(),
+				shopId: actor.shopId,
+				jobId,
+				authorId: actor.id,
+				kind: 'sign_off',
+				rawText: 'signed off after final inspection',
+				source: 'typed',
+				occurredAt: now
+			})
+			.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
+		return row;
 	});
+	void announceEntry({ ...entry, shopId: actor.shopId, jobId, kind: 'sign_off' });
 }
 
 /**
