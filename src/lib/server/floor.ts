@@ -4,6 +4,7 @@
 import { error } from '@sveltejs/kit';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import type { FloorEntry, LogFilter, OpenRedo, Verdict } from '$lib/floor/log';
+import { isUuid } from '$lib/ids';
 
 export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
@@ -55,11 +56,9 @@ function toEntry(r: Record<string, unknown>): FloorEntry {
 	};
 }
 
-const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 /** A job id from the URL, or a 404 (a malformed id names no job). */
 export function requireJobId(id: string): string {
-	if (!uuidPattern.test(id)) error(404, 'No such job in this shop.');
+	if (!isUuid(id)) error(404, 'No such job in this shop.');
 	return id;
 }
 
@@ -216,7 +215,7 @@ export async function listOutOfSpec(shopId: string, jobId?: string): Promise<Que
 }
 
 async function requireOpenItem(shopId: string, entryId: string): Promise<QueueItem> {
-	if (!uuidPattern.test(entryId)) error(404, 'No such entry in this shop.');
+	if (!isUuid(entryId)) error(404, 'No such entry in this shop.');
 	const [entry] = await db.execute(
 		sql`select id, job_id from log_entry where id = ${entryId} and shop_id = ${shopId}`
 	);
