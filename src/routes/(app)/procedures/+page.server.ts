@@ -49,14 +49,18 @@ export const actions = {
 		const user = requireRole(...editors);
 		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { action: 'archive', errors: fieldErrors(parsed.error) });
-		await procedures.setArchived(user.shopId, parsed.data.id, true);
+		if (!(await procedures.setArchived(user.shopId, parsed.data.id, true))) {
+			return fail(404, { action: 'archive', errors: formError('No such procedure.') });
+		}
 		return { action: 'archive', done: 'Archived: it is no longer offered for new jobs.' };
 	},
 	restore: async ({ request }) => {
 		const user = requireRole(...editors);
 		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { action: 'restore', errors: fieldErrors(parsed.error) });
-		await procedures.setArchived(user.shopId, parsed.data.id, false);
+		if (!(await procedures.setArchived(user.shopId, parsed.data.id, false))) {
+			return fail(404, { action: 'restore', errors: formError('No such procedure.') });
+		}
 		return { action: 'restore', done: 'Back in the library.' };
 	}
 } satisfies Actions;

@@ -38,7 +38,9 @@ export const actions = {
 		const parsed = staffRoleSchema.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { action: 'role', errors: fieldErrors(parsed.error) });
 		const result = await staff.setRole(user.shopId, parsed.data.userId, parsed.data.role);
-		if (!result.ok) return fail(400, { action: 'role', errors: formError(result.message) });
+		if (!result.ok) {
+			return fail(result.status ?? 400, { action: 'role', errors: formError(result.message) });
+		}
 		return { action: 'role', done: 'Role changed.' };
 	},
 	deactivate: async ({ request }) => {
@@ -47,7 +49,12 @@ export const actions = {
 		if (!parsed.success)
 			return fail(400, { action: 'deactivate', errors: fieldErrors(parsed.error) });
 		const result = await staff.setActive(user.shopId, parsed.data.userId, false);
-		if (!result.ok) return fail(400, { action: 'deactivate', errors: formError(result.message) });
+		if (!result.ok) {
+			return fail(result.status ?? 400, {
+				action: 'deactivate',
+				errors: formError(result.message)
+			});
+		}
 		return { action: 'deactivate', done: 'Account deactivated; its sessions have ended.' };
 	},
 	reactivate: async ({ request }) => {
@@ -56,7 +63,12 @@ export const actions = {
 		if (!parsed.success)
 			return fail(400, { action: 'reactivate', errors: fieldErrors(parsed.error) });
 		const result = await staff.setActive(user.shopId, parsed.data.userId, true);
-		if (!result.ok) return fail(400, { action: 'reactivate', errors: formError(result.message) });
+		if (!result.ok) {
+			return fail(result.status ?? 400, {
+				action: 'reactivate',
+				errors: formError(result.message)
+			});
+		}
 		return { action: 'reactivate', done: 'Account active again.' };
 	},
 	password: async ({ request }) => {
@@ -65,7 +77,9 @@ export const actions = {
 		if (!parsed.success)
 			return fail(400, { action: 'password', errors: fieldErrors(parsed.error) });
 		const result = await staff.resetPassword(user.shopId, parsed.data.userId, parsed.data.password);
-		if (!result.ok) return fail(400, { action: 'password', errors: formError(result.message) });
+		if (!result.ok) {
+			return fail(result.status ?? 400, { action: 'password', errors: formError(result.message) });
+		}
 		return { action: 'password', done: 'New password set; the account was signed out everywhere.' };
 	}
 } satisfies Actions;

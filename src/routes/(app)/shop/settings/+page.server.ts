@@ -68,8 +68,14 @@ export const actions = {
 			return fail(400, { action: 'part', key, values, errors: fieldErrors(parsed.error) });
 		}
 		const r = await savePart(user.shopId, parsed.data);
-		if (!r.ok)
-			return fail(400, { action: 'part', key, values, errors: formError(r.message, r.field) });
+		if (!r.ok) {
+			return fail(r.status ?? 400, {
+				action: 'part',
+				key,
+				values,
+				errors: formError(r.message, r.field)
+			});
+		}
 		return { action: 'part', key, done: `${parsed.data.code} saved.` };
 	},
 	tool: async ({ request }) => {
@@ -82,8 +88,14 @@ export const actions = {
 			return fail(400, { action: 'tool', key, values, errors: fieldErrors(parsed.error) });
 		}
 		const r = await saveTool(user.shopId, parsed.data);
-		if (!r.ok)
-			return fail(400, { action: 'tool', key, values, errors: formError(r.message, r.field) });
+		if (!r.ok) {
+			return fail(r.status ?? 400, {
+				action: 'tool',
+				key,
+				values,
+				errors: formError(r.message, r.field)
+			});
+		}
 		return { action: 'tool', key, done: `${parsed.data.identifier} saved.` };
 	}
 } satisfies Actions;
