@@ -9,6 +9,7 @@ import { isUuid } from '$lib/ids';
 export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
 import { db } from './db';
+import { readJson } from './request';
 import * as s from './db/schema';
 import { driftStepSql, entryColumns, entryJoins, logPageSql } from './floor-sql';
 import { listJobs, transitionJob } from './jobs';
@@ -63,12 +64,8 @@ export function requireJobId(id: string): string {
 }
 
 /** The JSON body of a request, or a 400 with a clear message. */
-export async function readJsonBody(request: Request): Promise<unknown> {
-	try {
-		return await request.json();
-	} catch {
-		error(400, 'Send a JSON body.');
-	}
+export function readJsonBody(request: Request): Promise<unknown> {
+	return readJson(request, 'Send a JSON body.');
 }
 
 /**

@@ -9,6 +9,7 @@ import {
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import { listParts } from '$lib/server/price-list';
 import * as procedures from '$lib/server/procedures';
 import type { Actions, PageServerLoad } from './$types';
@@ -34,7 +35,7 @@ export const actions = {
 	details: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
 		await procedureOr404(user.shopId, params.id);
-		const form = await request.formData();
+		const form = await readForm(request);
 		const parsed = procedureFormSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
 			return fail(400, {
@@ -50,7 +51,7 @@ export const actions = {
 	step: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
 		await procedureOr404(user.shopId, params.id);
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = stepFormSchema.safeParse(Object.fromEntries(form));
 		const stepId = values.stepId || 'new';
@@ -66,7 +67,7 @@ export const actions = {
 	deleteStep: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
 		await procedureOr404(user.shopId, params.id);
-		const parsed = stepIdSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = stepIdSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success)
 			return fail(400, { action: 'deleteStep', errors: fieldErrors(parsed.error) });
 		if (!(await procedures.deleteStep(user.shopId, params.id, parsed.data.stepId))) {
@@ -77,7 +78,7 @@ export const actions = {
 	move: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
 		await procedureOr404(user.shopId, params.id);
-		const parsed = stepMoveSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = stepMoveSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success) return fail(400, { action: 'move', errors: fieldErrors(parsed.error) });
 		await procedures.moveStep(user.shopId, params.id, parsed.data.stepId, parsed.data.direction);
 		return { action: 'move', moved: parsed.data.stepId };

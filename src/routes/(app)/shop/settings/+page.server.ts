@@ -3,6 +3,7 @@ import { parseMoney } from '$lib/money';
 import { partSchema, settingsSchema, toolSchema } from '$lib/schemas/shop';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import { listParts, savePart } from '$lib/server/price-list';
 import { getShop } from '$lib/server/shop';
 import { listTools, saveTool, updateSettings } from '$lib/server/shop-settings';
@@ -33,7 +34,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	settings: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = settingsSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
@@ -60,7 +61,7 @@ export const actions = {
 	},
 	part: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const key = values.partId || 'new';
 		const parsed = partSchema.safeParse(Object.fromEntries(form));
@@ -80,7 +81,7 @@ export const actions = {
 	},
 	tool: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const key = values.toolId || 'new';
 		const parsed = toolSchema.safeParse(Object.fromEntries(form));
