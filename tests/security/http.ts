@@ -55,7 +55,7 @@ export async function send(path: string, opts: SendOptions = {}): Promise<Answer
 	const contentType = res.headers.get('content-type') ?? '';
 	let text = '';
 	if (contentType.startsWith('text/event-stream')) await res.body?.cancel();
-	else if (textual.test(contentType)) text = await res.text();
+	else if (contentType === '' || textual.test(contentType)) text = await res.text();
 	else await res.arrayBuffer();
 	return {
 		status: res.status,
