@@ -219,3 +219,65 @@ export function leaksOf(t: Target, body: string): string[] {
 	}
 	return found;
 }
+
+/**
+ * A job of the demo shop for fuzzing, in work with no technician and no bay (the foreman
+ * writes on it), with the library's periodic service steps and one value over spec waiting in
+ * the Floor's queue. One per fuzzed route, so that what one route changes never steers another.
+ */
+export async function makeFuzzJob() {
+	const sql = db();
+	const [shop] = await sql`select id from shop where name like ${kettle.name}`;
+	const [foreman] = await sql`select id from "user" where email = 'foreman@kettlestreet.test'`;
+	const [proc] = await sql`
+		select id, name from procedure where shop_id = ${shop.id} and name like 'Periodic service%'`;
+	return sql.begin(async (tx) => {
+		await tx`select pg_advisory_xact_lock(hashtextextended(${'job-number:' + shop.id}, 0))`;
+		await tx`select pg_advisory_xact_lock(hashtext(${'floor-e2e-' + shop.id}))`;
+		const [{ n }] = await tx`
+			select greatest(coalesce(max(number), 0), ${kettle.base})::int + 1 as n
+			from job where shop_id = ${shop.id}`;
+		const [job] = await tx`
+			insert into job (shop_id, number, state, concern)
+			values (${shop.id}, ${n}, 'in_work', ${kettle.marker + ' fuzz job'}) returning id, number`;
+		const [jp] = await tx`
+			insert into job_procedure (shop_id, job_id, procedure_id, name, position)
+			values (${shop.id}, ${job.id}, ${proc.id}, ${proc.name}, 1) returning id`;
+		const steps = await tx`
+			insert into job_step (shop_id, job_id, job_procedure_id, procedure_step_id, position, label,
+				aliases, unit, nominal, min, max, caution, part_id, part_quantity)
+			select shop_id, ${job.id}, ${jp.id}, id, position, label, aliases, unit, nominal, min, max,
+				caution, part_id, part_quantity
+			from procedure_step where procedure_id = ${proc.id} order by position
+			returning id, label, aliases, unit`;
+		const axle = steps.find((s) => s.label === 'Rear axle nut')!;
+		const over = randomUUID();
+		await tx`
+			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+				value, unit, spec_value, spec_unit, verdict, occurred_at)
+			values (${over}, ${shop.id}, ${job.id}, ${axle.id}, ${foreman.id}, 'measure',
+				'rear axle 120 Nm', 'typed', 120, 'N.m', 120, 'N.m', 'high', now())`;
+		return {
+			id: job.id as string,
+			number: Number(job.number),
+			steps: steps.map((s) => ({
+				id: s.id as string,
+				label: s.label as string,
+				aliases: s.aliases as string[],
+				unit: s.unit as string | null
+			})),
+			overEntryId: over
+		};
+	});
+}
+
+/** What a failed request must leave as it was: the job's rows and state. */
+export async function jobRows(jobId: string) {
+	const [row] = await db()`
+		select j.state,
+			(select count(*)::int from log_entry e where e.job_id = j.id) as entries,
+			(select count(*)::int from job_state_change c where c.job_id = j.id) as changes,
+			(select count(*)::int from attachment a where a.job_id = j.id) as photos
+		from job j where j.id = ${jobId}`;
+	return row as { state: string; entries: number; changes: number; photos: number };
+}
