@@ -1,5 +1,6 @@
 import type { Handle, HandleServerError } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { hasNul, nulMessage } from '$lib/nul';
 import { lucia } from '$lib/server/auth';
 
 const handleAuth: Handle = async ({ event, resolve }) => {
@@ -41,10 +42,24 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(securityHeaders, handleAuth);
+/** Text with a NUL cannot be stored or searched for: an address holding one is a 400. */
+const refuseNul: Handle = ({ event, resolve }) => {
+	const { url } = event;
+	if (url.pathname.includes('%00') || [...url.searchParams].some((pair) => hasNul(pair))) {
+		return new Response(nulMessage, {
+			status: 400,
+			headers: { 'content-type': 'text/plain; charset=utf-8' }
+		});
+	}
+	return resolve(event);
+};
+
+export const handle = sequence(securityHeaders, refuseNul, handleAuth);
 
 export const handleError: HandleServerError = ({ error, status, message }) => {
-	if (status === 404) return { message };
+	// Below 500 the request was at fault (no such page, a body SvelteKit cannot take): say so in
+	// SvelteKit's words ("Unsupported Media Type", "Payload Too Large"), and log nothing.
+	if (status < 500) return { message };
 	const reference = crypto.randomUUID().slice(0, 8);
 	console.error(`[${reference}]`, error);
 	return {

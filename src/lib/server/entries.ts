@@ -7,6 +7,7 @@ import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
 import type { JobState } from '$lib/jobs/states';
 import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
+import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
 import { announceEntry } from './announce';
@@ -825,10 +826,6 @@ export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 		order by (j.state = 'in_work') desc, j.number desc
 	`);
 	return rows.map(toBenchJob);
-}
-
-export function isUuid(v: string): boolean {
-	return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v);
 }
 
 // --- photos -----------------------------------------------------------------------------------

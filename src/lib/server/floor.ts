@@ -4,11 +4,13 @@
 import { error } from '@sveltejs/kit';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import type { FloorEntry, LogFilter, OpenRedo, Verdict } from '$lib/floor/log';
+import { isUuid } from '$lib/ids';
 
 export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
 import { announceEntry } from './announce';
 import { db } from './db';
+import { readJson } from './request';
 import * as s from './db/schema';
 import { driftStepSql, entryColumns, entryJoins, logPageSql } from './floor-sql';
 import { listJobs, transitionJob } from './jobs';
@@ -56,21 +58,15 @@ function toEntry(r: Record<string, unknown>): FloorEntry {
 	};
 }
 
-const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 /** A job id from the URL, or a 404 (a malformed id names no job). */
 export function requireJobId(id: string): string {
-	if (!uuidPattern.test(id)) error(404, 'No such job in this shop.');
+	if (!isUuid(id)) error(404, 'No such job in this shop.');
 	return id;
 }
 
 /** The JSON body of a request, or a 400 with a clear message. */
-export async function readJsonBody(request: Request): Promise<unknown> {
-	try {
-		return await request.json();
-	} catch {
-		error(400, 'Send a JSON body.');
-	}
+export function readJsonBody(request: Request): Promise<unknown> {
+	return readJson(request, 'Send a JSON body.');
 }
 
 /**
@@ -217,7 +213,7 @@ export async function listOutOfSpec(shopId: string, jobId?: string): Promise<Que
 }
 
 async function requireOpenItem(shopId: string, entryId: string): Promise<QueueItem> {
-	if (!uuidPattern.test(entryId)) error(404, 'No such entry in this shop.');
+	if (!isUuid(entryId)) error(404, 'No such entry in this shop.');
 	const [entry] = await db.execute(
 		sql`select id, job_id from log_entry where id = ${entryId} and shop_id = ${shopId}`
 	);

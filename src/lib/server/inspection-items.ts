@@ -4,7 +4,8 @@ import { and, asc, eq, sql } from 'drizzle-orm';
 import { db } from './db';
 import { inspectionItem } from './db/schema';
 
-export type ItemResult = { ok: true } | { ok: false; field?: string; message: string };
+export type ItemResult =
+	{ ok: true } | { ok: false; field?: string; message: string; status?: 404 };
 
 const MAX_ITEMS = 40;
 
@@ -44,7 +45,7 @@ export async function saveInspectionItem(
 		}
 		if (input.itemId) {
 			if (!current.some((i) => i.id === input.itemId)) {
-				return { ok: false, message: 'No such checklist item in this shop.' };
+				return { ok: false, status: 404, message: 'No such checklist item in this shop.' };
 			}
 			await tx
 				.update(inspectionItem)
@@ -81,7 +82,7 @@ export async function changeInspectionItem(
 			.where(and(eq(inspectionItem.shopId, shopId), eq(inspectionItem.active, true)))
 			.orderBy(asc(inspectionItem.position), asc(inspectionItem.createdAt));
 		const at = list.findIndex((i) => i.id === itemId);
-		if (at < 0) return { ok: false, message: 'No such checklist item in this shop.' };
+		if (at < 0) return { ok: false, status: 404, message: 'No such checklist item in this shop.' };
 		if (change === 'remove') {
 			await tx
 				.update(inspectionItem)

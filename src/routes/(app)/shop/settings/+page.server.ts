@@ -14,6 +14,7 @@ import {
 	listInspectionItems,
 	saveInspectionItem
 } from '$lib/server/inspection-items';
+import { readForm } from '$lib/server/request';
 import { listParts, savePart } from '$lib/server/price-list';
 import { getShop } from '$lib/server/shop';
 import { listTools, saveTool, updateSettings } from '$lib/server/shop-settings';
@@ -46,7 +47,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	settings: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = settingsSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
@@ -73,7 +74,7 @@ export const actions = {
 	},
 	part: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const key = values.partId || 'new';
 		const parsed = partSchema.safeParse(Object.fromEntries(form));
@@ -81,13 +82,19 @@ export const actions = {
 			return fail(400, { action: 'part', key, values, errors: fieldErrors(parsed.error) });
 		}
 		const r = await savePart(user.shopId, parsed.data);
-		if (!r.ok)
-			return fail(400, { action: 'part', key, values, errors: formError(r.message, r.field) });
+		if (!r.ok) {
+			return fail(r.status ?? 400, {
+				action: 'part',
+				key,
+				values,
+				errors: formError(r.message, r.field)
+			});
+		}
 		return { action: 'part', key, done: `${parsed.data.code} saved.` };
 	},
 	tool: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const key = values.toolId || 'new';
 		const parsed = toolSchema.safeParse(Object.fromEntries(form));
@@ -95,13 +102,19 @@ export const actions = {
 			return fail(400, { action: 'tool', key, values, errors: fieldErrors(parsed.error) });
 		}
 		const r = await saveTool(user.shopId, parsed.data);
-		if (!r.ok)
-			return fail(400, { action: 'tool', key, values, errors: formError(r.message, r.field) });
+		if (!r.ok) {
+			return fail(r.status ?? 400, {
+				action: 'tool',
+				key,
+				values,
+				errors: formError(r.message, r.field)
+			});
+		}
 		return { action: 'tool', key, done: `${parsed.data.identifier} saved.` };
 	},
 	checkItem: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const key = values.itemId || 'new';
 		const parsed = inspectionItemSchema.safeParse(Object.fromEntries(form));
@@ -110,7 +123,12 @@ export const actions = {
 		}
 		const r = await saveInspectionItem(user.shopId, parsed.data);
 		if (!r.ok) {
-			return fail(400, { action: 'checkItem', key, values, errors: formError(r.message, r.field) });
+			return fail(r.status ?? 400, {
+				action: 'checkItem',
+				key,
+				values,
+				errors: formError(r.message, r.field)
+			});
 		}
 		return {
 			action: 'checkItem',
@@ -122,7 +140,7 @@ export const actions = {
 	},
 	checkItemChange: async ({ request }) => {
 		const user = requireRole('owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const parsed = inspectionItemChangeSchema.safeParse(Object.fromEntries(form));
 		const key = typeof form.get('itemId') === 'string' ? String(form.get('itemId')) : 'new';
 		if (!parsed.success) {
@@ -133,7 +151,9 @@ export const actions = {
 			});
 		}
 		const r = await changeInspectionItem(user.shopId, parsed.data.itemId, parsed.data.change);
-		if (!r.ok) return fail(400, { action: 'checkItem', key, errors: formError(r.message) });
+		if (!r.ok) {
+			return fail(r.status ?? 400, { action: 'checkItem', key, errors: formError(r.message) });
+		}
 		return {
 			action: 'checkItem',
 			key,
