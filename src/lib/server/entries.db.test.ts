@@ -231,6 +231,17 @@ describe('the steps kept in memory between appends', () => {
 		);
 	});
 
+	it('follows a reassignment: the former technician is refused, the new one may log', async () => {
+		const f = await makeShop('Bench');
+		const next = await addUser(f, 'technician', 'Next tech');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm'))).status).toBe(201);
+		await db.update(s.job).set({ technicianId: next.id }).where(eq(s.job.id, f.job.id));
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm'))).status).toBe(403);
+		expect((await appendEntry(as(next), f.job.id, post('rear axle 90 nm'))).status).toBe(201);
+		expect(await rowsOf(f)).toHaveLength(3);
+	});
+
 	it('reads a step added to the job, and the shop tolerance as it is now', async () => {
 		const f = await makeShop('Bench');
 		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);

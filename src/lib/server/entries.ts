@@ -480,6 +480,9 @@ async function appendContext(shopId: string, jobId: string) {
 	};
 }
 
+/** The shop's tolerance as last read by this process, for appendToKnownJob (which checks it). */
+const knownTolerance = new Map<string, number>();
+
 /**
  * Appends one entry, reading the text again with the phrase engine (its verdict is the one
  * stored). Idempotent by the device-made id: a repeat answers 200 with the stored entry.
@@ -490,8 +493,11 @@ export async function appendEntry(
 	input: AppendInput,
 	now = new Date()
 ): Promise<AppendResult> {
+	const quick = await appendToKnownJob(actor, jobId, input, now);
+	if (quick) return quick;
 	const ctx = await appendContext(actor.shopId, jobId);
 	if (!ctx) return { status: 404, message: NOT_FOUND };
+	knownTolerance.set(actor.shopId, ctx.pct);
 	if (!mayWrite(actor, ctx.job)) {
 		return {
 			status: 403,
@@ -510,6 +516,172 @@ export async function appendEntry(
 	return result;
 }
 
+/**
+ * The common case in one statement. When this process has read the job before, its steps and
+ * the shop's tolerance are at hand: the phrase is read against them, and the insert writes only
+ * if the job (of this shop) still has that steps version and tolerance and the actor may write
+ * on it. Null when this is not that case or the insert wrote nothing (a changed job, a repeated
+ * id, another shop's job): appendEntry then decides everything from the database as it is now.
+ */
+async function appendToKnownJob(
+	actor: Actor,
+	jobId: string,
+	input: AppendInput,
+	now: Date
+): Promise<AppendResult | null> {
+	const pct = knownTolerance.get(actor.shopId);
+	const cached = stepSets.get(`${actor.shopId}/${jobId}`);
+	if (pct === undefined || !cached || input.retracts || input.torqueToolId) return null;
+	if (actor.role !== 'technician' && actor.role !== 'foreman' && actor.role !== 'owner')
+		return null;
+	let set: StepSet;
+	try {
+		set = await cached.set;
+	} catch {
+		return null;
+	}
+	const read = readPhrase(set.specs, pct, input, now);
+	if (!read || !isLogged(read.parsed.intent)) return null;
+	const step = stepOf(set.steps, read.parsed);
+	if (refusal(read.parsed, step)) return null;
+	const entry = newEntry(actor, jobId, input, read, step, null, now);
+	const anyJob = actor.role !== 'technician';
+	const [row] = await client`
+		with j as (
+			select j.state from job j join shop sh on sh.id = j.shop_id
+			where j.shop_id = ${actor.shopId} and j.id = ${jobId} and j.steps_version = ${set.version}
+				and sh.default_tolerance_pct = ${pct} and (${anyJob} or j.technician_id = ${actor.id})
+		), e as (
+			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+				value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
+				tool_calibration_overdue, occurred_at)
+			select ${entry.id}::uuid, ${entry.shopId}::uuid, ${entry.jobId}::uuid,
+				${entry.jobStepId}::uuid, ${entry.authorId}::uuid, ${entry.kind}::entry_kind,
+				${entry.rawText}::text, ${entry.source}::entry_source, ${entry.value}::float8,
+				${entry.unit}::text, ${entry.specValue}::float8, ${entry.specUnit}::text,
+				${entry.verdict}::verdict, ${entry.note}::text, ${entry.torqueToolId}::uuid,
+				${entry.overdue}::boolean, ${entry.occurredAt}::timestamptz
+			from j
+			on conflict (id) do nothing
+			returning *
+		)
+		${readBack}, (select state from j) as job_state ${readBackFrom}`;
+	if (!row) return null;
+	return stored(actor, jobId, row, row.job_state as JobState);
+}
+
+/** Intents that write an entry of their own kind. */
+function isLogged(intent: ParsedPhrase['intent']): intent is NewEntry['kind'] {
+	return intent === 'measure' || intent === 'part' || intent === 'note' || intent === 'done';
+}
+
+/** The phrase read against the job's steps; null when the picked step is not on the job. */
+function readPhrase(specs: StepSpec[], pct: number, input: AppendInput, now: Date) {
+	const deviceTime = input.occurredAt ? clampTime(new Date(input.occurredAt), now) : now;
+	let parsed = parsePhrase(input.text, { steps: specs, now: deviceTime, tolerancePct: pct });
+	if (input.stepId) {
+		const picked = specs.find((st) => st.id === input.stepId);
+		if (!picked) return null;
+		parsed = withStep(parsed, picked, pct);
+	}
+	return { parsed, deviceTime };
+}
+
+function stepOf<T extends { id: string }>(steps: T[], parsed: ParsedPhrase): T | null {
+	return parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
+}
+
+interface NewEntry {
+	id: string;
+	shopId: string;
+	jobId: string;
+	jobStepId: string | null;
+	authorId: string;
+	kind: 'measure' | 'part' | 'note' | 'done';
+	rawText: string;
+	source: AppendInput['source'];
+	value: number | null;
+	unit: string | null;
+	specValue: number | null;
+	specUnit: string | null;
+	verdict: Verdict | null;
+	note: string | null;
+	torqueToolId: string | null;
+	overdue: boolean;
+	/** ISO 8601 (drizzle's client passes timestamps through as text). */
+	occurredAt: string;
+}
+
+function newEntry(
+	actor: Actor,
+	jobId: string,
+	input: AppendInput,
+	read: { parsed: ParsedPhrase; deviceTime: Date },
+	step: StepDefinition | null,
+	tool: { id: string; overdue: boolean } | null,
+	now: Date
+): NewEntry {
+	const { parsed } = read;
+	const measured = parsed.intent === 'measure';
+	const occurredAt = parsed.occurredAt
+		? clampTime(new Date(parsed.occurredAt), now)
+		: clampTime(read.deviceTime, now);
+	return {
+		id: input.id,
+		shopId: actor.shopId,
+		jobId,
+		jobStepId: step?.id ?? null,
+		authorId: actor.id,
+		kind: parsed.intent as NewEntry['kind'],
+		rawText: input.text,
+		source: input.source,
+		value: measured ? (parsed.quantity?.value ?? null) : null,
+		unit: measured ? (parsed.quantity?.unit ?? null) : null,
+		specValue: measured ? (parsed.specValue?.value ?? null) : null,
+		specUnit: measured ? (parsed.specValue?.unit ?? null) : null,
+		verdict: measured ? parsed.verdict : null,
+		note: parsed.note,
+		torqueToolId: tool?.id ?? null,
+		overdue: tool?.overdue ?? false,
+		occurredAt: occurredAt.toISOString()
+	};
+}
+
+// The stored row read back, in the same statement as the insert (CTE `e`), in the shape every
+// reader gets (entrySelect). A new entry has no retraction and no photo yet (both would point
+// at it by a foreign key), so those are constants here.
+const readBack = client`
+	select e.id, e.seq, e.job_id, e.job_step_id, st.label as step_label, e.author_id,
+		a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value,
+		e.spec_unit, st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal, e.verdict,
+		e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
+		e.retracts, e.occurred_at, e.recorded_at, null as retracted_by_id,
+		null as retracted_by_name, null as retracted_at, '[]'::json as photos`;
+const readBackFrom = client`
+	from e
+	join "user" a on a.id = e.author_id
+	left join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
+	left join torque_tool tt on tt.id = e.torque_tool_id and tt.shop_id = e.shop_id`;
+
+/** A stored entry: announced to the live hub, and the job put in work if it was open. */
+async function stored(
+	actor: Actor,
+	jobId: string,
+	row: Record<string, unknown>,
+	state: JobState
+): Promise<AppendResult> {
+	const entry = toEntry(row);
+	void announceEntry({
+		seq: entry.seq,
+		id: entry.id,
+		shopId: actor.shopId,
+		jobId,
+		kind: entry.kind
+	});
+	if (state === 'open') await startWork(actor, jobId);
+	return { status: 201, entry };
+}
+
 async function appendChecked(
 	actor: Actor,
 	ctx: NonNullable<Awaited<ReturnType<typeof appendContext>>>,
@@ -519,75 +691,49 @@ async function appendChecked(
 	const { job, pct } = ctx;
 	const jobId = job.id;
 	const { steps, specs } = await jobStepDefinitions(actor.shopId, jobId, ctx.stepsVersion);
-	const deviceTime = input.occurredAt ? clampTime(new Date(input.occurredAt), now) : now;
-	let parsed = parsePhrase(input.text, { steps: specs, now: deviceTime, tolerancePct: pct });
-	if (input.stepId) {
-		const picked = specs.find((st) => st.id === input.stepId);
-		if (!picked) return { status: 422, message: 'That step is not on this job.' };
-		parsed = withStep(parsed, picked, pct);
-	}
+	const read = readPhrase(specs, pct, input, now);
+	if (!read) return { status: 422, message: 'That step is not on this job.' };
+	const { parsed, deviceTime } = read;
 
 	if (parsed.intent === 'next' || parsed.intent === 'spec') {
 		// These log nothing and show the steps' done state, so read the steps as they are now.
 		const live = await listSteps(actor.shopId, jobId);
-		const liveSpecs = toStepSpecs(live);
-		let again = parsePhrase(input.text, { steps: liveSpecs, now: deviceTime, tolerancePct: pct });
-		const picked = input.stepId ? liveSpecs.find((st) => st.id === input.stepId) : undefined;
-		if (picked) again = withStep(again, picked, pct);
-		return answer(again, live);
+		const again = readPhrase(toStepSpecs(live), pct, input, now);
+		return again
+			? answer(again.parsed, live)
+			: { status: 422, message: 'That step is not on this job.' };
 	}
 	if (parsed.intent === 'undo' || input.retracts) {
 		return retract(actor, job, input, deviceTime);
 	}
 
-	const step = parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
+	const step = stepOf(steps, parsed);
 	const refused = refusal(parsed, step);
 	if (refused) return { status: 422, message: refused };
 
-	const occurredAt = parsed.occurredAt
-		? clampTime(new Date(parsed.occurredAt), now)
-		: clampTime(deviceTime, now);
-	let torqueToolId: string | null = null;
-	let overdue = false;
+	let tool: { id: string; overdue: boolean } | null = null;
 	const isTorque = step?.unit ? dimensionOf(step.unit) === 'torque' : false;
 	if (input.torqueToolId && isTorque && parsed.intent === 'measure') {
-		const tool = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
-		if (!tool) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
-		torqueToolId = tool.id;
-		overdue = tool.state === 'overdue';
+		const found = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
+		if (!found) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
+		tool = { id: found.id, overdue: found.state === 'overdue' };
 	}
 
-	const measured = parsed.intent === 'measure';
-	const kind = parsed.intent as 'measure' | 'part' | 'note' | 'done';
-	// One round trip, prepared: the insert, and the stored row read back in the shape every
-	// reader gets (entrySelect). A new entry has no retraction and no photo yet (both point at
-	// it by a foreign key), so those are written as constants here.
+	const entry = newEntry(actor, jobId, input, read, step, tool, now);
+	// One round trip, prepared (postgres.js keeps it per connection): the insert, and the row.
 	const [row] = await client`
 		with e as (
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
 				value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
 				tool_calibration_overdue, occurred_at)
-			values (${input.id}, ${actor.shopId}, ${jobId}, ${step?.id ?? null}, ${actor.id}, ${kind},
-				${input.text}, ${input.source},
-				${measured ? (parsed.quantity?.value ?? null) : null},
-				${measured ? (parsed.quantity?.unit ?? null) : null},
-				${measured ? (parsed.specValue?.value ?? null) : null},
-				${measured ? (parsed.specValue?.unit ?? null) : null},
-				${measured ? parsed.verdict : null}, ${parsed.note}, ${torqueToolId}, ${overdue},
-				${occurredAt.toISOString()})
+			values (${entry.id}, ${entry.shopId}, ${entry.jobId}, ${entry.jobStepId}, ${entry.authorId},
+				${entry.kind}, ${entry.rawText}, ${entry.source}, ${entry.value}, ${entry.unit},
+				${entry.specValue}, ${entry.specUnit}, ${entry.verdict}, ${entry.note},
+				${entry.torqueToolId}, ${entry.overdue}, ${entry.occurredAt})
 			on conflict (id) do nothing
 			returning *
 		)
-		select e.id, e.seq, e.job_id, e.job_step_id, st.label as step_label, e.author_id,
-			a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value,
-			e.spec_unit, st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal, e.verdict,
-			e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
-			e.retracts, e.occurred_at, e.recorded_at, null as retracted_by_id,
-			null as retracted_by_name, null as retracted_at, '[]'::json as photos
-		from e
-		join "user" a on a.id = e.author_id
-		left join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
-		left join torque_tool tt on tt.id = e.torque_tool_id and tt.shop_id = e.shop_id`;
+		${readBack} ${readBackFrom}`;
 	if (!row) {
 		return (
 			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
@@ -596,16 +742,7 @@ async function appendChecked(
 			}
 		);
 	}
-	const entry = toEntry(row);
-	void announceEntry({
-		seq: entry.seq,
-		id: entry.id,
-		shopId: actor.shopId,
-		jobId,
-		kind: entry.kind
-	});
-	if (job.state === 'open') await startWork(actor, jobId);
-	return { status: 201, entry };
+	return stored(actor, jobId, row, job.state);
 }
 
 /** The answer to "next" or "spec …": the step with its spec and caution; nothing is written. */
