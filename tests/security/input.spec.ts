@@ -107,9 +107,17 @@ interface FuzzTarget {
 	on200?: number;
 	/** Bodies to try (default 100; fewer for routes that read none). */
 	runs?: number;
+	/** Bodies always tried besides the generated ones: the awkward cases known to matter. */
+	examples?: (job: FuzzJob) => Body[];
 }
 
+/** Text PostgreSQL cannot store (NUL), a lone surrogate, a hidden direction change. */
+const awkward = ['a\u0000b', '\u0000', '\ud800', 'x\u202ey'];
+
 const uuidish = fc.oneof(fc.uuid(), fc.string({ maxLength: 40 }), fc.integer(), fc.constant(null));
+const recent = fc
+	.integer({ min: 0, max: 7 * 24 * 3600 })
+	.map((s) => new Date(Date.now() - s * 1000).toISOString());
 const isoish = fc.oneof(
 	fc.date({ noInvalidDate: true }).map((d) => d.toISOString()),
 	fc.constantFrom(
@@ -140,26 +148,46 @@ const targets: Record<string, FuzzTarget | 'uploads'> = {
 							)
 						}),
 						loose({
-							occurredAt: isoish,
-							torqueToolId: uuidish,
-							stepId: fc.oneof(fc.constantFrom(...j.steps.map((s) => s.id)), uuidish),
+							occurredAt: fc.oneof({ weight: 3, arbitrary: recent }, isoish),
+							torqueToolId: fc.oneof({ weight: 3, arbitrary: fc.constant(null) }, uuidish),
+							stepId: fc.oneof(
+								{ weight: 3, arbitrary: fc.constantFrom(...j.steps.map((s) => s.id)) },
+								uuidish
+							),
 							retracts: fc.oneof(fc.constant(j.overEntryId), uuidish)
 						})
 					)
 					.map(([envelope, extra]) => ({ ...envelope, ...extra }))
-			)
+			),
+		examples: (j) => [
+			...awkward.map((w): Body => ({
+				json: { id: randomUUID(), text: `note ${w}`, source: 'typed' }
+			})),
+			{
+				json: {
+					id: randomUUID(),
+					text: 'rear axle 80 Nm',
+					source: 'typed',
+					occurredAt: '0001-01-01T00:00:00Z'
+				}
+			},
+			{ json: { id: randomUUID(), text: 'done test ride', source: 'voice', stepId: j.steps[0].id } }
+		]
 	},
 	'POST /api/jobs/[jobId]/final-inspection': {
 		path: (j) => `/api/jobs/${j.id}/final-inspection`,
-		body: () => bodies(loose({ reason: fc.oneof(anyText, fc.anything()) }))
+		body: () => bodies(loose({ reason: fc.oneof(anyText, fc.anything()) })),
+		examples: () => awkward.map((w): Body => ({ json: { reason: `waiting ${w}` } }))
 	},
 	'POST /api/floor/entries/[entryId]/accept': {
 		path: (j) => `/api/floor/entries/${j.overEntryId}/accept`,
-		body: () => bodies(loose({ reason: fc.oneof(anyText, fc.anything()) }))
+		body: () => bodies(loose({ reason: fc.oneof(anyText, fc.anything()) })),
+		examples: () => awkward.map((w): Body => ({ json: { reason: `fine as it is ${w}` } }))
 	},
 	'POST /api/floor/entries/[entryId]/redo': {
 		path: (j) => `/api/floor/entries/${j.overEntryId}/redo`,
-		body: () => bodies(loose({ note: fc.oneof(anyText, fc.anything()) }))
+		body: () => bodies(loose({ note: fc.oneof(anyText, fc.anything()) })),
+		examples: () => awkward.map((w): Body => ({ json: { note: `torque it again ${w}` } }))
 	},
 	'POST /api/floor/jobs/[jobId]/inspection': {
 		path: (j) => `/api/floor/jobs/${j.id}/inspection`,
@@ -170,7 +198,11 @@ const targets: Record<string, FuzzTarget | 'uploads'> = {
 					ticked: fc.oneof(fc.boolean(), fc.anything())
 				})
 			),
-		on200: 1
+		on200: 1,
+		examples: () => [
+			{ json: { itemId: activeItems[0], ticked: '\u0000' } },
+			{ json: { ['\u0000']: 1 } }
+		]
 	},
 	// These two read no body: whatever is sent, the answer is about the job's state.
 	'POST /api/floor/jobs/[jobId]/ready': {
@@ -254,7 +286,7 @@ for (const [key, target] of Object.entries(targets)) {
 					expect(after.entries - before.entries).toBeLessThanOrEqual(target.on200 ?? 0);
 				}
 			}),
-			{ numRuns: runs }
+			{ numRuns: runs, examples: (target.examples?.(job) ?? []).map((b) => [b]) }
 		);
 		console.log(`${key}: ${runs} bodies, answers ${JSON.stringify(Object.fromEntries(seen))}`);
 	});
@@ -284,7 +316,8 @@ test('fuzz the phrase text through POST /api/jobs/[jobId]/entries: only a 201 st
 			}
 			expect(after.entries).toBe(before.entries + 1);
 			// A whole entry: what was said, who, and for a measurement its value, unit and verdict.
-			expect(row.raw_text).toBe(text.trim());
+			// A lone surrogate cannot be UTF-8: it is kept as U+FFFD, as any UTF-8 store keeps it.
+			expect(row.raw_text).toBe(text.trim().toWellFormed());
 			expect(row.source).toBe(source);
 			expect(['measure', 'done', 'part', 'note', 'retraction']).toContain(row.kind);
 			if (row.kind === 'measure') {
@@ -295,7 +328,15 @@ test('fuzz the phrase text through POST /api/jobs/[jobId]/entries: only a 201 st
 			}
 			if (row.kind === 'retraction') expect(row.retracts).toBeTruthy();
 		}),
-		{ numRuns: 150 }
+		{
+			numRuns: 150,
+			examples: [
+				...awkward.map((w) => [`note ${w}`, 'typed'] as [string, string]),
+				['rear axle 80\u0000 Nm', 'voice'],
+				['rear axle 1e309 Nm', 'typed'],
+				['rear axle 80 Nm at 25:99', 'typed']
+			]
+		}
 	);
 	console.log(`phrase text: 150 phrases, answers ${JSON.stringify(Object.fromEntries(seen))}`);
 });
@@ -348,7 +389,8 @@ test('fuzz the query strings the app reads: never a 500, never a redirect off th
 					if (a.location) expect(a.location, url).toMatch(/^\/(?![/\\])/);
 				}
 			),
-			{ numRuns: 15 }
+			// Besides the generated ones: a NUL in each parameter the route reads.
+			{ numRuns: 10, examples: names.map((n) => [{ [n]: '\u0000' }]) }
 		);
 	}
 });
