@@ -2,6 +2,14 @@ import type { Handle, HandleServerError } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { hasNul, nulMessage } from '$lib/nul';
 import { lucia } from '$lib/server/auth';
+import { isDatabaseUnavailable } from '$lib/server/db/errors';
+
+/** Seconds a client is asked to wait (Retry-After) while the database is away. */
+const retryAfterSeconds = 3;
+const unavailableMessage =
+	'The database is not answering for a moment (it may be restarting). Nothing was half-saved: try again in a few seconds.';
+/** Requests that failed because the database was away: handleError marks them, `handle` answers 503. */
+const databaseAway = new WeakSet<Request>();
 
 const handleAuth: Handle = async ({ event, resolve }) => {
 	const sessionId = event.cookies.get(lucia.sessionCookieName);
@@ -54,12 +62,69 @@ const refuseNul: Handle = ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle = sequence(securityHeaders, refuseNul, handleAuth);
+/**
+ * While PostgreSQL restarts or is stopped, every request that needs it fails. That is not a bug in
+ * the request: answer 503 with Retry-After (not 500), so the Bench's outbox, a browser or a script
+ * tries again, and the app needs no restart when the database is back (the pool reconnects).
+ */
+const databaseAvailability: Handle = async ({ event, resolve }) => {
+	let response: Response;
+	try {
+		response = await resolve(event);
+	} catch (err) {
+		// Thrown before any route ran (the session check): SvelteKit would answer a bare 500.
+		if (!isDatabaseUnavailable(err)) throw err;
+		logUnavailable(err);
+		return unavailable(event.request, event.url, event.isDataRequest);
+	}
+	if (response.status >= 500 && databaseAway.has(event.request)) {
+		// A load, action or endpoint failed on the database: keep SvelteKit's error body.
+		const headers = new Headers(response.headers);
+		headers.set('retry-after', String(retryAfterSeconds));
+		headers.set('cache-control', 'no-store');
+		return new Response(response.body, { status: 503, headers });
+	}
+	return response;
+};
 
-export const handleError: HandleServerError = ({ error, status, message }) => {
+function unavailable(request: Request, url: URL, isDataRequest: boolean): Response {
+	const headers = { 'retry-after': String(retryAfterSeconds), 'cache-control': 'no-store' };
+	const accept = request.headers.get('accept') ?? '';
+	const wantsJson =
+		isDataRequest ||
+		url.pathname.startsWith('/api/') ||
+		(accept.includes('application/json') && !accept.includes('text/html'));
+	if (wantsJson) {
+		return new Response(JSON.stringify({ message: unavailableMessage }), {
+			status: 503,
+			headers: { ...headers, 'content-type': 'application/json' }
+		});
+	}
+	// The words of the error page (src/routes/+error.svelte), which cannot render without a route.
+	const page = `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>Briefly unavailable · Benchcall</title></head><body style="font-family: system-ui, sans-serif; max-width: 36rem; margin: 4rem auto; padding: 0 1rem; line-height: 1.5"><p style="color: #666">Error 503</p><h1>Briefly unavailable</h1><p>${unavailableMessage}</p><p><a href="${url.pathname}">Try again</a></p></body></html>`;
+	return new Response(page, {
+		status: 503,
+		headers: { ...headers, 'content-type': 'text/html; charset=utf-8' }
+	});
+}
+
+/** One line, not a stack trace per request, while the database is away. */
+function logUnavailable(err: unknown) {
+	const e = err as { code?: string; cause?: { code?: string } };
+	console.error(`database unavailable (${e.cause?.code ?? e.code ?? 'no code'}): answered 503`);
+}
+
+export const handle = sequence(securityHeaders, refuseNul, databaseAvailability, handleAuth);
+
+export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	// Below 500 the request was at fault (no such page, a body SvelteKit cannot take): say so in
 	// SvelteKit's words ("Unsupported Media Type", "Payload Too Large"), and log nothing.
 	if (status < 500) return { message };
+	if (isDatabaseUnavailable(error)) {
+		databaseAway.add(event.request);
+		logUnavailable(error);
+		return { message: unavailableMessage };
+	}
 	const reference = crypto.randomUUID().slice(0, 8);
 	console.error(`[${reference}]`, error);
 	return {

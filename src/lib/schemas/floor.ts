@@ -1,5 +1,6 @@
 // Payloads and query strings of the Floor (issue 7).
 import { z } from 'zod';
+import { decodeResume } from '$lib/floor/resume';
 
 const uuid = z.uuid({ message: 'That is not a valid id.' });
 
@@ -22,8 +23,15 @@ export const logPageSchema = logFilterSchema.extend({
 	before: z.coerce.number().int().positive().optional()
 });
 
-/** Where a live stream resumes: the last seq the browser saw. */
-export const streamAfterSchema = z.coerce.number().int().min(0).max(Number.MAX_SAFE_INTEGER);
+/** Where a live stream resumes: the last event id the browser saw (a seq, or `seq.mark`). */
+export const streamAfterSchema = z.string().transform((raw, ctx) => {
+	const point = decodeResume(raw);
+	if (!point) {
+		ctx.addIssue({ code: 'custom', message: 'after must be the last event id seen.' });
+		return z.NEVER;
+	}
+	return point;
+});
 
 export const acceptSchema = z.object({
 	reason: z

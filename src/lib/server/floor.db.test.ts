@@ -5,6 +5,7 @@ import { logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import {
 	acceptEntry,
+	announcedEntries,
 	getInspection,
 	listLog,
 	listOpenRedos,
@@ -145,6 +146,23 @@ describe('running log', () => {
 		const since = await entriesSince(f.shop.id, b.seq);
 		// `a` sits below the resume point yet is returned: the browser drops ids it holds.
 		expect(since.map((e) => e.id)).toEqual([a.id, b.id]);
+	});
+
+	it("live streams share reads of announced entries, in seq order, never another shop's", async () => {
+		const f = await withForeman(await makeShop('Announced'));
+		const other = await makeShop('Announced other');
+		const a = await logMeasurement(f, 81, 'in');
+		const b = await logMeasurement(f, 99, 'high');
+		const theirs = await logMeasurement(other, 85, 'in');
+		// five streams asking at once, as five foremen's would
+		const reads = await Promise.all(
+			Array.from({ length: 5 }, () => announcedEntries(f.shop.id, [b.id, a.id, theirs.id]))
+		);
+		for (const r of reads) expect(r.map((e) => e.id)).toEqual([a.id, b.id]);
+		expect(await announcedEntries(other.shop.id, [a.id])).toEqual([]);
+		expect((await announcedEntries(other.shop.id, [theirs.id])).map((e) => e.id)).toEqual([
+			theirs.id
+		]);
 	});
 });
 

@@ -21,8 +21,9 @@ export interface Actor {
 	name: string;
 }
 
-/** How far back (in seq) a catch-up re-scans, for transactions that committed late. */
-export const RESCAN_WINDOW = 200;
+import { RESCAN_WINDOW } from '$lib/floor/resume';
+
+export { RESCAN_WINDOW };
 export const PAGE_SIZE = 50;
 
 /** Job states whose out-of-spec entries still need an answer. */
@@ -120,6 +121,33 @@ export async function entriesByIds(shopId: string, ids: string[]): Promise<Floor
 		order by e.seq asc
 	`);
 	return rows.map(toEntry);
+}
+
+// Every Floor stream of a shop reads each announced entry: five foremen, five reads of the same
+// row within milliseconds. Reads in flight (and for a moment after) are shared, keyed by id.
+const sharedReads = new Map<string, Promise<FloorEntry | null>>();
+const keepReadMs = 2_000;
+
+/** entriesByIds for the live streams: one query for the ids nobody in this process is reading. */
+export async function announcedEntries(shopId: string, ids: string[]): Promise<FloorEntry[]> {
+	const missing = ids.filter((id) => !sharedReads.has(`${shopId}:${id}`));
+	if (missing.length > 0) {
+		const read = entriesByIds(shopId, missing);
+		for (const id of missing) {
+			const key = `${shopId}:${id}`;
+			const one = read.then((rows) => rows.find((r) => r.id === id) ?? null);
+			sharedReads.set(key, one);
+			// a failed read is not kept: the next stream asks again
+			void one.then(
+				() => setTimeout(() => sharedReads.delete(key), keepReadMs).unref?.(),
+				() => sharedReads.delete(key)
+			);
+		}
+	}
+	const rows = await Promise.all(ids.map((id) => sharedReads.get(`${shopId}:${id}`)));
+	return rows
+		.filter((r): r is FloorEntry => r !== null && r !== undefined)
+		.sort((a, b) => a.seq - b.seq);
 }
 
 /** Bays and technicians for the log's filters. */

@@ -13,7 +13,11 @@ if (!url && !building) {
 export const client = postgres(url ?? 'postgres://127.0.0.1/unset', {
 	max: Number(env.DATABASE_POOL_SIZE ?? 10),
 	onnotice: () => {},
-	connection: { application_name: 'benchcall' }
+	connection: { application_name: 'benchcall' },
+	// Seconds before a lost connection is tried again. postgres.js's default grows to 20 s after
+	// a few failed tries (the count is shared by the pool), so after a short restart of the
+	// database some requests waited that long; the database is local: retry within 2 s.
+	backoff: (retries: number) => Math.min(0.1 * 2 ** retries, 2)
 });
 
 export const db = drizzle(client, { schema });

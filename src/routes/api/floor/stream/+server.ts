@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
 import type { FloorEntry } from '$lib/floor/log';
+import { encodeResume, RESCAN_WINDOW, type ResumePoint } from '$lib/floor/resume';
 import { streamAfterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
-import { entriesByIds, entriesSince, latestSeq } from '$lib/server/floor';
+import { announcedEntries, entriesSince, latestSeq } from '$lib/server/floor';
 import { subscribe } from '$lib/server/live';
 import { eventStream } from '$lib/server/sse';
 import type { RequestHandler } from './$types';
@@ -10,20 +11,21 @@ import type { RequestHandler } from './$types';
 const rememberIds = 5_000;
 
 /**
- * The running log, live (Server-Sent Events). Each event's `id:` is the highest seq sent so
- * far, so the browser's automatic reconnect (Last-Event-ID) or `?after=` resumes there: the
- * server first catches up from the database (re-scanning a short window for transactions that
- * committed late), then streams what the live hub announces. Repeats are dropped here by id and
- * again in the browser.
+ * The running log, live (Server-Sent Events). Each event's `id:` is where to resume
+ * ($lib/floor/resume: the highest seq sent and which seqs of the re-scan window below it were
+ * sent), so the browser's automatic reconnect (Last-Event-ID) or `?after=` resumes there: the
+ * server first catches up from the database (re-scanning the window for transactions that
+ * committed late, skipping what the browser already has), then streams what the live hub
+ * announces. Repeats are dropped here by id, and again in the browser.
  */
 export const GET: RequestHandler = async ({ request, url }) => {
 	const user = requireRole('foreman', 'owner');
 	const raw = request.headers.get('last-event-id') ?? url.searchParams.get('after');
-	let after: number | null = null;
+	let after: ResumePoint | null = null;
 	if (raw !== null && raw !== '') {
 		const parsed = streamAfterSchema.safeParse(raw);
 		if (!parsed.success) {
-			return json({ message: 'after must be a whole number: the last seq seen.' }, { status: 400 });
+			return json({ message: 'after must be the last event id seen (a seq).' }, { status: 400 });
 		}
 		after = parsed.data;
 	}
@@ -32,15 +34,23 @@ export const GET: RequestHandler = async ({ request, url }) => {
 		const { write, close } = sink;
 		let highSeq = 0;
 		const sent = new Set<string>();
+		// seqs of the re-scan window the browser has: from its resume point, then as sent
+		const sentSeqs = new Set<number>(after?.sent ?? []);
 		let chain: Promise<void> = Promise.resolve();
 
 		const send = (entries: FloorEntry[]) => {
 			for (const e of entries) {
-				if (sent.has(e.id)) continue;
+				if (sent.has(e.id) || sentSeqs.has(e.seq)) continue;
 				sent.add(e.id);
 				if (sent.size > rememberIds) sent.delete(sent.values().next().value as string);
+				sentSeqs.add(e.seq);
 				highSeq = Math.max(highSeq, e.seq);
-				write(`id: ${highSeq}\nevent: entry\ndata: ${JSON.stringify(e)}\n\n`);
+				if (sentSeqs.size > 2 * RESCAN_WINDOW) {
+					for (const q of sentSeqs) if (q <= highSeq - RESCAN_WINDOW) sentSeqs.delete(q);
+				}
+				write(
+					`id: ${encodeResume(highSeq, sentSeqs)}\nevent: entry\ndata: ${JSON.stringify(e)}\n\n`
+				);
 			}
 		};
 		const run = (task: () => Promise<void>) => {
@@ -58,9 +68,20 @@ export const GET: RequestHandler = async ({ request, url }) => {
 				if (batch.length < 500 || highSeq === before) break;
 			}
 		};
+		// Entries announced while a read is in flight wait for the next one and go together, so a
+		// busy floor costs one read at a time per stream, not one per entry (which fell behind).
+		let announced: string[] = [];
 		const unsubscribe = subscribe(
 			shopId,
-			(e) => run(async () => send(await entriesByIds(shopId, [e.id]))),
+			(e) => {
+				announced.push(e.id);
+				if (announced.length > 1) return;
+				run(async () => {
+					const ids = announced;
+					announced = [];
+					send(await announcedEntries(shopId, ids));
+				});
+			},
 			() => run(catchUp),
 			() => close()
 		);
@@ -69,7 +90,7 @@ export const GET: RequestHandler = async ({ request, url }) => {
 			if (after === null) {
 				highSeq = await latestSeq(shopId);
 			} else {
-				highSeq = after;
+				highSeq = after.high;
 				await catchUp();
 			}
 			write(`event: ready\ndata: ${JSON.stringify({ seq: highSeq })}\n\n`);

@@ -21,7 +21,9 @@ export const GET: RequestHandler = async ({ params }) => {
 				if (e.jobId === job.id)
 					sink.write(`event: change\ndata: ${JSON.stringify({ seq: e.seq })}\n\n`);
 			},
-			() => sink.write('event: resync\ndata: {}\n\n')
+			() => sink.write('event: resync\ndata: {}\n\n'),
+			// On SIGTERM end the stream, or adapter-node waits for every open Bench before it stops.
+			() => sink.close()
 		);
 		sink.write('retry: 2000\n\nevent: ready\ndata: {}\n\n');
 		return unsubscribe;
