@@ -6,6 +6,10 @@
  * measured figures only; nothing is asserted. Goal: p99 ≤ 30 ms, rate ≥ 50 % of the raw rate.
  * Runs on its own scratch database (benchcall_bench, made anew each run), never on the demo one.
  *
+ * For scale it also measures, for BENCH_IDLE_SECONDS (5; 0 skips), the same server answering
+ * signed-in requests that do nothing (GET of an unknown /api path: session lookup, then 404):
+ * no endpoint of this server can beat that rate on this machine.
+ *
  *   npm run bench:append            (BENCH_SECONDS=5 for a short run; BENCH_WARMUP_SECONDS=2)
  */
 import { spawn } from 'node:child_process';
@@ -21,6 +25,7 @@ const CLIENTS = 50;
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 20);
 // A short run first, not counted: the server's first requests compile code and fill caches.
 const WARMUP = Number(process.env.BENCH_WARMUP_SECONDS ?? 2);
+const IDLE = Number(process.env.BENCH_IDLE_SECONDS ?? 5);
 const PORT = Number(process.env.BENCH_PORT ?? 4199);
 const base = `http://127.0.0.1:${PORT}`;
 const load = () =>
@@ -99,6 +104,20 @@ function post(seconds: number): Promise<autocannon.Result> {
 	});
 }
 
+/** Signed-in requests that do nothing: the session lookup, then 404 for an unknown path. */
+function idle(seconds: number): Promise<autocannon.Result> {
+	let next = 0;
+	return autocannon({
+		url: base,
+		connections: CLIENTS,
+		duration: seconds,
+		setupClient: (client) => {
+			client.setHeaders({ accept: 'application/json', cookie: cookies[next++ % cookies.length] });
+		},
+		requests: [{ method: 'GET', path: '/api/no-such-endpoint' }]
+	});
+}
+
 const count = async () =>
 	(await sql`select count(*)::int as n from log_entry where job_id = ${job.id}`)[0].n as number;
 
@@ -113,6 +132,8 @@ const others = Object.entries(run.statusCodeStats ?? {})
 	.filter(([code]) => code !== '201')
 	.map(([code, s]) => `${s.count ?? 0} × ${code}`);
 const appRate = created / SECONDS;
+const nothing = IDLE > 0 ? await idle(IDLE) : null;
+const nothingRate = (nothing?.statusCodeStats?.['404']?.count ?? 0) / IDLE;
 
 // The raw rate: single-row INSERTs of the same table, same concurrency, same duration.
 let raw = 0;
@@ -146,6 +167,11 @@ console.log(`  raw INSERT/s:   ${rawRate.toFixed(0)} (postgres.js, ${CLIENTS} co
 console.log(
 	`  ratio:          ${((appRate / rawRate) * 100).toFixed(1)} % of the raw rate (goal ≥ 50 %)`
 );
+if (nothing) {
+	console.log(
+		`  for scale:      ${nothingRate.toFixed(0)} signed-in requests/s that do nothing (session, 404), p50 ${nothing.latency.p50} ms · p99 ${nothing.latency.p99} ms, ${IDLE} s: ${((nothingRate / rawRate) * 100).toFixed(1)} % of the raw rate`
+	);
+}
 console.log(`  load average:   ${loadBefore} before the run, ${loadAfter} after (1, 5, 15 min)`);
 await sql.end();
 stop();
