@@ -1,5 +1,6 @@
 import type { Handle, HandleServerError } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { hasNul, nulMessage } from '$lib/nul';
 import { lucia } from '$lib/server/auth';
 import { isDatabaseUnavailable } from '$lib/server/db/errors';
 
@@ -47,6 +48,18 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	response.headers.set('X-Frame-Options', 'DENY');
 	response.headers.set('Permissions-Policy', 'camera=(self), microphone=(self), geolocation=()');
 	return response;
+};
+
+/** Text with a NUL cannot be stored or searched for: an address holding one is a 400. */
+const refuseNul: Handle = ({ event, resolve }) => {
+	const { url } = event;
+	if (url.pathname.includes('%00') || [...url.searchParams].some((pair) => hasNul(pair))) {
+		return new Response(nulMessage, {
+			status: 400,
+			headers: { 'content-type': 'text/plain; charset=utf-8' }
+		});
+	}
+	return resolve(event);
 };
 
 /**
@@ -101,10 +114,12 @@ function logUnavailable(err: unknown) {
 	console.error(`database unavailable (${e.cause?.code ?? e.code ?? 'no code'}): answered 503`);
 }
 
-export const handle = sequence(securityHeaders, databaseAvailability, handleAuth);
+export const handle = sequence(securityHeaders, refuseNul, databaseAvailability, handleAuth);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
-	if (status === 404) return { message };
+	// Below 500 the request was at fault (no such page, a body SvelteKit cannot take): say so in
+	// SvelteKit's words ("Unsupported Media Type", "Payload Too Large"), and log nothing.
+	if (status < 500) return { message };
 	if (isDatabaseUnavailable(error)) {
 		databaseAway.add(event.request);
 		logUnavailable(error);

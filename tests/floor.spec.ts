@@ -32,6 +32,10 @@ test('an out-of-spec value reaches the Floor live; a redo reaches the Bench; a n
 
 	await foreman.page.goto('/floor');
 	await expect(foreman.page.getByTestId('connection')).toHaveAttribute('data-state', 'live');
+	// The technician has the job open on the Bench the whole time, never reloading it.
+	await tech.page.goto(`/bench?job=${job.number}`);
+	const banner = tech.page.getByTestId('redo-banner');
+	await expect(tech.page.getByTestId('live-state')).toHaveAttribute('data-state', 'live');
 
 	await callOut(tech.request, job.id, 'rear axle 120 nm');
 	// Without a reload, within 2 s: in the running log and in the out-of-spec queue.
@@ -53,9 +57,8 @@ test('an out-of-spec value reaches the Floor live; a redo reaches the Bench; a n
 	await foreman.page.keyboard.press('Enter');
 	await expect(item).toHaveCount(0);
 
-	await tech.page.goto(`/bench?job=${job.number}`);
-	const banner = tech.page.getByTestId('redo-banner');
-	await expect(banner).toContainText('Rear axle nut');
+	// The redo reaches the open Bench without a reload.
+	await expect(banner).toContainText('Rear axle nut', { timeout: 2_000 });
 	await expect(banner).toContainText('Slacken and torque again');
 
 	// A value out of spec again is a new item; an in-spec one clears the queue and the redo.
@@ -63,6 +66,7 @@ test('an out-of-spec value reaches the Floor live; a redo reaches the Bench; a n
 	await expect(item).toContainText('under', { timeout: 2_000 });
 	await callOut(tech.request, job.id, 'rear axle 88 nm');
 	await expect(item).toHaveCount(0, { timeout: 2_000 });
+	await expect(banner).toHaveCount(0, { timeout: 2_000 });
 	await tech.page.reload();
 	await expect(tech.page.getByTestId('redo-banner')).toHaveCount(0);
 
@@ -106,6 +110,52 @@ test('final inspection: ready to invoice is refused before sign-off; checklist, 
 	await expect(foreman.page.getByText('Moved to ready to invoice.')).toBeVisible();
 	expect((await jobRow(job.id)).state).toBe('ready_to_invoice');
 
+	await foreman.context.close();
+	await tech.context.close();
+});
+
+test('the owner edits the final-inspection checklist; the foreman ticks what the shop asks for', async ({
+	browser
+}) => {
+	const job = await makeFloorJob();
+	await setJobState(job.id, 'final_inspection');
+	const owner = await as(browser, demo.owner);
+	const label = `Mirrors set ${crypto.randomUUID().slice(0, 6)}`;
+
+	await owner.page.goto('/shop/settings');
+	const lines = owner.page.getByRole('list', { name: 'Checklist lines' });
+	await lines.getByLabel('New checklist line').fill(label);
+	await lines.getByRole('button', { name: 'Add line' }).click();
+	await expect(owner.page.getByRole('status')).toContainText(`"${label}" added`);
+	await expect(lines.getByRole('textbox').last()).toHaveValue(''); // the add row is empty again
+
+	// A second line with the same words is refused with a message, and what was typed stays.
+	await lines.getByLabel('New checklist line').fill(label.toUpperCase());
+	await lines.getByRole('button', { name: 'Add line' }).click();
+	await expect(lines.getByText('is on the list already')).toBeVisible();
+	await expect(lines.getByLabel('New checklist line')).toHaveValue(label.toUpperCase());
+
+	// Move it up one place: it now sits above the line that was before it.
+	const before = await lines
+		.getByRole('textbox')
+		.evaluateAll((els) => els.map((e) => (e as HTMLInputElement).value));
+	const at = before.indexOf(label);
+	await lines.getByRole('button', { name: `Move “${label}” up` }).click();
+	await expect(lines.getByRole('textbox').nth(at - 1)).toHaveValue(label);
+
+	const foreman = await as(browser, demo.foreman);
+	await foreman.page.goto(`/floor/jobs/${job.id}`);
+	await expect(foreman.page.getByRole('checkbox', { name: label })).toBeVisible();
+
+	// Technicians cannot change the checklist.
+	const tech = await as(browser, demo.tomasz);
+	const refused = await tech.request.post('/shop/settings?/checkItem', {
+		form: { itemId: '', label: 'Skip the test ride' },
+		headers: { origin }
+	});
+	expect(refused.status()).toBe(403);
+
+	await owner.context.close();
 	await foreman.context.close();
 	await tech.context.close();
 });

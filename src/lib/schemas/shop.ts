@@ -104,3 +104,19 @@ export const toolSchema = z
 		path: ['rangeMax'],
 		message: 'The highest setting must be above the lowest.'
 	});
+
+/** One line of the shop's final-inspection checklist: add (no id) or rename. */
+export const inspectionItemSchema = z.object({
+	itemId: z.union([z.uuid(), z.literal('')]).default(''),
+	label: z
+		.string()
+		.trim()
+		.min(1, 'Say what the foreman checks.')
+		.max(120, 'At most 120 characters.')
+});
+
+/** Move a checklist line up or down, or take it off the list. */
+export const inspectionItemChangeSchema = z.object({
+	itemId: z.uuid('No such checklist item.'),
+	change: z.enum(['up', 'down', 'remove'], { error: 'Move up, move down or remove.' })
+});

@@ -4,14 +4,44 @@ import { getRequestEvent } from '$app/server';
 import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
 import { error, redirect } from '@sveltejs/kit';
 import { and, eq, gt, sql } from 'drizzle-orm';
-import { Lucia, TimeSpan } from 'lucia';
+import { Lucia, TimeSpan, type DatabaseSession, type DatabaseUser } from 'lucia';
 import type { Role } from '$lib/auth/roles';
 import { decide, throttleWindowMinutes, type ThrottleDecision } from '$lib/auth/throttle';
-import { db } from './db';
+import { client, db } from './db';
 import { session, signInFailure, user } from './db/schema';
 import { dummyHash, verifyPassword } from './password';
 
-const adapter = new DrizzlePostgreSQLAdapter(db, session, user);
+/**
+ * Every request looks its session up, so that one query is a prepared statement (postgres.js
+ * keeps it per connection): planned once, not built by drizzle and planned by PostgreSQL each
+ * time. The rest of the adapter is lucia's own.
+ */
+class SessionAdapter extends DrizzlePostgreSQLAdapter {
+	override async getSessionAndUser(
+		sessionId: string
+	): Promise<[session: DatabaseSession | null, user: DatabaseUser | null]> {
+		const [row] = await client`
+			select s.id, s.user_id, s.expires_at, u.email, u.name, u.role, u.shop_id, u.active
+			from session s join "user" u on u.id = s.user_id
+			where s.id = ${sessionId}`;
+		if (!row) return [null, null];
+		return [
+			{ id: row.id, userId: row.user_id, expiresAt: new Date(row.expires_at), attributes: {} },
+			{
+				id: row.user_id,
+				attributes: {
+					email: row.email,
+					name: row.name,
+					role: row.role,
+					shopId: row.shop_id,
+					active: row.active
+				}
+			}
+		];
+	}
+}
+
+const adapter = new SessionAdapter(db, session, user);
 
 /** Secure cookies whenever the app is served over https (ORIGIN tells adapter-node). */
 const secure = !dev && (env.ORIGIN ?? '').startsWith('https://');

@@ -65,6 +65,33 @@ describe('appendEntry', () => {
 		expect(row.jobStepId).toBe(f.step.id);
 	});
 
+	it('answers with the entry exactly as the log reads it back', async () => {
+		const f = await makeShop('Bench');
+		const [tool] = await db
+			.insert(s.torqueTool)
+			.values({
+				shopId: f.shop.id,
+				identifier: 'T-2',
+				kind: 'Type II class A click',
+				rangeMin: 40,
+				rangeMax: 200,
+				unit: 'N.m',
+				calibratedOn: '2026-11-01'
+			})
+			.returning();
+		const stored = [
+			entryOf(
+				await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm', { torqueToolId: tool.id }))
+			),
+			entryOf(
+				await appendEntry(as(f.tech), f.job.id, post('note thread chased', { source: 'voice' }))
+			)
+		];
+		const { entries } = await listEntries(f.shop.id, f.job.id);
+		expect(entries.slice().reverse()).toEqual(stored);
+		expect(stored[0]).toMatchObject({ torqueTool: 'T-2', specMin: 80, specMax: 96, photos: [] });
+	});
+
 	it('is idempotent by the device-made id: a repeat answers 200 and writes nothing', async () => {
 		const f = await makeShop('Bench');
 		const body = post('rear axle 88 nm');
@@ -171,6 +198,100 @@ describe('appendEntry', () => {
 			post('rear axle 88 nm', { torqueToolId: tool.id })
 		);
 		expect(refused.status).toBe(422);
+	});
+});
+
+describe('the steps kept in memory between appends', () => {
+	const version = async (f: Fixture) =>
+		(await db.select({ v: s.job.stepsVersion }).from(s.job).where(eq(s.job.id, f.job.id)))[0].v;
+
+	it("reads a step edited on the job at the next append, and never another shop's job", async () => {
+		const f = await makeShop('Bench');
+		// Rear axle nut 80–96 N·m (fixture): 88 is in
+		expect(entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).verdict).toBe(
+			'in'
+		);
+		// edited directly in the database, as any writer might: the next append sees it
+		await db.update(s.jobStep).set({ min: 90, max: 100 }).where(eq(s.jobStep.id, f.step.id));
+		const low = entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')));
+		expect(low).toMatchObject({ verdict: 'low', specMin: 90, specMax: 100 });
+		await db
+			.update(s.jobStep)
+			.set({ label: 'Swingarm pivot nut' })
+			.where(eq(s.jobStep.id, f.step.id));
+		const renamed = entryOf(await appendEntry(as(f.tech), f.job.id, post('swingarm pivot 95 nm')));
+		expect(renamed).toMatchObject({
+			stepId: f.step.id,
+			stepLabel: 'Swingarm pivot nut',
+			verdict: 'in'
+		});
+		const b = await makeShop('Other');
+		expect((await appendEntry(as(b.owner), f.job.id, post('swingarm pivot 95 nm'))).status).toBe(
+			404
+		);
+	});
+
+	it('follows a reassignment: the former technician is refused, the new one may log', async () => {
+		const f = await makeShop('Bench');
+		const next = await addUser(f, 'technician', 'Next tech');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm'))).status).toBe(201);
+		await db.update(s.job).set({ technicianId: next.id }).where(eq(s.job.id, f.job.id));
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm'))).status).toBe(403);
+		expect((await appendEntry(as(next), f.job.id, post('rear axle 90 nm'))).status).toBe(201);
+		expect(await rowsOf(f)).toHaveLength(3);
+	});
+
+	it('reads a step added to the job, and the shop tolerance as it is now', async () => {
+		const f = await makeShop('Bench');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect((await appendEntry(as(f.tech), f.job.id, post('brake disc bolt 54 nm'))).status).toBe(
+			422
+		);
+		const [added] = await db
+			.insert(s.jobStep)
+			.values({
+				shopId: f.shop.id,
+				jobId: f.job.id,
+				jobProcedureId: f.step.jobProcedureId,
+				position: 2,
+				label: 'Brake disc bolt',
+				unit: 'N.m',
+				nominal: 50
+			})
+			.returning();
+		// nominal 50 N·m with the shop tolerance (10 % by default): 54 is in, and high at 5 %
+		const within = entryOf(await appendEntry(as(f.tech), f.job.id, post('brake disc bolt 54 nm')));
+		expect(within).toMatchObject({ stepId: added.id, verdict: 'in' });
+		await db.update(s.shop).set({ defaultTolerancePct: 5 }).where(eq(s.shop.id, f.shop.id));
+		const over = entryOf(await appendEntry(as(f.tech), f.job.id, post('brake disc bolt 54 nm')));
+		expect(over).toMatchObject({ stepId: added.id, verdict: 'high' });
+	});
+
+	it("bumps the job's steps version once per statement that changes its steps or procedures", async () => {
+		const f = await makeShop('Bench');
+		const v0 = await version(f);
+		await db.insert(s.jobStep).values(
+			[2, 3, 4].map((position) => ({
+				shopId: f.shop.id,
+				jobId: f.job.id,
+				jobProcedureId: f.step.jobProcedureId,
+				position,
+				label: `Spoke ${position}`
+			}))
+		);
+		expect(await version(f)).toBe(v0 + 1);
+		await db
+			.update(s.jobProcedure)
+			.set({ name: 'Wheels, renamed' })
+			.where(eq(s.jobProcedure.id, f.step.jobProcedureId));
+		expect(await version(f)).toBe(v0 + 2);
+		await db.delete(s.jobStep).where(eq(s.jobStep.label, 'Spoke 4'));
+		expect(await version(f)).toBe(v0 + 3);
+		const other = await makeShop('Other');
+		const otherBefore = await version(other);
+		await db.update(s.jobStep).set({ caution: 'Hot' }).where(eq(s.jobStep.id, f.step.id));
+		expect(await version(other)).toBe(otherBefore);
 	});
 });
 

@@ -7,9 +7,11 @@ import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
 import type { JobState } from '$lib/jobs/states';
 import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
+import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
-import { db } from './db';
+import { announceEntry } from './announce';
+import { client, db } from './db';
 import * as s from './db/schema';
 import { storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
@@ -37,7 +39,8 @@ export interface BenchJob {
 	customerName: string | null;
 }
 
-export interface BenchStep {
+/** A step as written on the job card: what changes only when the job's steps are edited. */
+export interface StepDefinition {
 	id: string;
 	position: number;
 	procedureId: string;
@@ -49,6 +52,9 @@ export interface BenchStep {
 	min: number | null;
 	max: number | null;
 	caution: string | null;
+}
+
+export interface BenchStep extends StepDefinition {
 	done: boolean;
 	/** Verdict of the latest live measurement, if any. */
 	lastVerdict: Verdict | null;
@@ -176,6 +182,14 @@ export async function listSteps(shopId: string, jobId: string): Promise<BenchSte
 		order by jp.position, st.position
 	`);
 	return rows.map((r) => ({
+		...toStepDefinition(r),
+		done: r.done as boolean,
+		lastVerdict: (r.last_verdict as Verdict | null) ?? null
+	}));
+}
+
+function toStepDefinition(r: Record<string, unknown>): StepDefinition {
+	return {
 		id: r.id as string,
 		position: r.position as number,
 		procedureId: r.procedure_id as string,
@@ -186,14 +200,12 @@ export async function listSteps(shopId: string, jobId: string): Promise<BenchSte
 		nominal: r.nominal as number | null,
 		min: r.min as number | null,
 		max: r.max as number | null,
-		caution: r.caution as string | null,
-		done: r.done as boolean,
-		lastVerdict: (r.last_verdict as Verdict | null) ?? null
-	}));
+		caution: r.caution as string | null
+	};
 }
 
-/** Steps in the phrase engine's shape (null limits left out). */
-export function toStepSpecs(steps: BenchStep[]): StepSpec[] {
+/** Steps in the phrase engine's shape (null limits left out; no done state: not done). */
+export function toStepSpecs(steps: (StepDefinition & { done?: boolean })[]): StepSpec[] {
 	return steps.map((st) => ({
 		id: st.id,
 		label: st.label,
@@ -202,8 +214,74 @@ export function toStepSpecs(steps: BenchStep[]): StepSpec[] {
 		nominal: st.nominal ?? undefined,
 		min: st.min ?? undefined,
 		max: st.max ?? undefined,
-		done: st.done
+		done: st.done ?? false
 	}));
+}
+
+// --- the job's steps, kept in memory between appends ------------------------------------------
+//
+// Every append reads its phrase against the job's steps, and the phrase engine builds a search
+// index per steps array (cached by the array's identity). Reading the steps and rebuilding that
+// index on each append cost more than the insert itself, so each server process keeps the
+// definitions of recently used jobs. `job.steps_version` is bumped by triggers whenever a job's
+// steps or procedures change (drizzle/0005), by any writer; an append reads it with the job and
+// re-reads the steps when it differs from the copy's. Done state is not kept: it changes with
+// every entry, and only "next" and "spec" (which log nothing) need it.
+
+interface StepSet {
+	version: number;
+	steps: StepDefinition[];
+	/** The phrase engine's view of `steps`; one array per version, so its index is built once. */
+	specs: StepSpec[];
+}
+
+const stepSetLimit = 500;
+const stepSets = new Map<string, { version: number; set: Promise<StepSet> }>();
+
+async function readStepSet(shopId: string, jobId: string): Promise<StepSet> {
+	const rows = await db.execute(sql`
+		select j.steps_version, st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min,
+			st.max, st.caution, jp.id as procedure_id, jp.name as procedure_name
+		from job j
+		left join (job_step st join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id)
+			on st.job_id = j.id and st.shop_id = j.shop_id
+		where j.shop_id = ${shopId} and j.id = ${jobId}
+		order by jp.position, st.position
+	`);
+	const steps = rows.filter((r) => r.id !== null).map(toStepDefinition);
+	return { version: Number(rows[0]?.steps_version ?? -1), steps, specs: toStepSpecs(steps) };
+}
+
+/**
+ * The job's step definitions as of `version` or later (the version read with the job). Scoped
+ * like every query: the copy is kept per shop and job.
+ */
+export function jobStepDefinitions(
+	shopId: string,
+	jobId: string,
+	version: number
+): Promise<StepSet> {
+	const key = `${shopId}/${jobId}`;
+	const hit = stepSets.get(key);
+	if (hit && hit.version >= version) {
+		stepSets.delete(key); // most recently used last; the oldest goes first when full
+		stepSets.set(key, hit);
+		return hit.set;
+	}
+	const set = readStepSet(shopId, jobId);
+	const entry = { version, set };
+	stepSets.set(key, entry);
+	if (stepSets.size > stepSetLimit) stepSets.delete(stepSets.keys().next().value as string);
+	// The copy is as new as the version it was read with (never older than the one asked for).
+	set.then(
+		(read) => {
+			entry.version = Math.max(entry.version, read.version);
+		},
+		() => {
+			if (stepSets.get(key) === entry) stepSets.delete(key);
+		}
+	);
+	return set;
 }
 
 export async function shopTolerance(shopId: string): Promise<{ pct: number; months: number }> {
@@ -375,6 +453,37 @@ export function describeStep(st: BenchStep | null, intent: 'next' | 'spec'): str
 }
 
 /**
+ * What an append needs of the job, in one query: who may write, state, the steps' version and
+ * the shop's tolerance. Prepared once (it runs on every append).
+ */
+const appendContextQuery = db
+	.select({
+		id: s.job.id,
+		state: s.job.state,
+		technicianId: s.job.technicianId,
+		stepsVersion: s.job.stepsVersion,
+		pct: s.shop.defaultTolerancePct
+	})
+	.from(s.job)
+	.innerJoin(s.shop, eq(s.shop.id, s.job.shopId))
+	.where(and(eq(s.job.shopId, sql.placeholder('shopId')), eq(s.job.id, sql.placeholder('jobId'))))
+	.prepare('append_context');
+
+async function appendContext(shopId: string, jobId: string) {
+	if (!isUuid(jobId)) return null;
+	const [row] = await appendContextQuery.execute({ shopId, jobId });
+	if (!row) return null;
+	return {
+		job: { id: row.id, state: row.state, technicianId: row.technicianId },
+		stepsVersion: row.stepsVersion,
+		pct: row.pct
+	};
+}
+
+/** The shop's tolerance as last read by this process, for appendToKnownJob (which checks it). */
+const knownTolerance = new Map<string, number>();
+
+/**
  * Appends one entry, reading the text again with the phrase engine (its verdict is the one
  * stored). Idempotent by the device-made id: a repeat answers 200 with the stored entry.
  */
@@ -384,9 +493,12 @@ export async function appendEntry(
 	input: AppendInput,
 	now = new Date()
 ): Promise<AppendResult> {
-	const job = await getJob(actor.shopId, jobId);
-	if (!job) return { status: 404, message: NOT_FOUND };
-	if (!mayWrite(actor, job)) {
+	const quick = await appendToKnownJob(actor, jobId, input, now);
+	if (quick) return quick;
+	const ctx = await appendContext(actor.shopId, jobId);
+	if (!ctx) return { status: 404, message: NOT_FOUND };
+	knownTolerance.set(actor.shopId, ctx.pct);
+	if (!mayWrite(actor, ctx.job)) {
 		return {
 			status: 403,
 			message:
@@ -395,77 +507,234 @@ export async function appendEntry(
 					: 'Your role does not log work on jobs.'
 		};
 	}
+	const result = await appendChecked(actor, ctx, input, now);
+	// A repeat of a stored id answers with the stored entry, whatever the text reads as now. The
+	// insert itself recognises a repeat (on conflict); any other outcome asks here.
+	if (result.status !== 201 && !('entry' in result)) {
+		return (await existingEntry(actor.shopId, jobId, input.id)) ?? result;
+	}
+	return result;
+}
 
-	const existing = await existingEntry(actor.shopId, jobId, input.id);
-	if (existing) return existing;
+/**
+ * The common case in one statement. When this process has read the job before, its steps and
+ * the shop's tolerance are at hand: the phrase is read against them, and the insert writes only
+ * if the job (of this shop) still has that steps version and tolerance and the actor may write
+ * on it. Null when this is not that case or the insert wrote nothing (a changed job, a repeated
+ * id, another shop's job): appendEntry then decides everything from the database as it is now.
+ */
+async function appendToKnownJob(
+	actor: Actor,
+	jobId: string,
+	input: AppendInput,
+	now: Date
+): Promise<AppendResult | null> {
+	const pct = knownTolerance.get(actor.shopId);
+	const cached = stepSets.get(`${actor.shopId}/${jobId}`);
+	if (pct === undefined || !cached || input.retracts || input.torqueToolId) return null;
+	if (actor.role !== 'technician' && actor.role !== 'foreman' && actor.role !== 'owner')
+		return null;
+	let set: StepSet;
+	try {
+		set = await cached.set;
+	} catch {
+		return null;
+	}
+	const read = readPhrase(set.specs, pct, input, now);
+	if (!read || !isLogged(read.parsed.intent)) return null;
+	const step = stepOf(set.steps, read.parsed);
+	if (refusal(read.parsed, step)) return null;
+	const entry = newEntry(actor, jobId, input, read, step, null, now);
+	const anyJob = actor.role !== 'technician';
+	const [row] = await client`
+		with j as (
+			select j.state from job j join shop sh on sh.id = j.shop_id
+			where j.shop_id = ${actor.shopId} and j.id = ${jobId} and j.steps_version = ${set.version}
+				and sh.default_tolerance_pct = ${pct} and (${anyJob} or j.technician_id = ${actor.id})
+		), e as (
+			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+				value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
+				tool_calibration_overdue, occurred_at)
+			select ${entry.id}::uuid, ${entry.shopId}::uuid, ${entry.jobId}::uuid,
+				${entry.jobStepId}::uuid, ${entry.authorId}::uuid, ${entry.kind}::entry_kind,
+				${entry.rawText}::text, ${entry.source}::entry_source, ${entry.value}::float8,
+				${entry.unit}::text, ${entry.specValue}::float8, ${entry.specUnit}::text,
+				${entry.verdict}::verdict, ${entry.note}::text, ${entry.torqueToolId}::uuid,
+				${entry.overdue}::boolean, ${entry.occurredAt}::timestamptz
+			from j
+			on conflict (id) do nothing
+			returning *
+		)
+		${readBack}, (select state from j) as job_state ${readBackFrom}`;
+	if (!row) return null;
+	return stored(actor, jobId, row, row.job_state as JobState);
+}
 
-	const steps = await listSteps(actor.shopId, jobId);
-	const { pct } = await shopTolerance(actor.shopId);
+/** Intents that write an entry of their own kind. */
+function isLogged(intent: ParsedPhrase['intent']): intent is NewEntry['kind'] {
+	return intent === 'measure' || intent === 'part' || intent === 'note' || intent === 'done';
+}
+
+/** The phrase read against the job's steps; null when the picked step is not on the job. */
+function readPhrase(specs: StepSpec[], pct: number, input: AppendInput, now: Date) {
 	const deviceTime = input.occurredAt ? clampTime(new Date(input.occurredAt), now) : now;
-	const specs = toStepSpecs(steps);
 	let parsed = parsePhrase(input.text, { steps: specs, now: deviceTime, tolerancePct: pct });
 	if (input.stepId) {
 		const picked = specs.find((st) => st.id === input.stepId);
-		if (!picked) return { status: 422, message: 'That step is not on this job.' };
+		if (!picked) return null;
 		parsed = withStep(parsed, picked, pct);
 	}
-	const step = parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
+	return { parsed, deviceTime };
+}
+
+function stepOf<T extends { id: string }>(steps: T[], parsed: ParsedPhrase): T | null {
+	return parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
+}
+
+interface NewEntry {
+	id: string;
+	shopId: string;
+	jobId: string;
+	jobStepId: string | null;
+	authorId: string;
+	kind: 'measure' | 'part' | 'note' | 'done';
+	rawText: string;
+	source: AppendInput['source'];
+	value: number | null;
+	unit: string | null;
+	specValue: number | null;
+	specUnit: string | null;
+	verdict: Verdict | null;
+	note: string | null;
+	torqueToolId: string | null;
+	overdue: boolean;
+	/** ISO 8601 (drizzle's client passes timestamps through as text). */
+	occurredAt: string;
+}
+
+function newEntry(
+	actor: Actor,
+	jobId: string,
+	input: AppendInput,
+	read: { parsed: ParsedPhrase; deviceTime: Date },
+	step: StepDefinition | null,
+	tool: { id: string; overdue: boolean } | null,
+	now: Date
+): NewEntry {
+	const { parsed } = read;
+	const measured = parsed.intent === 'measure';
+	const occurredAt = parsed.occurredAt
+		? clampTime(new Date(parsed.occurredAt), now)
+		: clampTime(read.deviceTime, now);
+	return {
+		id: input.id,
+		shopId: actor.shopId,
+		jobId,
+		jobStepId: step?.id ?? null,
+		authorId: actor.id,
+		kind: parsed.intent as NewEntry['kind'],
+		rawText: input.text,
+		source: input.source,
+		value: measured ? (parsed.quantity?.value ?? null) : null,
+		unit: measured ? (parsed.quantity?.unit ?? null) : null,
+		specValue: measured ? (parsed.specValue?.value ?? null) : null,
+		specUnit: measured ? (parsed.specValue?.unit ?? null) : null,
+		verdict: measured ? parsed.verdict : null,
+		note: parsed.note,
+		torqueToolId: tool?.id ?? null,
+		overdue: tool?.overdue ?? false,
+		occurredAt: occurredAt.toISOString()
+	};
+}
+
+// The stored row read back, in the same statement as the insert (CTE `e`), in the shape every
+// reader gets (entrySelect). A new entry has no retraction and no photo yet (both would point
+// at it by a foreign key), so those are constants here.
+const readBack = client`
+	select e.id, e.seq, e.job_id, e.job_step_id, st.label as step_label, e.author_id,
+		a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value,
+		e.spec_unit, st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal, e.verdict,
+		e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
+		e.retracts, e.occurred_at, e.recorded_at, null as retracted_by_id,
+		null as retracted_by_name, null as retracted_at, '[]'::json as photos`;
+const readBackFrom = client`
+	from e
+	join "user" a on a.id = e.author_id
+	left join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
+	left join torque_tool tt on tt.id = e.torque_tool_id and tt.shop_id = e.shop_id`;
+
+/** A stored entry: announced to the live hub, and the job put in work if it was open. */
+async function stored(
+	actor: Actor,
+	jobId: string,
+	row: Record<string, unknown>,
+	state: JobState
+): Promise<AppendResult> {
+	const entry = toEntry(row);
+	void announceEntry({
+		seq: entry.seq,
+		id: entry.id,
+		shopId: actor.shopId,
+		jobId,
+		kind: entry.kind
+	});
+	if (state === 'open') await startWork(actor, jobId);
+	return { status: 201, entry };
+}
+
+async function appendChecked(
+	actor: Actor,
+	ctx: NonNullable<Awaited<ReturnType<typeof appendContext>>>,
+	input: AppendInput,
+	now: Date
+): Promise<AppendResult> {
+	const { job, pct } = ctx;
+	const jobId = job.id;
+	const { steps, specs } = await jobStepDefinitions(actor.shopId, jobId, ctx.stepsVersion);
+	const read = readPhrase(specs, pct, input, now);
+	if (!read) return { status: 422, message: 'That step is not on this job.' };
+	const { parsed, deviceTime } = read;
 
 	if (parsed.intent === 'next' || parsed.intent === 'spec') {
-		const shown = parsed.intent === 'next' ? (steps.find((st) => !st.done) ?? null) : step;
-		if (parsed.intent === 'spec' && !shown) {
-			return { status: 422, message: parsed.problems[0] ?? 'No step of this job matches.' };
-		}
-		return {
-			status: 200,
-			answer: { intent: parsed.intent, step: shown, message: describeStep(shown, parsed.intent) }
-		};
+		// These log nothing and show the steps' done state, so read the steps as they are now.
+		const live = await listSteps(actor.shopId, jobId);
+		const again = readPhrase(toStepSpecs(live), pct, input, now);
+		return again
+			? answer(again.parsed, live)
+			: { status: 422, message: 'That step is not on this job.' };
 	}
 	if (parsed.intent === 'undo' || input.retracts) {
 		return retract(actor, job, input, deviceTime);
 	}
 
+	const step = stepOf(steps, parsed);
 	const refused = refusal(parsed, step);
 	if (refused) return { status: 422, message: refused };
 
-	const occurredAt = parsed.occurredAt
-		? clampTime(new Date(parsed.occurredAt), now)
-		: clampTime(deviceTime, now);
-	let torqueToolId: string | null = null;
-	let overdue = false;
+	let tool: { id: string; overdue: boolean } | null = null;
 	const isTorque = step?.unit ? dimensionOf(step.unit) === 'torque' : false;
 	if (input.torqueToolId && isTorque && parsed.intent === 'measure') {
-		const tool = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
-		if (!tool) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
-		torqueToolId = tool.id;
-		overdue = tool.state === 'overdue';
+		const found = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
+		if (!found) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
+		tool = { id: found.id, overdue: found.state === 'overdue' };
 	}
 
-	const measured = parsed.intent === 'measure';
-	const inserted = await db
-		.insert(s.logEntry)
-		.values({
-			id: input.id,
-			shopId: actor.shopId,
-			jobId,
-			jobStepId: step?.id ?? null,
-			authorId: actor.id,
-			kind: parsed.intent as 'measure' | 'part' | 'note' | 'done',
-			rawText: input.text,
-			source: input.source,
-			value: measured ? (parsed.quantity?.value ?? null) : null,
-			unit: measured ? (parsed.quantity?.unit ?? null) : null,
-			specValue: measured ? (parsed.specValue?.value ?? null) : null,
-			specUnit: measured ? (parsed.specValue?.unit ?? null) : null,
-			verdict: measured ? parsed.verdict : null,
-			note: parsed.note,
-			torqueToolId,
-			toolCalibrationOverdue: overdue,
-			occurredAt
-		})
-		.onConflictDoNothing({ target: s.logEntry.id })
-		.returning({ id: s.logEntry.id });
-	if (inserted.length === 0) {
+	const entry = newEntry(actor, jobId, input, read, step, tool, now);
+	// One round trip, prepared (postgres.js keeps it per connection): the insert, and the row.
+	const [row] = await client`
+		with e as (
+			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+				value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
+				tool_calibration_overdue, occurred_at)
+			values (${entry.id}, ${entry.shopId}, ${entry.jobId}, ${entry.jobStepId}, ${entry.authorId},
+				${entry.kind}, ${entry.rawText}, ${entry.source}, ${entry.value}, ${entry.unit},
+				${entry.specValue}, ${entry.specUnit}, ${entry.verdict}, ${entry.note},
+				${entry.torqueToolId}, ${entry.overdue}, ${entry.occurredAt})
+			on conflict (id) do nothing
+			returning *
+		)
+		${readBack} ${readBackFrom}`;
+	if (!row) {
 		return (
 			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
 				status: 409,
@@ -473,9 +742,18 @@ export async function appendEntry(
 			}
 		);
 	}
-	if (job.state === 'open') await startWork(actor, jobId);
-	const entry = await readEntry(actor.shopId, input.id);
-	return { status: 201, entry: entry! };
+	return stored(actor, jobId, row, job.state);
+}
+
+/** The answer to "next" or "spec …": the step with its spec and caution; nothing is written. */
+function answer(parsed: ParsedPhrase, steps: BenchStep[]): AppendResult {
+	const intent = parsed.intent as 'next' | 'spec';
+	const step = parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
+	const shown = intent === 'next' ? (steps.find((st) => !st.done) ?? null) : step;
+	if (intent === 'spec' && !shown) {
+		return { status: 422, message: parsed.problems[0] ?? 'No step of this job matches.' };
+	}
+	return { status: 200, answer: { intent, step: shown, message: describeStep(shown, intent) } };
 }
 
 /** The first entry on an open job puts it in work, recorded like any other state change. */
@@ -498,7 +776,7 @@ async function startWork(actor: Actor, jobId: string): Promise<void> {
 }
 
 /** Why the parse cannot be logged, or null when it can. */
-function refusal(parsed: ParsedPhrase, step: BenchStep | null): string | null {
+function refusal(parsed: ParsedPhrase, step: StepDefinition | null): string | null {
 	switch (parsed.intent) {
 		case 'note':
 			return parsed.note ? null : (parsed.problems[0] ?? 'Say what to note after "note".');
@@ -547,7 +825,7 @@ async function existingEntry(
  */
 async function retract(
 	actor: Actor,
-	job: BenchJob,
+	job: Pick<BenchJob, 'id'>,
 	input: AppendInput,
 	occurredAt: Date
 ): Promise<AppendResult> {
@@ -596,8 +874,8 @@ async function retract(
 				occurredAt
 			})
 			.onConflictDoNothing({ target: s.logEntry.id })
-			.returning({ id: s.logEntry.id });
-		return inserted.length ? { status: 201 as const } : null;
+			.returning({ seq: s.logEntry.seq });
+		return inserted.length ? { status: 201 as const, seq: inserted[0].seq } : null;
 	});
 	if (outcome === null) {
 		return (
@@ -608,6 +886,13 @@ async function retract(
 		);
 	}
 	if (outcome.status !== 201) return outcome;
+	void announceEntry({
+		seq: outcome.seq,
+		id: input.id,
+		shopId: actor.shopId,
+		jobId: job.id,
+		kind: 'retraction'
+	});
 	const entry = await readEntry(actor.shopId, input.id);
 	return { status: 201, entry: entry! };
 }
@@ -678,10 +963,6 @@ export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 		order by (j.state = 'in_work') desc, j.number desc
 	`);
 	return rows.map(toBenchJob);
-}
-
-export function isUuid(v: string): boolean {
-	return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v);
 }
 
 // --- photos -----------------------------------------------------------------------------------

@@ -4,10 +4,13 @@
 import { error } from '@sveltejs/kit';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import type { FloorEntry, LogFilter, OpenRedo, Verdict } from '$lib/floor/log';
+import { isUuid } from '$lib/ids';
 
 export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
+import { announceEntry } from './announce';
 import { db } from './db';
+import { readJson } from './request';
 import * as s from './db/schema';
 import { driftStepSql, entryColumns, entryJoins, logPageSql } from './floor-sql';
 import { listJobs, transitionJob } from './jobs';
@@ -56,21 +59,15 @@ function toEntry(r: Record<string, unknown>): FloorEntry {
 	};
 }
 
-const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 /** A job id from the URL, or a 404 (a malformed id names no job). */
 export function requireJobId(id: string): string {
-	if (!uuidPattern.test(id)) error(404, 'No such job in this shop.');
+	if (!isUuid(id)) error(404, 'No such job in this shop.');
 	return id;
 }
 
 /** The JSON body of a request, or a 400 with a clear message. */
-export async function readJsonBody(request: Request): Promise<unknown> {
-	try {
-		return await request.json();
-	} catch {
-		error(400, 'Send a JSON body.');
-	}
+export function readJsonBody(request: Request): Promise<unknown> {
+	return readJson(request, 'Send a JSON body.');
 }
 
 /**
@@ -244,7 +241,7 @@ export async function listOutOfSpec(shopId: string, jobId?: string): Promise<Que
 }
 
 async function requireOpenItem(shopId: string, entryId: string): Promise<QueueItem> {
-	if (!uuidPattern.test(entryId)) error(404, 'No such entry in this shop.');
+	if (!isUuid(entryId)) error(404, 'No such entry in this shop.');
 	const [entry] = await db.execute(
 		sql`select id, job_id from log_entry where id = ${entryId} and shop_id = ${shopId}`
 	);
@@ -261,7 +258,17 @@ async function requireOpenItem(shopId: string, entryId: string): Promise<QueueIt
 }
 
 async function appendEntry(values: typeof s.logEntry.$inferInsert) {
-	const [row] = await db.insert(s.logEntry).values(values).returning({ id: s.logEntry.id });
+	const [row] = await db
+		.insert(s.logEntry)
+		.values(values)
+		.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
+	void announceEntry({
+		seq: row.seq,
+		id: row.id,
+		shopId: values.shopId,
+		jobId: values.jobId,
+		kind: values.kind
+	});
 	return row.id;
 }
 
@@ -377,7 +384,8 @@ export async function getInspection(shopId: string, jobId: string): Promise<Insp
 			  and not exists (select 1 from log_entry r where r.retracts = e.id)
 			order by e.seq desc limit 1
 		) tick on true
-		where i.shop_id = ${shopId} and i.active
+		-- A line the owner has since removed still shows where it was ticked on this job.
+		where i.shop_id = ${shopId} and (i.active or tick.occurred_at is not null)
 		order by i.position`);
 	return {
 		job: {
@@ -468,7 +476,7 @@ export async function signOff(actor: Actor, jobId: string) {
 	const state = await getInspection(actor.shopId, jobId);
 	const blockers = signOffBlockers(state);
 	if (blockers.length > 0) error(409, `Cannot sign off yet. ${blockers.join(' ')}`);
-	await db.transaction(async (tx) => {
+	const entry = await db.transaction(async (tx) => {
 		const now = new Date();
 		// The condition repeats the check inside the transaction so two foremen cannot both sign.
 		const updated = await tx
@@ -477,17 +485,22 @@ export async function signOff(actor: Actor, jobId: string) {
 			.where(and(eq(s.job.id, jobId), eq(s.job.shopId, actor.shopId), isNull(s.job.signedOffAt)))
 			.returning({ id: s.job.id });
 		if (updated.length === 0) error(409, 'The job is signed off already.');
-		await tx.insert(s.logEntry).values({
-			id: crypto.randomUUID(),
-			shopId: actor.shopId,
-			jobId,
-			authorId: actor.id,
-			kind: 'sign_off',
-			rawText: 'signed off after final inspection',
-			source: 'typed',
-			occurredAt: now
-		});
+		const [row] = await tx
+			.insert(s.logEntry)
+			.values({
+				id: crypto.randomUUID(),
+				shopId: actor.shopId,
+				jobId,
+				authorId: actor.id,
+				kind: 'sign_off',
+				rawText: 'signed off after final inspection',
+				source: 'typed',
+				occurredAt: now
+			})
+			.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
+		return row;
 	});
+	void announceEntry({ ...entry, shopId: actor.shopId, jobId, kind: 'sign_off' });
 }
 
 /**

@@ -1,6 +1,21 @@
 import { describe, expect, it } from 'vitest';
-import { logMeasurement, makeShop } from './db/fixtures';
+import { makeShop } from './db/fixtures';
+import { appendEntry, type Actor, type AppendResult } from './entries';
 import { subscribe, type LiveEvent } from './live';
+
+type Fixture = Awaited<ReturnType<typeof makeShop>>;
+
+/** Appends through the app's own path, which announces the entry after its commit. */
+async function log(f: Fixture, text: string) {
+	const actor: Actor = { id: f.tech.id, shopId: f.shop.id, role: 'technician' };
+	const r: AppendResult = await appendEntry(actor, f.job.id, {
+		id: crypto.randomUUID(),
+		text,
+		source: 'typed'
+	});
+	if (!('entry' in r)) throw new Error(`not stored: ${JSON.stringify(r)}`);
+	return r.entry;
+}
 
 function waitFor(events: LiveEvent[], n: number, ms = 5000) {
 	return new Promise<void>((resolve, reject) => {
@@ -28,7 +43,7 @@ describe('live hub', () => {
 		try {
 			// The first subscription opens the listening connection; give it a moment.
 			await new Promise((r) => setTimeout(r, 300));
-			const entry = await logMeasurement(a, 82, 'in');
+			const entry = await log(a, 'rear axle 82 nm');
 			await waitFor(gotA, 1);
 			expect(gotA[0]).toEqual({
 				seq: entry.seq,
@@ -37,12 +52,17 @@ describe('live hub', () => {
 				jobId: a.job.id,
 				kind: 'measure'
 			});
+			// A retraction is announced too, in order after the entry it withdraws.
+			const undo = await log(a, 'undo');
+			await waitFor(gotA, 2);
+			expect(gotA[1]).toMatchObject({ id: undo.id, seq: undo.seq, kind: 'retraction' });
+			expect(undo.seq).toBeGreaterThan(entry.seq);
 			expect(gotB).toEqual([]);
 		} finally {
 			offA();
 			offB();
 		}
-		const after = await logMeasurement(a, 83, 'in');
+		const after = await log(a, 'rear axle 83 nm');
 		await new Promise((r) => setTimeout(r, 300));
 		expect(gotA.map((e) => e.id)).not.toContain(after.id);
 	});

@@ -1,8 +1,8 @@
 // The live hub: one LISTEN connection per server process, fanned out in memory by shop.
 //
-// A trigger on log_entry (drizzle/0004_log_entry_notify.sql) announces each committed entry on
-// the `log_entry` channel, so an entry written through any app server reaches the browsers of
-// every server. The payload carries ids only; subscribers read the entry, scoped by shop.
+// Each app server announces the log entries it commits on the `log_entry` channel
+// (announce.ts), so an entry written through any app server reaches the browsers of every
+// server. The payload carries ids only; subscribers read the entry, scoped by shop.
 //
 // NOTIFY is lost while a listener is disconnected. postgres.js re-listens after a dropped
 // connection but gives up silently when the database is away at that moment, so a heartbeat
@@ -12,15 +12,10 @@
 import { building } from '$app/environment';
 import { env } from '$env/dynamic/private';
 import postgres from 'postgres';
+import { entryChannel as channel, type LiveEvent } from './announce';
 import { client } from './db';
 
-export interface LiveEvent {
-	seq: number;
-	id: string;
-	shopId: string;
-	jobId: string;
-	kind: string;
-}
+export type { LiveEvent };
 
 interface Subscriber {
 	onEvent: (e: LiveEvent) => void;
@@ -28,7 +23,6 @@ interface Subscriber {
 	onClose?: () => void;
 }
 
-const channel = 'log_entry';
 const pingChannel = 'benchcall_live_ping';
 const pingEveryMs = 5_000;
 const quietLimitMs = 20_000;
@@ -127,7 +121,8 @@ async function tick() {
 		return;
 	}
 	try {
-		await client`select pg_notify(${pingChannel}, '')`;
+		// Like the announcements: a lost ping is harmless, so its commit waits for no disk flush.
+		await client`select set_config('synchronous_commit', 'off', true), pg_notify(${pingChannel}, '')`;
 	} catch {
 		// The database is away; the quiet limit will replace the listener when it is back.
 	}

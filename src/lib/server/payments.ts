@@ -4,6 +4,7 @@
 // real service with STRIPE_SECRET_KEY. Webhooks are verified with the SDK's constructEvent.
 import { env } from '$env/dynamic/private';
 import Stripe from 'stripe';
+import { isUuid } from '$lib/ids';
 import { applyCheckoutCompleted, setCheckoutSession, type InvoiceWithLines } from './invoices';
 
 export function paymentsClient(): Stripe | null {
@@ -89,8 +90,7 @@ export async function handleWebhook(
 	const s = event.data.object;
 	const invoiceId = s.metadata?.invoice_id;
 	const shopId = s.metadata?.shop_id;
-	const uuid = /^[0-9a-f-]{36}$/i;
-	if (!invoiceId || !shopId || !uuid.test(invoiceId) || !uuid.test(shopId)) {
+	if (!invoiceId || !shopId || !isUuid(invoiceId) || !isUuid(shopId)) {
 		return { status: 400, body: 'The checkout names no invoice.' };
 	}
 	if (s.payment_status !== 'paid' || typeof s.amount_total !== 'number') {

@@ -1,7 +1,7 @@
 // Photos of a job: on a log entry (the Bench) or taken at intake (the job card). One set of
 // rules for both: type from the bytes, at most 10 MB, stored behind the storage interface.
 import { and, asc, eq, isNull } from 'drizzle-orm';
-import { checkPhoto } from '$lib/uploads/check';
+import { checkFileName, checkPhoto } from '$lib/uploads/check';
 import { db } from './db';
 import * as s from './db/schema';
 import { uploads, type FileStorage } from './storage';
@@ -17,6 +17,8 @@ export async function storePhoto(
 	file: { bytes: Uint8Array; name: string },
 	storage: FileStorage = uploads()
 ): Promise<StoreResult> {
+	const named = checkFileName(file.name);
+	if (!named.ok) return { ok: false, message: named.message };
 	const check = checkPhoto(file.bytes);
 	if (!check.ok) return { ok: false, message: check.message };
 	const id = crypto.randomUUID();
@@ -28,7 +30,7 @@ export async function storePhoto(
 			shopId: target.shopId,
 			jobId: target.jobId,
 			entryId: target.entryId,
-			fileName: (file.name || `photo.${check.extension}`).slice(0, 200),
+			fileName: file.name || `photo.${check.extension}`,
 			mime: check.mime,
 			bytes: file.bytes.length,
 			storageKey: key,

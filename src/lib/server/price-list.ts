@@ -12,7 +12,8 @@ export function listParts(shopId: string, opts: { all?: boolean } = {}) {
 		.orderBy(asc(part.code));
 }
 
-export type PartResult = { ok: true } | { ok: false; field?: string; message: string };
+export type PartResult =
+	{ ok: true } | { ok: false; field?: string; message: string; status?: 404 };
 
 export async function savePart(
 	shopId: string,
@@ -37,7 +38,7 @@ export async function savePart(
 				.set(values)
 				.where(and(eq(part.shopId, shopId), eq(part.id, input.partId)))
 				.returning({ id: part.id });
-			if (!rows.length) return { ok: false, message: 'No such part in this shop.' };
+			if (!rows.length) return { ok: false, status: 404, message: 'No such part in this shop.' };
 		} else {
 			await db.insert(part).values({ shopId, ...values });
 		}

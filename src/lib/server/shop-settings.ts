@@ -39,7 +39,7 @@ export async function saveTool(
 		calibratedOn: string;
 		intervalMonths: number | null;
 	}
-): Promise<{ ok: true } | { ok: false; field?: string; message: string }> {
+): Promise<{ ok: true } | { ok: false; field?: string; message: string; status?: 404 }> {
 	const values = {
 		identifier: input.identifier,
 		kind: input.kind,
@@ -56,7 +56,7 @@ export async function saveTool(
 				.set(values)
 				.where(and(eq(torqueTool.shopId, shopId), eq(torqueTool.id, input.toolId)))
 				.returning({ id: torqueTool.id });
-			if (!rows.length) return { ok: false, message: 'No such tool in this shop.' };
+			if (!rows.length) return { ok: false, status: 404, message: 'No such tool in this shop.' };
 		} else {
 			await db.insert(torqueTool).values({ shopId, ...values });
 		}

@@ -20,7 +20,10 @@ export function listStaff(shopId: string) {
 		.orderBy(asc(user.name));
 }
 
-export type StaffResult = { ok: true } | { ok: false; field?: string; message: string };
+export type StaffResult =
+	{ ok: true } | { ok: false; field?: string; message: string; status?: 404 };
+
+const noSuchAccount = { ok: false, status: 404, message: 'No such account in this shop.' } as const;
 
 export async function createStaff(
 	shopId: string,
@@ -65,7 +68,7 @@ async function findInShop(shopId: string, userId: string) {
 
 export async function setRole(shopId: string, userId: string, role: Role): Promise<StaffResult> {
 	const row = await findInShop(shopId, userId);
-	if (!row) return { ok: false, message: 'No such account in this shop.' };
+	if (!row) return noSuchAccount;
 	if (row.role === 'owner' && role !== 'owner' && (await wouldRemoveLastOwner(shopId, userId))) {
 		return { ok: false, message: 'The shop needs at least one active owner.' };
 	}
@@ -83,7 +86,7 @@ export async function setActive(
 	active: boolean
 ): Promise<StaffResult> {
 	const row = await findInShop(shopId, userId);
-	if (!row) return { ok: false, message: 'No such account in this shop.' };
+	if (!row) return noSuchAccount;
 	if (!active && row.role === 'owner' && (await wouldRemoveLastOwner(shopId, userId))) {
 		return { ok: false, message: 'The shop needs at least one active owner.' };
 	}
@@ -102,7 +105,7 @@ export async function resetPassword(
 	password: string
 ): Promise<StaffResult> {
 	const row = await findInShop(shopId, userId);
-	if (!row) return { ok: false, message: 'No such account in this shop.' };
+	if (!row) return noSuchAccount;
 	await db
 		.update(user)
 		.set({ passwordHash: await hashPassword(password) })

@@ -77,7 +77,14 @@ export async function workReport(shopId: string, jobId: string): Promise<WorkRep
 			id: e.id,
 			kind: e.kind,
 			what,
-			value: e.value !== null && e.unit ? formatQuantity(e.value, e.unit) : null,
+			// As called out, and in the spec's unit when that differs (1.1 qt = 1.04 L).
+			value:
+				e.value !== null && e.unit
+					? formatQuantity(e.value, e.unit) +
+						(e.specValue !== null && e.specUnit && e.specUnit !== e.unit
+							? ` = ${formatQuantity(e.specValue, e.specUnit)}`
+							: '')
+					: null,
 			verdict: e.verdict ? verdictWords[e.verdict] : null,
 			by: r.author ?? 'unknown',
 			at: e.occurredAt,

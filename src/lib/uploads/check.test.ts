@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { MAX_PHOTO_BYTES, checkPhoto, sniffImage } from './check';
+import {
+	MAX_FILE_NAME,
+	MAX_PHOTO_BYTES,
+	checkFileName,
+	checkPhoto,
+	isTooLarge,
+	sniffImage
+} from './check';
 
 // Signatures: JPEG SOI marker FF D8 FF (ITU-T T.81 / JFIF), PNG signature (RFC 2083 §3.1, the
 // PNG specification), WebP in a RIFF container (RFC 9649 §2).
@@ -46,5 +53,47 @@ describe('checkPhoto', () => {
 		const r = checkPhoto(over);
 		expect(r.ok).toBe(false);
 		if (!r.ok) expect(r.message).toContain('at most 10 MB');
+	});
+});
+
+describe('checkFileName', () => {
+	it('keeps plain names, with spaces, dots and letters of any script', () => {
+		for (const name of [
+			'IMG_2041.JPG',
+			'rear axle, after.png',
+			'photo..jpg',
+			'заднее колесо.webp'
+		]) {
+			expect(checkFileName(name), name).toEqual({ ok: true });
+		}
+		expect(checkFileName('a'.repeat(MAX_FILE_NAME))).toEqual({ ok: true });
+	});
+
+	it('refuses folders, in either slash, however they climb', () => {
+		for (const name of ['../../etc/passwd.jpg', '..\\..\\boot.png', 'C:\\Users\\x.jpg', '/x.png']) {
+			const r = checkFileName(name);
+			expect(r.ok, name).toBe(false);
+			if (!r.ok) expect(r.message).toContain('cannot contain folders');
+		}
+	});
+
+	it('refuses NUL, line breaks and the right-to-left override that hides an extension', () => {
+		for (const name of ['x.jpg\u0000.exe', 'a\nb.png', 'photo\u202Egpj.exe', 'x\u200B.png']) {
+			const r = checkFileName(name);
+			expect(r.ok, JSON.stringify(name)).toBe(false);
+			if (!r.ok) expect(r.message).toContain('control or invisible');
+		}
+		expect(checkFileName('a'.repeat(MAX_FILE_NAME + 1)).ok).toBe(false);
+	});
+});
+
+describe('isTooLarge', () => {
+	it('knows the body-size error by its 413 status, and nothing else', () => {
+		expect(
+			isTooLarge(Object.assign(new Error('Content-length exceeds limit'), { status: 413 }))
+		).toBe(true);
+		expect(isTooLarge(new TypeError('Failed to parse body as FormData.'))).toBe(false);
+		expect(isTooLarge(null)).toBe(false);
+		expect(isTooLarge('413')).toBe(false);
 	});
 });

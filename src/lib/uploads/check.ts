@@ -29,6 +29,30 @@ export function sniffImage(bytes: Uint8Array): ImageMime | null {
 	return null;
 }
 
+export const MAX_FILE_NAME = 200;
+
+/**
+ * Whether a file's name may be kept with it. The name never becomes a path on disk (storage keys
+ * are Benchcall's own), but it is kept and shown, so anything that is not a plain name is
+ * refused: folders (`../../x.jpg`, `C:\\photos\\x.jpg`), control characters (NUL, line breaks)
+ * and invisible format characters such as U+202E, which can make `gpj.exe` read as `exe.jpg`.
+ */
+export function checkFileName(name: string): { ok: true } | { ok: false; message: string } {
+	if (/[/\\]/.test(name)) {
+		return { ok: false, message: 'A file name cannot contain folders (/ or \\): rename the file.' };
+	}
+	if (/[\p{Cc}\p{Cf}]/u.test(name)) {
+		return {
+			ok: false,
+			message: 'The file name has control or invisible characters: rename the file.'
+		};
+	}
+	if (name.length > MAX_FILE_NAME) {
+		return { ok: false, message: `A file name is at most ${MAX_FILE_NAME} characters.` };
+	}
+	return { ok: true };
+}
+
 /** Whether the bytes are a photo Benchcall keeps: JPEG, PNG or WebP, 1 byte to 10 MB. */
 export function checkPhoto(bytes: Uint8Array, maxBytes = MAX_PHOTO_BYTES): PhotoCheck {
 	if (bytes.length === 0) return { ok: false, message: 'The file is empty.' };
@@ -48,4 +72,12 @@ export function checkPhoto(bytes: Uint8Array, maxBytes = MAX_PHOTO_BYTES): Photo
 		};
 	}
 	return { ok: true, mime, extension: IMAGE_EXTENSIONS[mime] };
+}
+
+/**
+ * Whether reading a request body failed because it was over the server's size limit
+ * (adapter-node's BODY_SIZE_LIMIT: the body stream errors with status 413).
+ */
+export function isTooLarge(e: unknown): boolean {
+	return typeof e === 'object' && e !== null && (e as { status?: unknown }).status === 413;
 }

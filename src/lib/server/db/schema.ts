@@ -249,7 +249,12 @@ export const job = pgTable(
 		signedOffBy: uuid('signed_off_by').references(() => user.id, { onDelete: 'set null' }),
 		signedOffAt: timestamp('signed_off_at', { withTimezone: true }),
 		createdBy: uuid('created_by').references(() => user.id, { onDelete: 'set null' }),
-		createdAt: createdAt()
+		createdAt: createdAt(),
+		/**
+		 * Bumped by triggers (drizzle/0005) whenever the job's steps or procedures change, so an
+		 * app server may keep the steps in memory and know, from this one number, when to re-read.
+		 */
+		stepsVersion: integer('steps_version').notNull().default(0)
 	},
 	(t) => [
 		uniqueIndex('job_shop_number_key').on(t.shopId, t.number),

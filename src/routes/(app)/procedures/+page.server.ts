@@ -4,6 +4,7 @@ import { procedureEditors, procedureReaders } from '$lib/procedures/access';
 import { procedureFormSchema } from '$lib/schemas/procedure';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import * as procedures from '$lib/server/procedures';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -24,7 +25,7 @@ export const load: PageServerLoad = async ({ url }) => {
 export const actions = {
 	create: async ({ request }) => {
 		const user = requireRole(...editors);
-		const form = await request.formData();
+		const form = await readForm(request);
 		const parsed = procedureFormSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
 			return fail(400, {
@@ -38,7 +39,7 @@ export const actions = {
 	},
 	duplicate: async ({ request }) => {
 		const user = requireRole(...editors);
-		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = idSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success)
 			return fail(400, { action: 'duplicate', errors: fieldErrors(parsed.error) });
 		const id = await procedures.duplicateProcedure(user.shopId, parsed.data.id);
@@ -47,16 +48,20 @@ export const actions = {
 	},
 	archive: async ({ request }) => {
 		const user = requireRole(...editors);
-		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = idSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success) return fail(400, { action: 'archive', errors: fieldErrors(parsed.error) });
-		await procedures.setArchived(user.shopId, parsed.data.id, true);
+		if (!(await procedures.setArchived(user.shopId, parsed.data.id, true))) {
+			return fail(404, { action: 'archive', errors: formError('No such procedure.') });
+		}
 		return { action: 'archive', done: 'Archived: it is no longer offered for new jobs.' };
 	},
 	restore: async ({ request }) => {
 		const user = requireRole(...editors);
-		const parsed = idSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = idSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success) return fail(400, { action: 'restore', errors: fieldErrors(parsed.error) });
-		await procedures.setArchived(user.shopId, parsed.data.id, false);
+		if (!(await procedures.setArchived(user.shopId, parsed.data.id, false))) {
+			return fail(404, { action: 'restore', errors: formError('No such procedure.') });
+		}
 		return { action: 'restore', done: 'Back in the library.' };
 	}
 } satisfies Actions;

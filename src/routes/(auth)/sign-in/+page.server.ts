@@ -3,6 +3,7 @@ import { landingFor } from '$lib/auth/roles';
 import { signInSchema } from '$lib/schemas/auth';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { checkSignIn, lucia } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
@@ -11,7 +12,7 @@ export const load: PageServerLoad = ({ locals, url }) => {
 
 export const actions = {
 	default: async ({ request, cookies, url, getClientAddress, locals }) => {
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = signInSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });

@@ -3,6 +3,7 @@ import { checkTransition } from '$lib/jobs/machine';
 import { assignSchema, extraWorkSchema, transitionSchema } from '$lib/schemas/job';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
+import { readForm, tooLargeMessage } from '$lib/server/request';
 import { db } from '$lib/server/db';
 import {
 	addExtraWork,
@@ -14,7 +15,7 @@ import {
 import { stateHistory, transitionFacts, transitionJob } from '$lib/server/jobs';
 import { listIntakePhotos, storePhoto } from '$lib/server/photos';
 import { listProcedures } from '$lib/server/procedures';
-import { MAX_PHOTO_BYTES } from '$lib/uploads/check';
+import { MAX_PHOTO_BYTES, isTooLarge } from '$lib/uploads/check';
 import type { Actions, PageServerLoad } from './$types';
 
 function jobNumber(raw: string): number {
@@ -65,7 +66,10 @@ export const actions = {
 		let form: FormData;
 		try {
 			form = await request.formData();
-		} catch {
+		} catch (e) {
+			if (isTooLarge(e)) {
+				return fail(413, { action: 'photo', errors: formError(tooLargeMessage) });
+			}
 			return fail(400, { action: 'photo', errors: formError('Choose one or more photos to add.') });
 		}
 		const files = form.getAll('photo').filter((f): f is File => f instanceof File && f.size > 0);
@@ -99,7 +103,7 @@ export const actions = {
 	state: async ({ request, params }) => {
 		const user = requireRole('service_writer', 'owner');
 		const card = await cardOr404(user.shopId, params.number);
-		const form = await request.formData();
+		const form = await readForm(request);
 		const parsed = transitionSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
 			return fail(400, {
@@ -135,7 +139,7 @@ export const actions = {
 	assign: async ({ request, params }) => {
 		const user = requireRole('service_writer', 'owner');
 		const card = await cardOr404(user.shopId, params.number);
-		const form = await request.formData();
+		const form = await readForm(request);
 		const parsed = assignSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
 			return fail(400, {
@@ -157,7 +161,7 @@ export const actions = {
 	extra: async ({ request, params }) => {
 		const user = requireRole('service_writer', 'owner');
 		const card = await cardOr404(user.shopId, params.number);
-		const form = await request.formData();
+		const form = await readForm(request);
 		const parsed = extraWorkSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
 			return fail(400, {

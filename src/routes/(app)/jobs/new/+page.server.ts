@@ -2,6 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { intakeFromForm, intakeSchema } from '$lib/schemas/job';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import { createJobCard, findCustomers, listBays, listTechnicians } from '$lib/server/job-cards';
 import { listProcedures } from '$lib/server/procedures';
 import type { Actions, PageServerLoad } from './$types';
@@ -21,7 +22,7 @@ export const load: PageServerLoad = async ({ url }) => {
 export const actions = {
 	default: async ({ request }) => {
 		const user = requireRole('service_writer', 'owner');
-		const form = await request.formData();
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const procedureIds = form.getAll('procedureIds').map(String);
 		const parsed = intakeSchema.safeParse(intakeFromForm(form));

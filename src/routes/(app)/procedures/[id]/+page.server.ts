@@ -7,15 +7,15 @@ import {
 	stepMoveSchema
 } from '$lib/schemas/procedure';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import { listParts } from '$lib/server/price-list';
 import * as procedures from '$lib/server/procedures';
 import type { Actions, PageServerLoad } from './$types';
 
-const uuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 async function procedureOr404(shopId: string, id: string) {
-	if (!uuid.test(id)) error(404, 'No such procedure.');
+	if (!isUuid(id)) error(404, 'No such procedure.');
 	const p = await procedures.getProcedure(shopId, id);
 	if (!p) error(404, 'No such procedure in this shop.');
 	return p;
@@ -34,7 +34,8 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	details: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
-		const form = await request.formData();
+		await procedureOr404(user.shopId, params.id);
+		const form = await readForm(request);
 		const parsed = procedureFormSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
 			return fail(400, {
@@ -49,7 +50,8 @@ export const actions = {
 	},
 	step: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
-		const form = await request.formData();
+		await procedureOr404(user.shopId, params.id);
+		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = stepFormSchema.safeParse(Object.fromEntries(form));
 		const stepId = values.stepId || 'new';
@@ -64,15 +66,19 @@ export const actions = {
 	},
 	deleteStep: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
-		const parsed = stepIdSchema.safeParse(Object.fromEntries(await request.formData()));
+		await procedureOr404(user.shopId, params.id);
+		const parsed = stepIdSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success)
 			return fail(400, { action: 'deleteStep', errors: fieldErrors(parsed.error) });
-		await procedures.deleteStep(user.shopId, params.id, parsed.data.stepId);
+		if (!(await procedures.deleteStep(user.shopId, params.id, parsed.data.stepId))) {
+			return fail(404, { action: 'deleteStep', errors: formError('No such step.') });
+		}
 		return { action: 'deleteStep', done: 'Step removed from the library (jobs keep their copy).' };
 	},
 	move: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
-		const parsed = stepMoveSchema.safeParse(Object.fromEntries(await request.formData()));
+		await procedureOr404(user.shopId, params.id);
+		const parsed = stepMoveSchema.safeParse(Object.fromEntries(await readForm(request)));
 		if (!parsed.success) return fail(400, { action: 'move', errors: fieldErrors(parsed.error) });
 		await procedures.moveStep(user.shopId, params.id, parsed.data.stepId, parsed.data.direction);
 		return { action: 'move', moved: parsed.data.stepId };

@@ -3,6 +3,7 @@ import { procedureEditors } from '$lib/procedures/access';
 import { importFormSchema } from '$lib/schemas/procedure';
 import { fieldErrors } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import { kindOf, previewImport, saveImport } from '$lib/server/procedure-import';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -29,7 +30,7 @@ async function contentOf(form: FormData) {
 export const actions = {
 	preview: async ({ request }) => {
 		const user = requireRole(...procedureEditors);
-		const read = await contentOf(await request.formData());
+		const read = await contentOf(await readForm(request));
 		if ('error' in read) return fail(400, { errors: { file: read.error } });
 		const parsed = importFormSchema.safeParse(read);
 		if (!parsed.success)
@@ -40,7 +41,7 @@ export const actions = {
 	},
 	save: async ({ request }) => {
 		const user = requireRole(...procedureEditors);
-		const read = await contentOf(await request.formData());
+		const read = await contentOf(await readForm(request));
 		if ('error' in read) return fail(400, { errors: { file: read.error } });
 		const parsed = importFormSchema.safeParse(read);
 		if (!parsed.success) return fail(400, { errors: { file: 'Choose a file to import.' } });

@@ -13,6 +13,7 @@ import {
 	pickPartSchema
 } from '$lib/schemas/invoice';
 import { requireRole } from '$lib/server/auth';
+import { readForm } from '$lib/server/request';
 import { invoicePdf } from '$lib/server/invoice-pdf';
 import {
 	addManualLine,
@@ -61,7 +62,7 @@ async function parse<S extends z.ZodType>(
 	schema: S,
 	action: string
 ): Promise<{ parsed: z.infer<S>; form: FormData } | ReturnType<typeof fail<Failure>>> {
-	const form = await request.formData();
+	const form = await readForm(request);
 	const r = schema.safeParse(Object.fromEntries(form));
 	if (!r.success) {
 		return fail(400, { action, errors: fieldErrors(r.error), values: echoValues(form) });

@@ -1,12 +1,13 @@
 import { error } from '@sveltejs/kit';
 import { simpleParser } from 'mailparser';
+import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
 import { getOutboxMessage } from '$lib/server/mail';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const user = requireRole('owner', 'service_writer');
-	if (!/^[0-9a-f-]{36}$/i.test(params.id)) error(404, 'No such message.');
+	if (!isUuid(params.id)) error(404, 'No such message.');
 	const m = await getOutboxMessage(user.shopId, params.id);
 	if (!m) error(404, 'No such message in this shop.');
 	const parsed = await simpleParser(m.raw);

@@ -1,6 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole, requireUser } from '$lib/server/auth';
 import { appendEntry, getJob, listEntries } from '$lib/server/entries';
+import { readJson } from '$lib/server/request';
 import { entryListQuerySchema, entryPostSchema, firstIssue } from '$lib/schemas/bench';
 import type { RequestHandler } from './$types';
 
@@ -17,12 +18,7 @@ export const GET: RequestHandler = async ({ params, url }) => {
 /** Appends one entry; the same id again answers 200 with the stored entry. */
 export const POST: RequestHandler = async ({ params, request }) => {
 	const user = requireRole('technician', 'foreman', 'owner');
-	let body: unknown;
-	try {
-		body = await request.json();
-	} catch {
-		error(400, 'The body must be JSON: { id, text, source, occurredAt? }.');
-	}
+	const body = await readJson(request, 'The body must be JSON: { id, text, source, occurredAt? }.');
 	const parsed = entryPostSchema.safeParse(body);
 	if (!parsed.success) error(400, firstIssue(parsed.error));
 	const result = await appendEntry(user, params.jobId, parsed.data);

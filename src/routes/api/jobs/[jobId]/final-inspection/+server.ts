@@ -1,18 +1,14 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
 import { sendToFinalInspection } from '$lib/server/entries';
+import { readJson } from '$lib/server/request';
 import { finalInspectionSchema, firstIssue } from '$lib/schemas/bench';
 import type { RequestHandler } from './$types';
 
 /** Sends the job from in work to final inspection (a reason when steps are still open). */
 export const POST: RequestHandler = async ({ params, request }) => {
 	const user = requireRole('technician', 'foreman', 'owner');
-	let body: unknown;
-	try {
-		body = await request.json();
-	} catch {
-		error(400, 'The body must be JSON: { reason? }.');
-	}
+	const body = await readJson(request, 'The body must be JSON: { reason? }.');
 	const parsed = finalInspectionSchema.safeParse(body);
 	if (!parsed.success) error(400, firstIssue(parsed.error));
 	const result = await sendToFinalInspection(user, params.jobId, parsed.data.reason);

@@ -1,12 +1,13 @@
 import { error } from '@sveltejs/kit';
 import { linesCsv } from '$lib/invoice/csv';
+import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
 import { findJobByNumber, getInvoice } from '$lib/server/invoices';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ params }) => {
 	const user = requireRole('service_writer', 'owner');
-	if (!/^\d{1,9}$/.test(params.number) || !/^[0-9a-f-]{36}$/i.test(params.invoiceId)) {
+	if (!/^\d{1,9}$/.test(params.number) || !isUuid(params.invoiceId)) {
 		error(404, 'No such invoice.');
 	}
 	const job = await findJobByNumber(user.shopId, Number(params.number));

@@ -1,4 +1,5 @@
 import { error } from '@sveltejs/kit';
+import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
 import { invoicePdf } from '$lib/server/invoice-pdf';
 import { findJobByNumber, getInvoice } from '$lib/server/invoices';
@@ -8,7 +9,7 @@ import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ params }) => {
 	const user = requireRole('service_writer', 'owner');
-	if (!/^\d{1,9}$/.test(params.number) || !/^[0-9a-f-]{36}$/i.test(params.invoiceId)) {
+	if (!/^\d{1,9}$/.test(params.number) || !isUuid(params.invoiceId)) {
 		error(404, 'No such invoice.');
 	}
 	const job = await findJobByNumber(user.shopId, Number(params.number));

@@ -1,12 +1,13 @@
 import { error } from '@sveltejs/kit';
 import { simpleParser } from 'mailparser';
+import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
 import { getOutboxMessage } from '$lib/server/mail';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ params }) => {
 	const user = requireRole('owner', 'service_writer');
-	if (!/^[0-9a-f-]{36}$/i.test(params.id) || !/^\d{1,3}$/.test(params.index)) {
+	if (!isUuid(params.id) || !/^\d{1,3}$/.test(params.index)) {
 		error(404, 'No such attachment.');
 	}
 	const m = await getOutboxMessage(user.shopId, params.id);

@@ -1,7 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
 import { attachPhoto } from '$lib/server/entries';
-import { MAX_PHOTO_BYTES } from '$lib/uploads/check';
+import { MAX_PHOTO_BYTES, isTooLarge } from '$lib/uploads/check';
 import type { RequestHandler } from './$types';
 
 /** Attaches a photo (multipart field `photo`) to an entry of the job. */
@@ -10,7 +10,8 @@ export const POST: RequestHandler = async ({ params, request }) => {
 	let form: FormData;
 	try {
 		form = await request.formData();
-	} catch {
+	} catch (e) {
+		if (isTooLarge(e)) error(413, 'The photo is larger than 10 MB.');
 		error(400, 'Send the photo as multipart form data in the field "photo".');
 	}
 	const file = form.get('photo');
