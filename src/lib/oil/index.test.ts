@@ -83,7 +83,7 @@ describe('parseOilGrade', () => {
 			}),
 			{ numRuns: 300 }
 		);
-	});
+	}, 30_000); // 300 generated strings: seconds on a busy shared machine, not a timing check
 });
 
 describe('J300 multigrades', () => {
