@@ -11,7 +11,8 @@ const origin = `http://127.0.0.1:${port}`;
 export default defineConfig({
 	testDir: '.',
 	testMatch: '**/*.spec.ts',
-	timeout: 30_000,
+	// Two workers, the app, PostgreSQL and Chromium share 2 cores: a whole flow can take 30 s.
+	timeout: 60_000,
 	expect: { timeout: 5_000 },
 	fullyParallel: false,
 	workers: 2,
