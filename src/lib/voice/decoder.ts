@@ -31,29 +31,6 @@ export function useGrammar(decoder: Decoder, input: GrammarInput): VoiceGrammar 
 	return grammar;
 }
 
-/**
- * Streaming use, as the Bench listens: start when speech begins, feed each ~100 ms block as it
- * arrives, finish when the phrase ends. The search keeps up while the technician speaks, so
- * what is left to do after the last word is only the last block and the final search.
- */
-export function startPhrase(decoder: Decoder): void {
-	decoder.start();
-}
-
-export function feedPhrase(decoder: Decoder, block: Float32Array): void {
-	decoder.process_audio(block, false, false);
-}
-
-/** The best guess so far, for the interim words in the call bar. */
-export function partialPhrase(decoder: Decoder): string {
-	return decoder.get_text().trim();
-}
-
-export function finishPhrase(decoder: Decoder): string {
-	decoder.stop();
-	return decoder.get_text().trim();
-}
-
 /** Decodes one whole phrase; '' when nothing in the grammar was heard. */
 export function decodePhrase(decoder: Decoder, samples: Float32Array): string {
 	decoder.start();

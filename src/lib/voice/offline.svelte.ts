@@ -147,6 +147,7 @@ export class OfflineVoice {
 	#floor = 0.005;
 	#preroll: Float32Array[] = [];
 	/** The phrase's audio: decoded whole at its end, with the utterance's own normalisation. */
+	#utterance: Float32Array[] = [];
 
 	async #listen(events: RecogniserEvents) {
 		if (this.listening) return;
@@ -188,29 +189,27 @@ export class OfflineVoice {
 	}
 
 	#begin() {
-		if (!this.#decoder) return;
 		this.#applyGrammar();
 		this.#inUtterance = true;
 		this.#uttMs = 0;
 		this.#quietMs = 0;
-		// Streaming: the decoder works through the phrase while it is spoken, so the wait after
-		// the last word is only the final search (npm run bench:voice measures both ways).
-		this.#grammarTools!.startPhrase(this.#decoder);
-		for (const b of this.#preroll) this.#feed(b);
+		this.#utterance = this.#preroll;
 		this.#preroll = [];
-	}
-
-	#feed(block: Float32Array) {
-		if (!this.#decoder) return;
-		const tools = this.#grammarTools!;
-		tools.feedPhrase(this.#decoder, block);
-		this.#events?.onInterim(tools.partialPhrase(this.#decoder));
 	}
 
 	#end() {
 		if (!this.#inUtterance || !this.#decoder) return;
 		this.#inUtterance = false;
-		const words = this.#grammarTools!.finishPhrase(this.#decoder);
+		const blocks = this.#utterance;
+		this.#utterance = [];
+		const samples = new Float32Array(blocks.reduce((n, b) => n + b.length, 0));
+		let at = 0;
+		for (const b of blocks) {
+			samples.set(b, at);
+			at += b.length;
+		}
+		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.3 s a phrase)
+		const words = this.#grammarTools!.decodePhrase(this.#decoder, samples);
 		this.#events?.onInterim('');
 		if (words) this.#events?.onFinal(words);
 		// a grammar for a job changed while speaking
@@ -233,7 +232,7 @@ export class OfflineVoice {
 			}
 			this.#begin();
 		}
-		this.#feed(block);
+		this.#utterance.push(block);
 		this.#uttMs += ms;
 		this.#quietMs = speech ? 0 : this.#quietMs + ms;
 		if (!this.pushToTalk && (this.#quietMs >= END_SILENCE_MS || this.#uttMs >= MAX_UTTERANCE_MS)) {
@@ -253,8 +252,6 @@ export class OfflineVoice {
 		void this.#ctx?.close();
 		this.#ctx = null;
 		this.#preroll = [];
-		// a phrase cut off by an error: close the decoder's utterance and drop what it heard
-		if (this.#inUtterance && this.#decoder) this.#grammarTools!.finishPhrase(this.#decoder);
 		this.#inUtterance = false;
 		this.level = 0;
 		const events = this.#events;
