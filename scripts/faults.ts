@@ -469,7 +469,9 @@ async function scenePostgresRestart(benches: Bench[]) {
 	scene = 'fault-b-down';
 	say('PostgreSQL stopped (fast shutdown: open sessions ended)');
 	const waitingAtStop = new Set((await Promise.all(benches.map(outbox))).flat());
-	await sleep(4000);
+	// Down long enough that requests made meanwhile are answered meanwhile: on a quiet machine a
+	// 4 s outage ended before the first refused connection had been retried and answered.
+	await sleep(10_000);
 	await startCluster();
 	const startedAt = Date.now();
 	scene = 'fault-b-back';
@@ -502,7 +504,10 @@ async function scenePostgresRestart(benches: Bench[]) {
 		]
 			.map(([s, n]) => `${s}×${n}`)
 			.join(', ');
-	console.log(`    probe answers while the database was down: ${byStatus(during)}`);
+	const slowest = Math.max(0, ...during.map((p) => p.at - p.start));
+	console.log(
+		`    probe answers while the database was down: ${byStatus(during)} (slowest ${slowest} ms)`
+	);
 	const posts = new Map<number, number>();
 	for (const b of benches) {
 		const before = statusesBefore.get(b.index) ?? new Map<number, number>();
