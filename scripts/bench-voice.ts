@@ -5,8 +5,12 @@
  * figures only; nothing here is asserted. Goal (issue 5): decode ≤ 300 ms per phrase and model
  * load ≤ 2 s on a 2-core machine.
  *
- *   npm run bench:voice            (5 rounds)
- *   npm run bench:voice -- 20      (20 rounds)
+ *   npm run bench:voice              (5 rounds)
+ *   npm run bench:voice -- 20        (20 rounds)
+ *   npm run bench:voice -- --browser (then the same in Debian's Chromium, on the built app: one
+ *                                     browser per phrase with the WAV as its microphone; model
+ *                                     load first from the network, then from the browser's cache,
+ *                                     and the decode time the Bench reports)
  */
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
@@ -15,7 +19,8 @@ import createModule from 'soundswallower';
 import { parsePhrase, isCancel, type StepSpec } from '../src/lib/phrase/index';
 import { createDecoder, decodePhrase, readWav, useGrammar } from '../src/lib/voice/decoder';
 
-const rounds = Math.max(1, Number(process.argv[2]) || 5);
+const browserToo = process.argv.includes('--browser');
+const rounds = Math.max(1, Number(process.argv.find((a) => /^\d+$/.test(a))) || 5);
 const dir = fileURLToPath(new URL('../tests/fixtures/voice/', import.meta.url));
 const manifest = JSON.parse(readFileSync(dir + 'manifest.json', 'utf8')) as {
 	jobs: Record<string, Omit<StepSpec, 'id'>[]>;
@@ -86,3 +91,72 @@ console.log(
 		`${right}/${manifest.phrases.length} right`
 );
 decoder.delete();
+
+if (browserToo) await inChromium();
+
+/** The same phrases through the Bench in Chromium: what a technician's browser does. */
+async function inChromium() {
+	const { chromium } = await import('@playwright/test');
+	const { ensureBuild } = await import('./lib/build.js');
+	const { chromiumArgs, chromiumPath } = await import('./lib/chromium.js');
+	const { demoPassword } = await import('./lib/demo.js');
+	const { prepareDatabase } = await import('./lib/prepare.js');
+	const { startApp } = await import('./lib/harness');
+	const { fakeMicrophoneArgs, paddedWav } = await import('./lib/voice-wav');
+	const { tmpdir } = await import('node:os');
+	const { join } = await import('node:path');
+
+	const url = await prepareDatabase('benchcall_bench_voice', { fresh: true });
+	await ensureBuild();
+	const app = await startApp({
+		port: Number(process.env.BENCH_PORT ?? 4197),
+		databaseUrl: url,
+		logFile: join(tmpdir(), 'benchcall-bench-voice-app.log')
+	});
+	const cold: number[] = [];
+	const cached: number[] = [];
+	const decode: number[] = [];
+	console.log('\nin Chromium (the built app, one browser per phrase):');
+	try {
+		for (const p of manifest.phrases) {
+			const browser = await chromium.launch({
+				executablePath: chromiumPath,
+				args: [...chromiumArgs, ...fakeMicrophoneArgs(paddedWav(p.file, 4))]
+			});
+			try {
+				const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+				await page.goto(`${app.base}/sign-in`);
+				await page.getByLabel('E-mail').fill('tomasz@kettlestreet.test');
+				await page.getByLabel('Password').fill(demoPassword);
+				await page.getByRole('button', { name: 'Sign in' }).click();
+				await page.waitForURL(/\/bench/);
+				const loadOffline = async () => {
+					await page.goto(`${app.base}/bench?job=${p.job}`);
+					await page.getByTestId('voice-settings').locator('summary').click();
+					await page.getByTestId('voice-choice').selectOption('offline');
+					const ready = page.getByTestId('voice-ready');
+					await ready.waitFor({ timeout: 30_000 });
+					return Number((await ready.textContent())?.match(/loaded in ([\d.]+) s/)?.[1]) * 1000;
+				};
+				cold.push(await loadOffline());
+				cached.push(await loadOffline());
+				await page.getByRole('button', { name: /Start listening/ }).click();
+				const took = page.getByTestId('voice-decode-ms');
+				await took.waitFor({ timeout: 20_000 });
+				const ms = Number(await took.getAttribute('data-ms'));
+				decode.push(ms);
+				console.log(`${String(ms).padStart(5)} ms  ${p.file}`);
+			} finally {
+				await browser.close();
+			}
+		}
+	} finally {
+		app.proc.kill('SIGTERM');
+	}
+	for (const list of [cold, cached, decode]) list.sort((a, b) => a - b);
+	console.log(
+		`Chromium: model load p50 ${ms(pct(cold, 50))} first, ${ms(pct(cached, 50))} from cache ` +
+			`(p95 ${ms(pct(cached, 95))}); decode p50 ${ms(pct(decode, 50))}, p95 ${ms(pct(decode, 95))}`
+	);
+	process.exit(0);
+}

@@ -11,7 +11,11 @@ import { isRoot, must, run, step } from './lib/run.js';
 
 const chromium = chromiumPath;
 const reports = join(root, 'test-results', 'reports');
-const only = process.argv.slice(2); // e.g. `npm test -- e2e` runs one stage
+// `npm test -- e2e` runs one stage; any other word filters test files by name, as vitest and
+// Playwright do (`npm test -- e2e voice-offline`).
+const STAGES = ['check', 'lint', 'format', 'unit', 'db', 'e2e'];
+const only = process.argv.slice(2).filter((a) => STAGES.includes(a));
+const filters = process.argv.slice(2).filter((a) => !STAGES.includes(a));
 
 await ensurePackages();
 await ensureChromium();
@@ -92,7 +96,8 @@ for (const stage of stages) {
 	if (only.length && !only.includes(stage.name)) continue;
 	step(`${stage.name}`);
 	const started = Date.now();
-	const code = await run(stage.cmd, stage.args, { env: { ...env, ...stage.env } });
+	const args = stage.report ? [...stage.args, ...filters] : stage.args;
+	const code = await run(stage.cmd, args, { env: { ...env, ...stage.env } });
 	results.push({ ...stage, code, seconds: (Date.now() - started) / 1000, counts: counts(stage) });
 }
 

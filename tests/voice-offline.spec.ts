@@ -5,32 +5,9 @@
  * Chromium takes the fake microphone's file at launch.
  */
 import { chromium, expect, test, type LaunchOptions } from '@playwright/test';
-import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { fakeMicrophoneArgs, paddedWav } from '../scripts/lib/voice-wav';
 import { demo, signIn } from './helpers/auth';
 import { entry } from './helpers/bench-db';
-
-const fixtures = new URL('./fixtures/voice/', import.meta.url);
-
-/**
- * The fixture with 7 s of silence after it: Chromium loops the file, and the pause lets the
- * phrase end, the 3 s confirm window run out and the entry be logged before it is heard again.
- */
-function padded(file: string): string {
-	const wav = readFileSync(new URL(file, fixtures));
-	const dataAt = wav.indexOf('data') + 8;
-	const rate = wav.readUInt32LE(24);
-	const silence = Buffer.alloc(rate * 2 * 7);
-	const out = Buffer.concat([wav.subarray(0, dataAt), wav.subarray(dataAt), silence]);
-	out.writeUInt32LE(out.length - 8, 4);
-	out.writeUInt32LE(out.length - dataAt, dataAt - 4);
-	const dir = join(tmpdir(), 'benchcall-voice-e2e');
-	mkdirSync(dir, { recursive: true });
-	const path = join(dir, file);
-	writeFileSync(path, out);
-	return path;
-}
 
 const cases = [
 	{
@@ -68,13 +45,7 @@ test.describe('offline voice on the Bench', () => {
 				const base = (info.project.use.launchOptions ?? {}) as LaunchOptions;
 				const browser = await chromium.launch({
 					...base,
-					args: [
-						...(base.args ?? []),
-						'--use-fake-device-for-media-stream',
-						`--use-file-for-fake-audio-capture=${padded(c.file)}`,
-						'--use-fake-ui-for-media-stream',
-						'--autoplay-policy=no-user-gesture-required'
-					]
+					args: [...(base.args ?? []), ...fakeMicrophoneArgs(paddedWav(c.file))]
 				});
 				try {
 					const context = await browser.newContext({
@@ -103,6 +74,10 @@ test.describe('offline voice on the Bench', () => {
 					});
 					// logged after the confirm window, like any voice entry
 					await expect(rows).toHaveCount(before + 1, { timeout: 25_000 });
+					// the settings panel says how long the phrase took to read
+					await expect(page.getByTestId('voice-decode-ms')).toContainText(
+						/Last phrase read in \d+ ms/
+					);
 					const first = rows.first();
 					await expect(first).toContainText(c.step);
 					await expect(first).toHaveAttribute('data-verdict', c.verdict);

@@ -101,18 +101,20 @@ describe('buildGrammar', () => {
 	it('holds the job’s steps, intents, numbers and units', () => {
 		const g = buildGrammar({ steps }, () => 'AH');
 		expect(g.jsgf).toMatch(/^#JSGF V1\.0;/);
-		expect(g.jsgf).toContain('<step> = (rear axle nut) | (axle nut) | (rear wheel spindle)');
+		expect(g.jsgf).toContain('<name> = (rear axle nut) | (axle nut) | (rear wheel spindle)');
 		expect(g.jsgf).toContain('(engine oil fill) | oil | (idle speed) | tickover;');
 		expect(g.jsgf).toMatch(/<unit> = .*\(newton metres\)/);
 		expect(g.jsgf).toMatch(/<unit> = .*litres/);
 		expect(g.jsgf).toMatch(/<unit> = .*\(r p m\)/);
 		expect(g.jsgf).not.toMatch(/volts|kilopascals/);
-		for (const rule of ['next', 'undo', 'cancel', 'specword', 'doneword', 'partword', 'note']) {
+		for (const rule of ['next', 'undo', 'cancel', 'prefix', 'donetail', 'parttail', 'noteword']) {
 			expect(g.jsgf).toContain(`<${rule}> =`);
 		}
+		expect(g.jsgf).toMatch(/<prefix> = .*spec.*\(mark done\).*\(fitted new\)/);
+		expect(g.jsgf).toContain('public <call> = <name> <tail> | <prefix> <name> | note <noteword>+');
+		expect(g.jsgf).toContain('<tail> = <number> [<unit>] | <donetail> | <parttail>;');
 		expect(g.jsgf).toContain('<number> = <whole> [point <digit> [<digit> [<digit>]]];');
-		expect(g.jsgf).toContain('<below100> hundred [[and] <below100>]');
-		expect(g.jsgf).toContain('<one> thousand [<one> hundred]');
+		expect(g.jsgf).toContain('(hundred | thousand [<one> hundred]) [[and] <below100>]');
 		expect(g.missing).toEqual([]);
 	});
 	it('leaves out phrases with unknown words and lists those words', () => {
@@ -128,14 +130,23 @@ describe('buildGrammar', () => {
 		const added = new Map(g.added);
 		const ruleWords = g.jsgf
 			.split('\n')
-			.filter((l) => /^<(step|unit|partname|noteword)> =/.test(l))
+			.filter((l) => /^<(name|unit|noteword)> =/.test(l))
 			.flatMap((l) => l.replace(/<[^>]+>/g, ' ').match(/[a-z']+/g) ?? []);
 		expect(ruleWords.length).toBeGreaterThan(5);
 		expect(ruleWords.filter((w) => !lookup(w) && !added.has(w))).toEqual([]);
 	});
-	it('still parses for a job without steps', () => {
+	it('lists each step and part once, parts beside steps', () => {
+		const g = buildGrammar({ steps, parts: ['drain plug washer', 'rear axle nut'] }, () => 'AH');
+		const names = g.jsgf.split('\n').find((l) => l.startsWith('<name> ='));
+		expect(names).toContain('(drain plug washer)');
+		expect(names?.match(/\(rear axle nut\)/g)).toHaveLength(1);
+		expect(g.jsgf.match(/^<name> =/gm)).toHaveLength(1);
+	});
+	it('leaves out what cannot be said instead of writing <VOID>', () => {
 		const g = buildGrammar({ steps: [] }, () => 'AH');
-		expect(g.jsgf).toContain('<step> = <VOID>;');
-		expect(g.jsgf).toContain('<unit> = <VOID>;');
+		expect(g.jsgf).not.toContain('<VOID>');
+		expect(g.jsgf).not.toContain('<name>');
+		expect(g.jsgf).toContain('<tail> = <number> | <donetail> | <parttail>;');
+		expect(g.jsgf).toMatch(/public <call> = note <noteword>\+ \| <next> \| <undo> \| <cancel>;/);
 	});
 });

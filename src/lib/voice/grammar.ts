@@ -227,51 +227,60 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 	};
 
 	const steps = keep(input.steps.flatMap((s) => [s.label, ...(s.aliases ?? [])]));
-	const parts = keep([...(input.parts ?? []), ...steps]);
+	// Step and part names make one list: the decoder's work per frame grows with the size of the
+	// whole grammar, not only with what is being heard, so each list appears as few times as
+	// possible (the phrase engine, not the grammar, tells a step from a part).
+	const names = keep([...steps, ...(input.parts ?? [])]);
 	const units = keep(unitPhrases(input.steps));
 	const noteWords = new Set<string>();
-	for (const p of [...steps, ...parts, ...NOTE_WORDS]) {
+	for (const p of [...names, ...NOTE_WORDS]) {
 		for (const w of p.split(' ')) if (pron(w)) noteWords.add(w);
 	}
 	for (const w of [...ONES, ...TEENS, ...TENS.filter(Boolean), 'hundred', 'and', 'point', 'oh']) {
 		pron(w);
 	}
-	const rule = (name: string, list: Iterable<string>) => {
+	/**
+	 * A rule, or null when nothing in it can be said: an empty list is left out rather than
+	 * written as <VOID>, which in a trial with soundswallower 0.6.3 silenced a whole grammar.
+	 */
+	const rule = (name: string, list: Iterable<string>): string | null => {
 		const body = alternatives(list);
-		// an empty rule must still exist, or the grammar would not parse
-		return `<${name}> = ${body || '<VOID>'};`;
+		return body ? `<${name}> = ${body};` : null;
 	};
 
-	const calls = ['<measure>', '<spec>', '<done>', '<part>', '<note>', '<next>', '<undo>'];
+	const tail = [units.size ? '<number> [<unit>]' : '<number>', '<donetail>', '<parttail>'].join(
+		' | '
+	);
+	const calls = [
+		...(names.size ? ['<name> <tail>', '<prefix> <name>'] : []),
+		'note <noteword>+',
+		'<next>',
+		'<undo>',
+		'<cancel>'
+	];
 	const lines = [
 		'#JSGF V1.0;',
 		'grammar benchcall;',
-		`public <call> = ${[...calls, '<cancel>'].join(' | ')};`,
-		'<measure> = <step> <number> [<unit>];',
-		'<spec> = <specword> <step>;',
-		'<done> = <doneword> <step> | <step> <donetail>;',
-		'<part> = <partword> <partname> | <partname> <parttail>;',
-		'<note> = note <noteword>+;',
+		`public <call> = ${calls.join(' | ')};`,
+		`<tail> = ${tail};`,
+		rule('prefix', keep([...SPEC_PREFIX, ...DONE_PREFIX, ...PART_PREFIX])),
 		rule('next', keep(NEXT)),
 		rule('undo', keep(UNDO)),
 		rule('cancel', keep(CANCEL)),
-		rule('specword', keep(SPEC_PREFIX)),
-		rule('doneword', keep(DONE_PREFIX)),
 		rule('donetail', keep(DONE_SUFFIX)),
-		rule('partword', keep(PART_PREFIX)),
 		rule('parttail', keep(PART_SUFFIX)),
 		rule('noteword', noteWords),
 		'<number> = <whole> [point <digit> [<digit> [<digit>]]];',
 		// up to 999, plus the way shops say revs: "fourteen hundred", "one thousand five hundred"
-		'<whole> = zero | <below100> | <below100> hundred [[and] <below100>] | <one> thousand [<one> hundred] [[and] <below100>];',
+		'<whole> = zero | <below100> [(hundred | thousand [<one> hundred]) [[and] <below100>]];',
 		'<below100> = <one> | <teen> | <tens> [<one>];',
 		`<digit> = zero | oh | ${ONES.slice(1).join(' | ')};`,
 		`<one> = ${ONES.slice(1).join(' | ')};`,
 		`<teen> = ${TEENS.join(' | ')};`,
-		`<tens> = ${TENS.filter(Boolean).join(' | ')};`
-	];
-	// A job with no named steps still gets the intents that need no step.
-	lines.push(rule('step', steps), rule('partname', parts), rule('unit', units));
+		`<tens> = ${TENS.filter(Boolean).join(' | ')};`,
+		rule('name', names),
+		rule('unit', units)
+	].filter((l): l is string => l !== null);
 
 	const words = [...prons.entries()].filter(([, p]) => p !== null).map(([w]) => w);
 	return {

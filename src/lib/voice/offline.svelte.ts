@@ -36,6 +36,8 @@ export class OfflineVoice {
 	/** Words of the job the model cannot say: their phrases were left out of the grammar. */
 	missing = $state<string[]>([]);
 	loadMs = $state<number | null>(null);
+	/** How long the last phrase took to decode (ms), shown so a slow device is noticed. */
+	decodeMs = $state<number | null>(null);
 	/** Microphone level 0…1 while listening. */
 	level = $state(0);
 	listening = $state(false);
@@ -208,8 +210,10 @@ export class OfflineVoice {
 			samples.set(b, at);
 			at += b.length;
 		}
-		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.3 s a phrase)
+		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.25 s a phrase)
+		const t0 = performance.now();
 		const words = this.#grammarTools!.decodePhrase(this.#decoder, samples);
+		this.decodeMs = Math.round(performance.now() - t0);
 		this.#events?.onInterim('');
 		if (words) this.#events?.onFinal(words);
 		// a grammar for a job changed while speaking
