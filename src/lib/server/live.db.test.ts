@@ -33,6 +33,27 @@ function waitFor(events: LiveEvent[], n: number, ms = 5000) {
 }
 
 describe('live hub', () => {
+	// First in this file: the first subscription is what opens this module's listening connection.
+	it('tells subscribers that came before the listening connection was up to catch up', async () => {
+		const a = await makeShop('Live early');
+		let resyncs = 0;
+		// A stream reads its catch-up right after subscribing; on a freshly started server that read
+		// runs before LISTEN is active, and an entry committed in between is announced to no one.
+		const off = subscribe(
+			a.shop.id,
+			() => {},
+			() => resyncs++
+		);
+		try {
+			const started = Date.now();
+			while (resyncs === 0 && Date.now() - started < 5000)
+				await new Promise((r) => setTimeout(r, 20));
+			expect(resyncs).toBe(1);
+		} finally {
+			off();
+		}
+	});
+
 	it("announces a committed entry to its own shop's subscribers only", async () => {
 		const a = await makeShop('Live A');
 		const b = await makeShop('Live B');

@@ -7,7 +7,7 @@
 // NOTIFY is lost while a listener is disconnected. postgres.js re-listens after a dropped
 // connection but gives up silently when the database is away at that moment, so a heartbeat
 // (a NOTIFY on our own ping channel every few seconds) proves the connection; when it goes
-// quiet the connection is replaced. Every (re)connection after the first tells subscribers to
+// quiet the connection is replaced. Every (re)connection, the first too, tells subscribers to
 // resync, i.e. catch up from the database, which is the only source of truth.
 import { building } from '$app/environment';
 import { env } from '$env/dynamic/private';
@@ -30,7 +30,6 @@ const quietLimitMs = 20_000;
 const byShop = new Map<string, Set<Subscriber>>();
 let conn: postgres.Sql | null = null;
 let connecting = false;
-let everConnected = false;
 let lastSign = 0;
 let timer: ReturnType<typeof setInterval> | null = null;
 let closed = false;
@@ -76,6 +75,14 @@ function resyncAll() {
 	}
 }
 
+/** Every listening client not yet ended, so a stop ends them all (a replaced one may linger). */
+const clients = new Set<postgres.Sql>();
+
+function endClient(sql: postgres.Sql) {
+	clients.delete(sql);
+	void sql.end({ timeout: 0 }).catch(() => {});
+}
+
 async function connect() {
 	if (connecting || closed || building) return;
 	connecting = true;
@@ -84,6 +91,7 @@ async function connect() {
 		onnotice: () => {},
 		connection: { application_name: 'benchcall-live' }
 	});
+	clients.add(sql);
 	try {
 		let first = true;
 		await sql.listen(channel, deliver, () => {
@@ -95,12 +103,19 @@ async function connect() {
 		await sql.listen(pingChannel, () => {
 			lastSign = Date.now();
 		});
+		if (closed) {
+			// the process was asked to stop while this connection was being set up
+			endClient(sql);
+			return;
+		}
 		conn = sql;
-		if (everConnected) resyncAll();
-		everConnected = true;
+		// Streams opened before this moment read their catch-up while nothing was listening (on a
+		// freshly started server, or while the database was away): what was committed between that
+		// read and now was announced to no one here, so every subscriber catches up once more.
+		resyncAll();
 	} catch (err) {
-		console.error('live: cannot listen yet, will retry', (err as Error).message);
-		void sql.end({ timeout: 0 });
+		if (!closed) console.error('live: cannot listen yet, will retry', (err as Error).message);
+		endClient(sql);
 	} finally {
 		connecting = false;
 	}
@@ -116,7 +131,7 @@ async function tick() {
 		console.error('live: the listening connection went quiet; replacing it');
 		const old = conn;
 		conn = null;
-		void old.end({ timeout: 0 });
+		endClient(old);
 		await connect();
 		return;
 	}
@@ -180,7 +195,6 @@ for (const signal of ['SIGINT', 'SIGTERM'] as const) {
 process.on('sveltekit:shutdown', () => {
 	closed = true;
 	if (timer) clearInterval(timer);
-	const c = conn;
 	conn = null;
-	void c?.end({ timeout: 0 });
+	for (const sql of [...clients]) endClient(sql);
 });

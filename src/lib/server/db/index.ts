@@ -28,4 +28,12 @@ export type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
 // would otherwise keep `node build` alive (STACK.md, trap 2).
 process.on('sveltekit:shutdown', () => {
 	void client.end({ timeout: 2 });
+	// Requests are done and the pools are ending. A driver socket that lingers (seen after the
+	// database had restarted: a socket to PostgreSQL still open 9 s after the pools were told to
+	// end) must not keep a stopped server running: exit once the pools have had their 2 s.
+	setTimeout(() => {
+		const open = process.getActiveResourcesInfo().filter((r) => r !== 'Timeout');
+		console.error(`stopped: still open 3 s after shutdown (${open.join(', ')}); exiting`);
+		process.exit(0);
+	}, 3_000).unref();
 });
