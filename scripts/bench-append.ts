@@ -73,49 +73,47 @@ for (let i = 0; i < CLIENTS; i++) cookies.push(await signIn());
 
 const phrases = ['lower mount 55 nm', 'front mount 3.3 kgf m', 'muffler bolt 20', 'note checked'];
 
-/** One autocannon run: each connection signed in as its own session, a new entry id per request. */
-function post(seconds: number): Promise<autocannon.Result> {
+/** An autocannon run of CLIENTS connections, each signed in as its own session. */
+function cannon(
+	seconds: number,
+	headers: Record<string, string>,
+	requests: autocannon.Request[]
+): Promise<autocannon.Result> {
 	let next = 0;
 	return autocannon({
 		url: base,
 		connections: CLIENTS,
 		duration: seconds,
 		setupClient: (client) => {
-			client.setHeaders({
-				'content-type': 'application/json',
-				accept: 'application/json',
-				cookie: cookies[next++ % cookies.length]
-			});
+			client.setHeaders({ ...headers, cookie: cookies[next++ % cookies.length] });
 		},
-		requests: [
-			{
-				method: 'POST',
-				path: `/api/jobs/${job.id}/entries`,
-				setupRequest: (req) => ({
-					...req,
-					body: JSON.stringify({
-						id: randomUUID(),
-						text: phrases[Math.floor(Math.random() * phrases.length)],
-						source: 'typed'
-					})
-				})
-			}
-		]
+		requests
 	});
+}
+
+/** Entries posted, a new entry id per request. */
+function post(seconds: number): Promise<autocannon.Result> {
+	return cannon(seconds, { 'content-type': 'application/json', accept: 'application/json' }, [
+		{
+			method: 'POST',
+			path: `/api/jobs/${job.id}/entries`,
+			setupRequest: (req) => ({
+				...req,
+				body: JSON.stringify({
+					id: randomUUID(),
+					text: phrases[Math.floor(Math.random() * phrases.length)],
+					source: 'typed'
+				})
+			})
+		}
+	]);
 }
 
 /** Signed-in requests that do nothing: the session lookup, then 404 for an unknown path. */
 function idle(seconds: number): Promise<autocannon.Result> {
-	let next = 0;
-	return autocannon({
-		url: base,
-		connections: CLIENTS,
-		duration: seconds,
-		setupClient: (client) => {
-			client.setHeaders({ accept: 'application/json', cookie: cookies[next++ % cookies.length] });
-		},
-		requests: [{ method: 'GET', path: '/api/no-such-endpoint' }]
-	});
+	return cannon(seconds, { accept: 'application/json' }, [
+		{ method: 'GET', path: '/api/no-such-endpoint' }
+	]);
 }
 
 const count = async () =>

@@ -256,6 +256,7 @@ export class OfflineVoice {
 		void this.#ctx?.close();
 		this.#ctx = null;
 		this.#preroll = [];
+		this.#utterance = [];
 		this.#inUtterance = false;
 		this.level = 0;
 		const events = this.#events;
