@@ -1,6 +1,6 @@
 import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
-import { db } from './db';
+import { client, db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import {
@@ -374,6 +374,94 @@ describe('retraction', () => {
 			appendEntry(as(f.tech), f.job.id, post('undo'))
 		]);
 		expect([entryOf(u1).retracts, entryOf(u2).retracts].sort()).toEqual([a.id, b.id].sort());
+	});
+});
+
+describe('appends of the same moment (group commit)', () => {
+	/** The transactions that wrote these entries: rows written together share one xmin. */
+	async function writers(ids: string[]) {
+		const rows = await client<{ xmin: string }[]>`
+			select xmin::text from log_entry where id = any(${ids}::uuid[])`;
+		return new Set(rows.map((r) => r.xmin)).size;
+	}
+
+	it('writes them in one transaction, each with its own verdict and answer', async () => {
+		const f = await makeShop('Bench');
+		// the first append reads the job; the ones after it take the batched path
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		// Rear axle nut 80–96 N·m (fixture): 70 low, 88 in, 120 high
+		const values = Array.from({ length: 30 }, (_, i) => [70, 88, 120][i % 3]);
+		const posts = values.map((v) => post(`rear axle ${v} nm`));
+		const results = await Promise.all(posts.map((p) => appendEntry(as(f.tech), f.job.id, p)));
+		expect(results.map((r) => r.status)).toEqual(values.map(() => 201));
+		expect(results.map((r) => entryOf(r).verdict)).toEqual(
+			values.map((v) => (v === 70 ? 'low' : v === 88 ? 'in' : 'high'))
+		);
+		expect(results.map((r) => entryOf(r).id)).toEqual(posts.map((p) => p.id));
+		const seqs = results.map((r) => entryOf(r).seq);
+		expect(new Set(seqs).size).toBe(30);
+		expect(await writers(posts.map((p) => p.id))).toBe(1);
+		expect(await rowsOf(f)).toHaveLength(31);
+	});
+
+	it('answers the same id sent twice at once with one 201 and one 200, storing it once', async () => {
+		const f = await makeShop('Bench');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		const twice = post('rear axle 90 nm');
+		const results = await Promise.all([
+			appendEntry(as(f.tech), f.job.id, twice),
+			appendEntry(as(f.tech), f.job.id, twice),
+			appendEntry(as(f.tech), f.job.id, post('rear axle 91 nm'))
+		]);
+		expect(results.map((r) => r.status).sort()).toEqual([200, 201, 201]);
+		expect(entryOf(results[0]).seq).toBe(entryOf(results[1]).seq);
+		expect(await rowsOf(f)).toHaveLength(3);
+	});
+
+	it('keeps the rules in a batch: another technician is refused, another shop sees a 404', async () => {
+		const f = await makeShop('Bench');
+		const other = await addUser(f, 'technician', 'Not assigned');
+		const b = await makeShop('Other');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		const results = await Promise.all([
+			appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm')),
+			appendEntry(as(other), f.job.id, post('rear axle 89 nm')),
+			appendEntry(as(b.owner), f.job.id, post('rear axle 89 nm')),
+			appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm'))
+		]);
+		expect(results.map((r) => r.status)).toEqual([201, 403, 404, 201]);
+		expect(await rowsOf(f)).toHaveLength(3);
+	});
+
+	it('does not let one entry the database refuses take the others of its batch with it', async () => {
+		const f = await makeShop('Bench');
+		const tag = crypto.randomUUID().slice(0, 8);
+		const poison = `refuse-${tag}`;
+		// A trigger that refuses one marked note, as a constraint or a failing disk might refuse
+		// one row: the batch statement fails, and each entry is then tried on its own.
+		await client.unsafe(`
+			create function refuse_${tag}() returns trigger language plpgsql as $$
+			begin
+				if new.raw_text like '%${poison}%' then raise exception 'refused for the test'; end if;
+				return new;
+			end $$;
+			create trigger refuse_${tag} before insert on log_entry
+				for each row execute function refuse_${tag}();`);
+		try {
+			expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+			const settled = await Promise.allSettled([
+				appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm')),
+				appendEntry(as(f.tech), f.job.id, post(`note ${poison}`)),
+				appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm'))
+			]);
+			expect(settled.map((r) => r.status)).toEqual(['fulfilled', 'rejected', 'fulfilled']);
+			const values = (await rowsOf(f)).map((r) => r.value).sort();
+			expect(values).toEqual([88, 89, 90]);
+		} finally {
+			await client.unsafe(`
+				drop trigger refuse_${tag} on log_entry;
+				drop function refuse_${tag}();`);
+		}
 	});
 });
 

@@ -12,6 +12,7 @@ import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
 import { announceEntry } from './announce';
 import { client, db } from './db';
+import { isDatabaseUnavailable } from './db/errors';
 import * as s from './db/schema';
 import { storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
@@ -517,7 +518,8 @@ export async function appendEntry(
 }
 
 /**
- * The common case in one statement. When this process has read the job before, its steps and
+ * The common case, in one statement shared with the appends of the same moment (group commit,
+ * below). When this process has read the job before, its steps and
  * the shop's tolerance are at hand: the phrase is read against them, and the insert writes only
  * if the job (of this shop) still has that steps version and tolerance and the actor may write
  * on it. Null when this is not that case or the insert wrote nothing (a changed job, a repeated
@@ -545,29 +547,102 @@ async function appendToKnownJob(
 	const step = stepOf(set.steps, read.parsed);
 	if (refusal(read.parsed, step)) return null;
 	const entry = newEntry(actor, jobId, input, read, step, null, now);
-	const anyJob = actor.role !== 'technician';
-	const [row] = await client`
-		with j as (
-			select j.state from job j join shop sh on sh.id = j.shop_id
-			where j.shop_id = ${actor.shopId} and j.id = ${jobId} and j.steps_version = ${set.version}
-				and sh.default_tolerance_pct = ${pct} and (${anyJob} or j.technician_id = ${actor.id})
-		), e as (
-			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
-				value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
-				tool_calibration_overdue, occurred_at)
-			select ${entry.id}::uuid, ${entry.shopId}::uuid, ${entry.jobId}::uuid,
-				${entry.jobStepId}::uuid, ${entry.authorId}::uuid, ${entry.kind}::entry_kind,
-				${entry.rawText}::text, ${entry.source}::entry_source, ${entry.value}::float8,
-				${entry.unit}::text, ${entry.specValue}::float8, ${entry.specUnit}::text,
-				${entry.verdict}::verdict, ${entry.note}::text, ${entry.torqueToolId}::uuid,
-				${entry.overdue}::boolean, ${entry.occurredAt}::timestamptz
-			from j
-			on conflict (id) do nothing
-			returning *
-		)
-		${readBack}, (select state from j) as job_state ${readBackFrom}`;
+	const row = await appendTogether({
+		...entry,
+		stepsVersion: set.version,
+		pct,
+		anyJob: actor.role !== 'technician'
+	});
 	if (!row) return null;
 	return stored(actor, jobId, row, row.job_state as JobState);
+}
+
+// --- group commit -------------------------------------------------------------------------------
+//
+// Appends that arrive in the same turn of the event loop are written by one statement at the end
+// of that turn (setImmediate, no timer): under load, PostgreSQL parses, plans and commits once for
+// many entries instead of once each, and this process sends one message instead of many. Under
+// light load a batch holds one entry and waits for nothing. Each append still gets its own answer:
+// its stored row, or null when its conditions did not hold (appendEntry then decides alone). All
+// entries of a batch commit together or not at all; if the statement fails for a reason other
+// than the database being away, every entry of the batch is tried again on its own, so one bad
+// entry cannot fail the others.
+
+interface BatchRow extends NewEntry {
+	/** Written only while the job still has this steps version ... */
+	stepsVersion: number;
+	/** ... and its shop this tolerance ... */
+	pct: number;
+	/** ... and the author may write on any job of the shop, or the job is assigned to them. */
+	anyJob: boolean;
+}
+
+interface Waiting {
+	row: BatchRow;
+	resolve: (row: Record<string, unknown> | null) => void;
+	reject: (err: unknown) => void;
+}
+
+/** Entries per statement: a batch is one transaction, so keep it short. */
+const batchLimit = 200;
+let waiting: Waiting[] = [];
+let flushScheduled = false;
+
+function appendTogether(row: BatchRow): Promise<Record<string, unknown> | null> {
+	// The same id twice in one batch (a device repeating itself at once): the second goes alone.
+	if (waiting.some((w) => w.row.id === row.id)) return Promise.resolve(null);
+	return new Promise((resolve, reject) => {
+		waiting.push({ row, resolve, reject });
+		if (!flushScheduled) {
+			flushScheduled = true;
+			setImmediate(flushAppends);
+		}
+	});
+}
+
+function flushAppends() {
+	flushScheduled = false;
+	const all = waiting;
+	waiting = [];
+	for (let i = 0; i < all.length; i += batchLimit) void writeBatch(all.slice(i, i + batchLimit));
+}
+
+async function writeBatch(batch: Waiting[]) {
+	let rows: Record<string, unknown>[];
+	try {
+		rows = await client`
+			with r as (
+				select * from json_to_recordset(${JSON.stringify(batch.map((w) => w.row))}::json) as r(
+					"id" uuid, "shopId" uuid, "jobId" uuid, "jobStepId" uuid, "authorId" uuid,
+					"kind" entry_kind, "rawText" text, "source" entry_source, "value" float8, "unit" text,
+					"specValue" float8, "specUnit" text, "verdict" verdict, "note" text,
+					"torqueToolId" uuid, "overdue" boolean, "occurredAt" timestamptz,
+					"stepsVersion" integer, "pct" float8, "anyJob" boolean)
+			), ok as (
+				select r.*, j.state as job_state
+				from r
+				join job j on j.id = r."jobId" and j.shop_id = r."shopId"
+					and j.steps_version = r."stepsVersion" and (r."anyJob" or j.technician_id = r."authorId")
+				join shop sh on sh.id = j.shop_id and sh.default_tolerance_pct = r.pct
+			), e as (
+				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+					value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
+					tool_calibration_overdue, occurred_at)
+				select "id", "shopId", "jobId", "jobStepId", "authorId", "kind", "rawText", "source",
+					"value", "unit", "specValue", "specUnit", "verdict", "note", "torqueToolId", "overdue",
+					"occurredAt"
+				from ok
+				on conflict (id) do nothing
+				returning *
+			)
+			${readBack}, ok.job_state ${readBackFrom} join ok on ok.id = e.id`;
+	} catch (err) {
+		if (isDatabaseUnavailable(err)) for (const w of batch) w.reject(err);
+		else for (const w of batch) w.resolve(null);
+		return;
+	}
+	const byId = new Map(rows.map((row) => [row.id as string, row]));
+	for (const w of batch) w.resolve(byId.get(w.row.id) ?? null);
 }
 
 /** Intents that write an entry of their own kind. */
