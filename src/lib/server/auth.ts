@@ -11,15 +11,43 @@ import { client, db } from './db';
 import { session, signInFailure, user } from './db/schema';
 import { dummyHash, verifyPassword } from './password';
 
+type SessionAndUser = [session: DatabaseSession | null, user: DatabaseUser | null];
+
 /**
- * Every request looks its session up, so that one query is a prepared statement (postgres.js
- * keeps it per connection): planned once, not built by drizzle and planned by PostgreSQL each
- * time. The rest of the adapter is lucia's own.
+ * How long this process trusts a session it has read. Within that time a session is not read
+ * again: under a burst (a Bench's outbox draining, every bay logging at once) the lookup was one
+ * database round trip per request. This process forgets a session at once when it ends here
+ * (sign-out, deactivation, a new password, expiry) and an account's sessions when its role or
+ * state changes here (forgetUser); a change made through another app server, or in the database
+ * directly, is seen here within this time.
+ */
+export const sessionCacheMs = 5_000;
+
+/**
+ * lucia's drizzle adapter with a short-lived cache of sessions read (see sessionCacheMs), and the
+ * lookup as one prepared statement (postgres.js keeps it per connection): planned once, not
+ * built by drizzle and planned by PostgreSQL each time.
  */
 class SessionAdapter extends DrizzlePostgreSQLAdapter {
-	override async getSessionAndUser(
-		sessionId: string
-	): Promise<[session: DatabaseSession | null, user: DatabaseUser | null]> {
+	readonly #read = new Map<string, { at: number; value: SessionAndUser }>();
+	/** Bumped whenever a session or account is forgotten: a read that began before is not kept. */
+	#epoch = 0;
+
+	override async getSessionAndUser(sessionId: string): Promise<SessionAndUser> {
+		const hit = this.#read.get(sessionId);
+		if (hit && performance.now() - hit.at < sessionCacheMs) return hit.value;
+		const epoch = this.#epoch;
+		const at = performance.now();
+		const value = await this.#lookup(sessionId);
+		this.#read.delete(sessionId);
+		if (value[0] && epoch === this.#epoch) {
+			this.#read.set(sessionId, { at, value });
+			this.#prune(at);
+		}
+		return value;
+	}
+
+	async #lookup(sessionId: string): Promise<SessionAndUser> {
 		const [row] = await client`
 			select s.id, s.user_id, s.expires_at, u.email, u.name, u.role, u.shop_id, u.active
 			from session s join "user" u on u.id = s.user_id
@@ -38,6 +66,53 @@ class SessionAdapter extends DrizzlePostgreSQLAdapter {
 				}
 			}
 		];
+	}
+
+	/** Entries are kept in the order read: drop the expired ones from the front. */
+	#prune(now: number) {
+		for (const [id, entry] of this.#read) {
+			if (now - entry.at < sessionCacheMs) break;
+			this.#read.delete(id);
+		}
+	}
+
+	forgetUser(userId: string) {
+		this.#epoch++;
+		for (const [id, entry] of this.#read) {
+			if (entry.value[0]?.userId === userId) this.#read.delete(id);
+		}
+	}
+
+	override async updateSessionExpiration(sessionId: string, expiresAt: Date): Promise<void> {
+		await super.updateSessionExpiration(sessionId, expiresAt);
+		const hit = this.#read.get(sessionId);
+		const [cached, owner] = hit?.value ?? [];
+		if (hit && cached) hit.value = [{ ...cached, expiresAt }, owner ?? null];
+	}
+
+	// Forgotten before the delete (no request after this point trusts the cache) and again after
+	// it (a read that began in between could still see the row, and is not kept).
+	override async deleteSession(sessionId: string): Promise<void> {
+		this.#forgetSession(sessionId);
+		await super.deleteSession(sessionId);
+		this.#forgetSession(sessionId);
+	}
+
+	override async deleteUserSessions(userId: string): Promise<void> {
+		this.forgetUser(userId);
+		await super.deleteUserSessions(userId);
+		this.forgetUser(userId);
+	}
+
+	override async deleteExpiredSessions(): Promise<void> {
+		await super.deleteExpiredSessions();
+		this.#epoch++;
+		this.#read.clear();
+	}
+
+	#forgetSession(sessionId: string) {
+		this.#epoch++;
+		this.#read.delete(sessionId);
 	}
 }
 
@@ -62,6 +137,14 @@ export const lucia = new Lucia(adapter, {
 		active: attributes.active
 	})
 });
+
+/**
+ * After an account's role or state changed: this process reads its sessions afresh, so the
+ * change applies to the very next request.
+ */
+export function forgetUser(userId: string) {
+	adapter.forgetUser(userId);
+}
 
 declare module 'lucia' {
 	interface Register {

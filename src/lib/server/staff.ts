@@ -1,7 +1,7 @@
 // Staff accounts of one shop. Every query is scoped by the caller's shop id.
 import { and, asc, eq, ne } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
-import { lucia } from './auth';
+import { forgetUser, lucia } from './auth';
 import { db } from './db';
 import { user } from './db/schema';
 import { hashPassword } from './password';
@@ -76,6 +76,7 @@ export async function setRole(shopId: string, userId: string, role: Role): Promi
 		.update(user)
 		.set({ role })
 		.where(and(eq(user.shopId, shopId), eq(user.id, userId)));
+	forgetUser(userId);
 	return { ok: true };
 }
 
@@ -94,6 +95,7 @@ export async function setActive(
 		.update(user)
 		.set({ active })
 		.where(and(eq(user.shopId, shopId), eq(user.id, userId)));
+	forgetUser(userId);
 	if (!active) await lucia.invalidateUserSessions(userId);
 	return { ok: true };
 }
