@@ -404,6 +404,34 @@ describe('appends of the same moment (group commit)', () => {
 		expect(await rowsOf(f)).toHaveLength(31);
 	});
 
+	it('gathers the appends that arrive while a batch is on its way into the next one', async () => {
+		const f = await makeShop('Bench');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		const waves = [89, 90, 91].map((v) =>
+			Array.from({ length: 10 }, () => post(`rear axle ${v} nm`))
+		);
+		// A batch leaves at the end of the turn its first append arrived in (setImmediate, queued
+		// after the first one awaited here). The job row is held here meanwhile, so the first
+		// batch waits on its way (its foreign-key check needs the row): the two waves after it
+		// arrive while it is out, and go together after it.
+		const nextTurn = () => new Promise((r) => setImmediate(r));
+		const sent: Promise<AppendResult>[] = [];
+		await client.begin(async (tx) => {
+			await tx`select id from job where id = ${f.job.id} for update`;
+			for (const wave of waves) {
+				sent.push(...wave.map((p) => appendEntry(as(f.tech), f.job.id, p)));
+				await nextTurn();
+				await nextTurn();
+			}
+			await new Promise((r) => setTimeout(r, 50));
+		});
+		expect((await Promise.all(sent)).map((r) => r.status)).toEqual(sent.map(() => 201));
+		const ids = waves.map((wave) => wave.map((p) => p.id));
+		expect(await writers(ids[0])).toBe(1);
+		expect(await writers([...ids[1], ...ids[2]])).toBe(1);
+		expect(await writers(ids.flat())).toBe(2);
+	});
+
 	it('answers the same id sent twice at once with one 201 and one 200, storing it once', async () => {
 		const f = await makeShop('Bench');
 		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);

@@ -560,9 +560,10 @@ async function appendToKnownJob(
 // --- group commit -------------------------------------------------------------------------------
 //
 // Appends that arrive in the same turn of the event loop are written by one statement at the end
-// of that turn (setImmediate, no timer): under load, PostgreSQL parses, plans and commits once for
-// many entries instead of once each, and this process sends one message instead of many. Under
-// light load a batch holds one entry and waits for nothing. Each append still gets its own answer:
+// of that turn (setImmediate, no timer), and while that statement is on its way the next batch
+// gathers: under load, PostgreSQL parses, plans and commits once for many entries instead of once
+// each, this process sends one message instead of many, and batches do not contend with each
+// other for the same pages. Under light load a batch holds one entry and waits for nothing. Each append still gets its own answer:
 // its stored row, or null when its conditions did not hold (appendEntry then decides alone). All
 // entries of a batch commit together or not at all; if the statement fails for a reason other
 // than the database being away, every entry of the batch is tried again on its own, so one bad
@@ -587,24 +588,34 @@ interface Waiting {
 const batchLimit = 200;
 let waiting: Waiting[] = [];
 let flushScheduled = false;
+/** A batch is on its way: the next one gathers meanwhile and goes when it is back. */
+let writing = false;
 
 function appendTogether(row: BatchRow): Promise<Record<string, unknown> | null> {
 	// The same id twice in one batch (a device repeating itself at once): the second goes alone.
 	if (waiting.some((w) => w.row.id === row.id)) return Promise.resolve(null);
 	return new Promise((resolve, reject) => {
 		waiting.push({ row, resolve, reject });
-		if (!flushScheduled) {
-			flushScheduled = true;
-			setImmediate(flushAppends);
-		}
+		scheduleFlush();
 	});
+}
+
+function scheduleFlush() {
+	if (flushScheduled || writing || waiting.length === 0) return;
+	flushScheduled = true;
+	setImmediate(flushAppends);
 }
 
 function flushAppends() {
 	flushScheduled = false;
-	const all = waiting;
-	waiting = [];
-	for (let i = 0; i < all.length; i += batchLimit) void writeBatch(all.slice(i, i + batchLimit));
+	if (writing) return;
+	const batch = waiting.slice(0, batchLimit);
+	waiting = waiting.slice(batchLimit);
+	writing = true;
+	void writeBatch(batch).finally(() => {
+		writing = false;
+		scheduleFlush();
+	});
 }
 
 async function writeBatch(batch: Waiting[]) {
