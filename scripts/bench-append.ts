@@ -7,8 +7,9 @@
  * Runs on its own scratch database (benchcall_bench, made anew each run), never on the demo one.
  *
  * For scale it also measures, for BENCH_IDLE_SECONDS (5; 0 skips), the same server answering
- * signed-in requests that do nothing (GET of an unknown /api path: session lookup, then 404):
- * no endpoint of this server can beat that rate on this machine.
+ * signed-in API requests that do nothing (the job log of a job id that cannot exist: session,
+ * route, query check, then a JSON 404, no database): no endpoint of this server can beat that
+ * rate or latency on this machine.
  *
  *   npm run bench:append            (BENCH_SECONDS=5 for a short run; BENCH_WARMUP_SECONDS=2)
  */
@@ -109,10 +110,13 @@ function post(seconds: number): Promise<autocannon.Result> {
 	]);
 }
 
-/** Signed-in requests that do nothing: the session lookup, then 404 for an unknown path. */
+/**
+ * Signed-in API requests that do nothing: the session, then a JSON 404 for a job id that is not a
+ * uuid, decided before any query. (An unknown path would render the HTML error page instead.)
+ */
 function idle(seconds: number): Promise<autocannon.Result> {
 	return cannon(seconds, { accept: 'application/json' }, [
-		{ method: 'GET', path: '/api/no-such-endpoint' }
+		{ method: 'GET', path: '/api/jobs/no-such-job/entries' }
 	]);
 }
 
@@ -167,7 +171,7 @@ console.log(
 );
 if (nothing) {
 	console.log(
-		`  for scale:      ${nothingRate.toFixed(0)} signed-in requests/s that do nothing (session, 404), p50 ${nothing.latency.p50} ms · p99 ${nothing.latency.p99} ms, ${IDLE} s: ${((nothingRate / rawRate) * 100).toFixed(1)} % of the raw rate`
+		`  for scale:      ${nothingRate.toFixed(0)} signed-in API requests/s that do nothing (session, JSON 404), p50 ${nothing.latency.p50} ms · p99 ${nothing.latency.p99} ms, ${IDLE} s: ${((nothingRate / rawRate) * 100).toFixed(1)} % of the raw rate`
 	);
 }
 console.log(`  load average:   ${loadBefore} before the run, ${loadAfter} after (1, 5, 15 min)`);
