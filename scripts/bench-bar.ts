@@ -1,8 +1,10 @@
 /**
  * Call-bar benchmark: the built app in Debian's Chromium, a job with 2,000 steps, 200 keystrokes
  * typed into the call bar; prints p50/p95 of keystroke-to-preview time, measured inside the page
- * from the keydown event to the first animation frame after the preview list changed. It prints
- * measured figures only; nothing is asserted. Goal (issue 4): p95 ≤ 16 ms (one frame).
+ * for every keystroke: from the keydown to the preview updated and laid out (the page's work,
+ * which must fit in one frame), and to the first animation frame after it (which adds the wait
+ * for the display's next frame). It prints measured figures only; nothing is asserted. Goal
+ * (issue 4): p95 ≤ 16 ms (one frame) from keystroke to preview ready.
  * Runs on its own scratch database (benchcall_bench_bar, made anew each run).
  *
  *   npm run bench:bar
@@ -73,19 +75,28 @@ await page.waitForURL(/\/bench/);
 const bar = page.getByRole('combobox', { name: 'Call bar' });
 await bar.waitFor();
 
-// Inside the page: time from each keydown to the first frame after the candidate list changed.
+// Inside the page, for every keystroke typed into the bar, from the keydown's event time:
+// - ready: the preview updated and laid out. A listener on the window sees the input event last,
+//   after the bar's own handlers and Svelte's update (run as a microtask after each handler);
+//   reading the list's size there makes the browser do the style and layout the frame needs.
+//   (Checked when this was written: over 200 keystrokes the list never changed after that point.)
+// - frame: the first animation frame after that, the frame that shows the new preview; this adds
+//   the wait for the display's next frame (0 to 16.7 ms at 60 Hz, wherever the keystroke fell).
 await page.evaluate(() => {
-	const w = window as unknown as { benchTimes: number[]; benchStart: number | null };
-	w.benchTimes = [];
-	w.benchStart = null;
+	const w = window as unknown as { ready: number[]; frame: number[]; start: number | null };
+	w.ready = [];
+	w.frame = [];
+	w.start = null;
 	const list = document.querySelector('[aria-label="What will be logged"]')!;
-	document.addEventListener('keydown', () => (w.benchStart = performance.now()), true);
-	new MutationObserver(() => {
-		const start = w.benchStart;
+	document.addEventListener('keydown', (e) => (w.start = e.timeStamp), true);
+	window.addEventListener('input', () => {
+		const start = w.start;
 		if (start === null) return;
-		w.benchStart = null;
-		requestAnimationFrame(() => w.benchTimes.push(performance.now() - start));
-	}).observe(list, { childList: true, subtree: true, characterData: true });
+		w.start = null;
+		list.getBoundingClientRect();
+		w.ready.push(performance.now() - start);
+		requestAnimationFrame(() => w.frame.push(performance.now() - start));
+	});
 });
 
 const phrases = [
@@ -104,18 +115,19 @@ while (typed < KEYSTROKES) {
 	}
 	await page.keyboard.press('Escape');
 }
-const times = (
-	await page.evaluate(() => (window as unknown as { benchTimes: number[] }).benchTimes)
-).sort((a, b) => a - b);
+const { ready, frame } = await page.evaluate(() => {
+	const w = window as unknown as { ready: number[]; frame: number[] };
+	return { ready: w.ready, frame: w.frame };
+});
 await browser.close();
 server.kill('SIGTERM');
 
-const q = (p: number) => times[Math.min(times.length - 1, Math.floor(p * times.length))];
-console.log(
-	`\nCall bar, ${STEPS} steps, ${typed} keystrokes (${times.length} preview updates measured)`
-);
-console.log(
-	`  keystroke → preview   p50 ${q(0.5).toFixed(1)} ms   p95 ${q(0.95).toFixed(1)} ms   max ${times[times.length - 1].toFixed(1)} ms`
-);
-console.log('  goal: p95 ≤ 16 ms (one frame at 60 Hz)');
+const stats = (times: number[]) => {
+	const sorted = [...times].sort((a, b) => a - b);
+	const q = (p: number) => sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))];
+	return `p50 ${q(0.5).toFixed(1)} ms   p95 ${q(0.95).toFixed(1)} ms   max ${sorted[sorted.length - 1].toFixed(1)} ms`;
+};
+console.log(`\nCall bar, ${STEPS} steps, ${typed} keystrokes (${ready.length} measured)`);
+console.log(`  keystroke → preview ready      ${stats(ready)}   (goal: p95 ≤ 16 ms, one frame)`);
+console.log(`  keystroke → next frame         ${stats(frame)}   (adds the wait for the display)`);
 process.exit(0);
