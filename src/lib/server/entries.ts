@@ -563,11 +563,11 @@ async function appendToKnownJob(
 // of that turn (setImmediate, no timer), and while that statement is on its way the next batch
 // gathers: under load, PostgreSQL parses, plans and commits once for many entries instead of once
 // each, this process sends one message instead of many, and batches do not contend with each
-// other for the same pages. Under light load a batch holds one entry and waits for nothing. Each append still gets its own answer:
-// its stored row, or null when its conditions did not hold (appendEntry then decides alone). All
-// entries of a batch commit together or not at all; if the statement fails for a reason other
-// than the database being away, every entry of the batch is tried again on its own, so one bad
-// entry cannot fail the others.
+// other for the same pages. Under light load a batch holds one entry and waits for nothing.
+// Each append still gets its own answer: its stored row, or null when its conditions did not
+// hold (appendEntry then decides alone). All entries of a batch commit together or not at all;
+// if the statement fails for a reason other than the database being away, every entry of the
+// batch is tried again on its own, so one bad entry cannot fail the others.
 
 interface BatchRow extends NewEntry {
 	/** Written only while the job still has this steps version ... */
