@@ -519,11 +519,11 @@ export async function appendEntry(
 
 /**
  * The common case, in one statement shared with the appends of the same moment (group commit,
- * below). When this process has read the job before, its steps and
- * the shop's tolerance are at hand: the phrase is read against them, and the insert writes only
- * if the job (of this shop) still has that steps version and tolerance and the actor may write
- * on it. Null when this is not that case or the insert wrote nothing (a changed job, a repeated
- * id, another shop's job): appendEntry then decides everything from the database as it is now.
+ * below). When this process has read the job before, its steps and the shop's tolerance are at
+ * hand: the phrase is read against them, and the insert writes only if the job (of this shop)
+ * still has that steps version and tolerance and the actor may write on it. Null when this is
+ * not that case or the insert wrote nothing (a changed job, a repeated id, another shop's job):
+ * appendEntry then decides everything from the database as it is now.
  */
 async function appendToKnownJob(
 	actor: Actor,
