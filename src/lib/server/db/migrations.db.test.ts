@@ -1,12 +1,24 @@
+import { getTableConfig, PgTable } from 'drizzle-orm/pg-core';
 import { drizzle } from 'drizzle-orm/postgres-js';
 import { migrate } from 'drizzle-orm/postgres-js/migrator';
 import postgres from 'postgres';
 import { describe, expect, it } from 'vitest';
+import * as schema from './schema';
 
 const url = process.env.DATABASE_URL!;
 
+/** Every table the model declares, with its columns: read from schema.ts, not listed here. */
+const model = Object.values(schema)
+	.filter((t): t is PgTable => t instanceof PgTable)
+	.map((t) => {
+		const c = getTableConfig(t);
+		return { name: c.name, columns: c.columns.map((col) => col.name).sort() };
+	})
+	.sort((a, b) => a.name.localeCompare(b.name));
+
 describe('migrations', () => {
-	it('apply to an empty database and create every table of the model', async () => {
+	it('apply to an empty database and create every table and column of the model', async () => {
+		expect(model.length).toBeGreaterThan(20);
 		const admin = postgres(url, { max: 1, onnotice: () => {} });
 		const name = `benchcall_scratch_${process.pid}_${Date.now()}`;
 		await admin.unsafe(`create database ${name}`);
@@ -15,24 +27,17 @@ describe('migrations', () => {
 		const scratch = postgres(scratchUrl.toString(), { max: 1, onnotice: () => {} });
 		try {
 			await migrate(drizzle(scratch), { migrationsFolder: 'drizzle' });
-			const tables = await scratch<{ table_name: string }[]>`
-				select table_name from information_schema.tables where table_schema = 'public' order by 1`;
-			expect(tables.map((t) => t.table_name)).toEqual(
-				expect.arrayContaining([
-					'shop',
-					'user',
-					'session',
-					'customer',
-					'vehicle',
-					'procedure',
-					'procedure_step',
-					'job',
-					'job_step',
-					'log_entry',
-					'part',
-					'torque_tool'
-				])
-			);
+			const rows = await scratch<{ table_name: string; column_name: string }[]>`
+				select table_name, column_name from information_schema.columns
+				where table_schema = 'public' order by 1, 2`;
+			const made = new Map<string, string[]>();
+			for (const r of rows)
+				made.set(r.table_name, [...(made.get(r.table_name) ?? []), r.column_name]);
+			const fromMigrations = model.map((t) => ({
+				name: t.name,
+				columns: (made.get(t.name) ?? []).sort()
+			}));
+			expect(fromMigrations).toEqual(model);
 			const triggers = await scratch`
 				select trigger_name from information_schema.triggers where event_object_table = 'log_entry'`;
 			expect(triggers.map((t) => t.trigger_name)).toContain('log_entry_no_update_delete');
