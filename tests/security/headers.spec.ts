@@ -221,8 +221,10 @@ test.describe('a server of our own, over https as far as it knows', () => {
 		expect(made.status).toBe(200);
 		await post('/sign-in', { email, password: fresh });
 
-		// Give the server a moment to flush, then read everything it wrote.
-		await new Promise((r) => setTimeout(r, 300));
+		// Stop the server and read everything it wrote: once its pipes close, its output is complete.
+		const closed = new Promise((r) => server!.once('close', r));
+		server!.kill('SIGTERM');
+		await closed;
 		expect(output, 'the server’s output was captured').toContain('Listening on');
 		for (const secret of [wrong, long, fresh, demoPassword, 'short-1']) {
 			expect(output.includes(secret), `the output holds a password: ${secret.slice(0, 12)}…`).toBe(

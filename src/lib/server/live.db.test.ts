@@ -83,8 +83,17 @@ describe('live hub', () => {
 			offA();
 			offB();
 		}
-		const after = await log(a, 'rear axle 83 nm');
-		await new Promise((r) => setTimeout(r, 300));
-		expect(gotA.map((e) => e.id)).not.toContain(after.id);
+		// A subscriber that stays tells when the next entry has been fanned out: by then the one
+		// that left would have had it too, had leaving not worked.
+		const stayed: LiveEvent[] = [];
+		const offStayed = subscribe(a.shop.id, (e) => stayed.push(e));
+		try {
+			const after = await log(a, 'rear axle 83 nm');
+			await waitFor(stayed, 1);
+			expect(stayed[0].id).toBe(after.id);
+			expect(gotA.map((e) => e.id)).not.toContain(after.id);
+		} finally {
+			offStayed();
+		}
 	});
 });
