@@ -282,7 +282,7 @@ for (const [key, target] of Object.entries(targets)) {
 				} else if (a.status === 201) {
 					expect(after.entries).toBe(before.entries + 1);
 				} else {
-					expect(after.entries - before.entries).toBeGreaterThanOrEqual(0);
+					// (the log refuses deletes, so only an upper bound says anything here)
 					expect(after.entries - before.entries).toBeLessThanOrEqual(target.on200 ?? 0);
 				}
 			}),
