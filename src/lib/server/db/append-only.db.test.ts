@@ -43,12 +43,11 @@ describe('log_entry is append-only in the database', () => {
 		await expect(db.execute('truncate log_entry cascade')).rejects.toSatisfy(refusedAsAppendOnly);
 	});
 
-	it('records a correction as a retraction pointing at the entry', async () => {
+	it('takes a correction as a new entry and leaves the withdrawn one as it was', async () => {
 		const f = await makeShop('Append');
 		const wrong = await logMeasurement(f, 8.8, 'low');
-		const [retraction] = await db
-			.insert(logEntry)
-			.values({
+		const retraction = (over: Partial<typeof logEntry.$inferInsert>) =>
+			db.insert(logEntry).values({
 				id: crypto.randomUUID(),
 				shopId: f.shop.id,
 				jobId: f.job.id,
@@ -58,9 +57,20 @@ describe('log_entry is append-only in the database', () => {
 				rawText: 'undo',
 				source: 'typed',
 				retracts: wrong.id,
-				occurredAt: new Date()
-			})
-			.returning();
-		expect(retraction.retracts).toBe(wrong.id);
+				occurredAt: new Date(),
+				...over
+			});
+		await retraction({});
+		// A retraction must name an entry that exists: the database refuses one that names none.
+		await expect(retraction({ retracts: crypto.randomUUID() })).rejects.toThrow();
+		const rows = await db
+			.select()
+			.from(logEntry)
+			.where(eq(logEntry.jobId, f.job.id))
+			.orderBy(logEntry.seq);
+		expect(rows.map((r) => [r.kind, r.value, r.verdict, r.retracts])).toEqual([
+			['measure', 8.8, 'low', null],
+			['retraction', null, null, wrong.id]
+		]);
 	});
 });
