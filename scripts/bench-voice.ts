@@ -66,7 +66,7 @@ for (const p of manifest.phrases) {
 	let heard = '';
 	for (let i = 0; i < rounds; i++) {
 		const s = performance.now();
-		heard = decodePhrase(decoder, samples);
+		heard = decodePhrase(decoder, samples).text;
 		times.push(performance.now() - s);
 	}
 	times.sort((a, b) => a - b);

@@ -212,7 +212,7 @@ export class OfflineVoice {
 		}
 		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.25 s a phrase)
 		const t0 = performance.now();
-		const words = this.#grammarTools!.decodePhrase(this.#decoder, samples);
+		const words = this.#grammarTools!.decodePhrase(this.#decoder, samples).text;
 		this.decodeMs = Math.round(performance.now() - t0);
 		this.#events?.onInterim('');
 		if (words) this.#events?.onFinal(words);
