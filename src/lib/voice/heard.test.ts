@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { isCancel } from '../phrase/index';
+import type { Intent } from '../phrase/index';
+import { MIN_CONFIDENCE, type GateReason } from './gate';
 import {
+	WEB_SPEECH_MIN_CONFIDENCE,
+	confidenceFor,
 	decideHeard,
 	pickAlternative,
 	sayAgainWords,
@@ -8,9 +12,12 @@ import {
 	type GateAnswer,
 	type Heard
 } from './heard';
+import { alternativesOf } from './recogniser';
 
-const ok: GateAnswer = { ok: true };
-const refuse = (reason: Exclude<GateAnswer, { ok: true }>['reason'], heard = 'x'): GateAnswer => ({
+const ok: GateAnswer = { ok: true, intent: 'measure' };
+const okAs = (intent: Intent): GateAnswer => ({ ok: true, intent });
+const refuse = (reason: GateReason, heard = 'x'): GateAnswer => ({
+	intent: 'measure',
 	ok: false,
 	reason,
 	heard,
@@ -128,6 +135,22 @@ describe('decideHeard', () => {
 		).toBe('say_again');
 	});
 
+	it('hands-free acts on values, next and spec only: a note, part, done or undo is ignored', () => {
+		// the offline decoder fits shop talk to "note …", "… replaced", "done …" with a
+		// confidence as high as a real call's, so hands-free leaves those to push-to-talk
+		for (const intent of ['note', 'part', 'done', 'undo'] as const) {
+			expect(decideHeard(h('note dirty new test'), okAs(intent), free)).toEqual({
+				kind: 'ignored',
+				heard: 'note dirty new test',
+				reason: 'not_hands_free'
+			});
+			expect(decideHeard(h('note chain guide worn'), okAs(intent), push).kind).toBe('confirm');
+		}
+		for (const intent of ['measure', 'next', 'spec'] as const) {
+			expect(decideHeard(h('next'), okAs(intent), free).kind).toBe('confirm');
+		}
+	});
+
 	it('reads the refusal aloud with what it heard', () => {
 		expect(sayAgainWords({ heard: 'rear axle 800 N·m', message: 'Too high.' })).toBe(
 			'Say it again. I heard: rear axle 800 N·m. Too high.'
@@ -135,5 +158,43 @@ describe('decideHeard', () => {
 		expect(sayAgainWords({ heard: '', message: 'Not understood.' })).toBe(
 			'Say it again. Not understood.'
 		);
+	});
+});
+
+describe('alternativesOf (a final Web Speech result)', () => {
+	it('keeps every alternative in order, with its confidence or null', () => {
+		const result = Object.assign(
+			[
+				{ transcript: ' rear axle 80 Nm ', confidence: 0.91 },
+				{ transcript: 'rear axle 18 Nm', confidence: 0 },
+				{ transcript: '' }
+			],
+			{ isFinal: true }
+		);
+		expect(alternativesOf(result)).toEqual([
+			{ text: 'rear axle 80 Nm', confidence: 0.91 },
+			{ text: 'rear axle 18 Nm', confidence: null }
+		]);
+	});
+});
+
+describe('confidenceFor', () => {
+	it('offline voice: the decoder’s confidence against the gate’s own threshold', () => {
+		expect(confidenceFor({ text: 'next', confidence: 0.8, offline: true })).toEqual({
+			confidence: 0.8,
+			minConfidence: MIN_CONFIDENCE
+		});
+		expect(confidenceFor({ text: 'next', confidence: null, offline: true }).confidence).toBe(0);
+	});
+
+	it('Web Speech: its own threshold, and no confidence test when the engine gave none', () => {
+		expect(confidenceFor({ text: 'next', confidence: 0.4 })).toEqual({
+			confidence: 0.4,
+			minConfidence: WEB_SPEECH_MIN_CONFIDENCE
+		});
+		expect(confidenceFor({ text: 'next', confidence: null })).toEqual({
+			confidence: 0,
+			minConfidence: 0
+		});
 	});
 });

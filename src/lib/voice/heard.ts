@@ -4,16 +4,46 @@
  * ask to hear it again, or ignore it (hands-free shop talk). Pure: no Svelte, no browser.
  */
 
-export type GateReason = 'low_confidence' | 'implausible_value' | 'wrong_scale' | 'not_understood';
+import type { Intent } from '../phrase/index';
+import { MIN_CONFIDENCE, type GateReason, type GateResult } from './gate';
 
-/** The gate's answer for one phrase (the shape of `gate()` in ./gate). */
-export type GateAnswer =
-	{ ok: true } | { ok: false; reason: GateReason; heard: string; message: string };
+/** The gate's answer for one phrase, with what the phrase engine read it as. */
+export type GateAnswer = GateResult & { intent: Intent };
+
+/**
+ * What hands-free acts on: a value for a step (logged after the confirm window) and the
+ * questions that log nothing. A recogniser that fits any sound to its grammar turns shop talk
+ * into a note, a part or a done step with a confidence as high as a real call's (measured on
+ * flite shop-talk sentences: 0.76–0.84 against 0.88–0.90), so those, and undo, need
+ * push-to-talk or the keyboard.
+ */
+export const HANDS_FREE_INTENTS: ReadonlySet<Intent> = new Set(['measure', 'next', 'spec']);
 
 /** One recognised phrase: its words and the recogniser's confidence 0…1 (null: none given). */
 export interface Heard {
 	text: string;
 	confidence: number | null;
+	/** Heard by offline voice, whose confidence is on the decoder's own scale. */
+	offline?: boolean;
+}
+
+/**
+ * Lowest Web Speech confidence taken: engines report about 0.9 for a clear phrase and well
+ * under 0.5 for a guess (from memory, not measured here: headless Chromium has no speech
+ * recognition).
+ */
+export const WEB_SPEECH_MIN_CONFIDENCE = 0.5;
+
+/**
+ * The confidence and threshold the gate judges a phrase by. Offline voice: its decoder's
+ * confidence against the gate's own threshold. Web Speech: its confidence against
+ * WEB_SPEECH_MIN_CONFIDENCE, or, when the engine gave none, no confidence test at all (the
+ * value checks, the confirm window and the read-back still apply).
+ */
+export function confidenceFor(h: Heard): { confidence: number; minConfidence: number } {
+	if (h.offline) return { confidence: h.confidence ?? 0, minConfidence: MIN_CONFIDENCE };
+	if (h.confidence === null) return { confidence: 0, minConfidence: 0 };
+	return { confidence: h.confidence, minConfidence: WEB_SPEECH_MIN_CONFIDENCE };
 }
 
 export type HeardOutcome =
@@ -22,8 +52,8 @@ export type HeardOutcome =
 	| { kind: 'cancel' }
 	/** Not logged: the Bench shows and says "say it again" with what it heard. */
 	| { kind: 'say_again'; heard: string; message: string; reason: GateReason }
-	/** Hands-free only: not a command, or not heard well enough to be one. Shown faintly. */
-	| { kind: 'ignored'; heard: string; reason: GateReason };
+	/** Hands-free only: not a command it acts on, or not heard well enough. Shown faintly. */
+	| { kind: 'ignored'; heard: string; reason: GateReason | 'not_hands_free' };
 
 /**
  * A Web Speech confidence as a number 0…1, or null. Engines report 0 when they have no
@@ -67,6 +97,9 @@ export function decideHeard(
 ): HeardOutcome {
 	const text = heard.text.trim();
 	if (opts.isCancel(text)) return { kind: 'cancel' };
+	if (answer.ok && opts.handsFree && !HANDS_FREE_INTENTS.has(answer.intent)) {
+		return { kind: 'ignored', heard: text, reason: 'not_hands_free' };
+	}
 	if (answer.ok) return { kind: 'confirm', text };
 	if (
 		opts.handsFree &&
