@@ -51,7 +51,7 @@ async function openWithOfflineVoice(
 	await expect(page.getByRole('heading', { name: new RegExp(`Job ${job}`) })).toBeVisible();
 	await page.getByTestId('voice-settings').locator('summary').click();
 	await page.getByTestId('voice-choice').selectOption('offline');
-	await expect(page.getByTestId('voice-ready')).toBeVisible({ timeout: 20_000 });
+	await expect(page.getByTestId('voice-ready')).toBeVisible({ timeout: 45_000 });
 	await expect(page.getByTestId('voice-denoise')).toBeVisible();
 	const ptt = page.getByRole('checkbox', { name: /Push-to-talk/ });
 	if ((await ptt.isChecked()) !== (mode.pushToTalk ?? false)) await ptt.click();

@@ -70,13 +70,18 @@ describe('pickRecogniser', () => {
 	});
 });
 
+function memoryStorage() {
+	const store = new Map<string, string>();
+	const storage = {
+		getItem: (k: string) => store.get(k) ?? null,
+		setItem: (k: string, v: string) => void store.set(k, v)
+	};
+	return { store, storage };
+}
+
 describe('VoiceSettings', () => {
 	it('restores what was saved and ignores anything else', () => {
-		const store = new Map<string, string>();
-		const storage = {
-			getItem: (k: string) => store.get(k) ?? null,
-			setItem: (k: string, v: string) => void store.set(k, v)
-		};
+		const { store, storage } = memoryStorage();
 		const a = new VoiceSettings();
 		a.choice = 'offline';
 		a.pushToTalk = true;
@@ -90,11 +95,7 @@ describe('VoiceSettings', () => {
 		expect(c.choice).toBe('auto');
 	});
 	it('hands-free is off by default, kept on the device, and excludes push-to-talk', () => {
-		const store = new Map<string, string>();
-		const storage = {
-			getItem: (k: string) => store.get(k) ?? null,
-			setItem: (k: string, v: string) => void store.set(k, v)
-		};
+		const { store, storage } = memoryStorage();
 		const a = new VoiceSettings();
 		expect(a.handsFree).toBe(false);
 		a.setPushToTalk(true);
