@@ -7,6 +7,7 @@ import {
 	confidenceFor,
 	decideHeard,
 	pickAlternative,
+	reasonOnly,
 	sayAgainWords,
 	speechConfidence,
 	type GateAnswer,
@@ -196,5 +197,29 @@ describe('confidenceFor', () => {
 			confidence: 0,
 			minConfidence: 0
 		});
+	});
+});
+
+describe('reasonOnly', () => {
+	it('drops the gate’s own lead, so the Bench does not say "say it again" twice', async () => {
+		const { gatePhrase } = await import('./gate');
+		const { parsePhrase } = await import('../phrase/index');
+		const step = { id: 'a', label: 'Rear axle nut', unit: 'N.m', min: 80, max: 96 };
+		const heard = 'rear axle nut eight hundred newton metres';
+		const answer = gatePhrase({
+			heard,
+			parsed: parsePhrase(heard, { steps: [step] }),
+			step,
+			confidence: 0.9
+		});
+		expect(answer.ok).toBe(false);
+		const message = answer.ok ? '' : answer.message;
+		expect(reasonOnly(message)).not.toMatch(/^say it again/i);
+		expect(reasonOnly(message)).not.toContain(heard);
+		expect(reasonOnly(message).length).toBeGreaterThan(10);
+		expect(reasonOnly('Say it again — heard nothing clear. Nothing was understood.')).toBe(
+			'Nothing was understood.'
+		);
+		expect(reasonOnly('Too far out.')).toBe('Too far out.');
 	});
 });

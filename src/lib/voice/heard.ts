@@ -110,9 +110,17 @@ export function decideHeard(
 	return {
 		kind: 'say_again',
 		heard: answer.heard || text,
-		message: answer.message,
+		message: reasonOnly(answer.message),
 		reason: answer.reason
 	};
+}
+
+/**
+ * The gate's reason without its own "Say it again — heard “…”." lead, for a screen that shows
+ * the heading and the words heard on lines of their own.
+ */
+export function reasonOnly(message: string): string {
+	return message.replace(/^Say it again — heard (“[^”]*”|nothing clear)\.\s*/, '');
 }
 
 /** What the Bench reads aloud when it refuses a phrase. */
