@@ -5,14 +5,23 @@
  */
 import type { Decoder, SoundSwallowerModule } from 'soundswallower';
 import { SAMPLE_RATE } from './audio';
-import { buildGrammar, type GrammarInput, type VoiceGrammar } from './grammar';
+import { buildGrammar, GARBAGE_PREFIX, type GrammarInput, type VoiceGrammar } from './grammar';
 
 export type { Decoder, SoundSwallowerModule };
 export { SAMPLE_RATE, readWav, readWavForModel, resample, checkPhraseAudio } from './audio';
 
+/**
+ * Decoder settings Benchcall changes from soundswallower's defaults, measured on the voice
+ * corpus's tuning split (README, Voice). Keys are soundswallower's own.
+ */
+export const DECODER_SETTINGS: Record<string, string | number | boolean> = {};
+
 /** A ready decoder for the bundled US English model. */
-export async function createDecoder(ss: SoundSwallowerModule): Promise<Decoder> {
-	const decoder = new ss.Decoder({ loglevel: 'FATAL', samprate: SAMPLE_RATE });
+export async function createDecoder(
+	ss: SoundSwallowerModule,
+	settings: Record<string, string | number | boolean> = DECODER_SETTINGS
+): Promise<Decoder> {
+	const decoder = new ss.Decoder({ loglevel: 'FATAL', samprate: SAMPLE_RATE, ...settings });
 	await decoder.initialize();
 	return decoder;
 }
@@ -58,19 +67,26 @@ export function decodePhrase(decoder: Decoder, samples: Float32Array): DecodedPh
 	decoder.start();
 	decoder.process_audio(samples, false, true);
 	decoder.stop();
-	const text = decoder.get_text().trim();
-	if (!text) return { text: '', confidence: 0, words: [] };
+	const raw = decoder.get_text().trim();
+	if (!raw) return { text: '', confidence: 0, words: [] };
 	const words: HeardWord[] = [];
+	let garbage = false;
 	for (const seg of decoder.get_alignment().w ?? []) {
 		if (FILLER.test(seg.t)) continue;
-		words.push({
-			word: seg.t.replace(/\(\d+\)$/, ''),
-			start: seg.b,
-			end: seg.b + seg.d,
-			score: seg.p
-		});
+		const word = seg.t.replace(/\(\d+\)$/, '');
+		const end = seg.b + seg.d;
+		if (word.startsWith(GARBAGE_PREFIX)) {
+			// speech no call fits: shown as "…", and the phrase is not trusted
+			garbage = true;
+			const last = words.at(-1);
+			if (last?.word === '…') last.end = end;
+			else words.push({ word: '…', start: seg.b, end, score: 0 });
+			continue;
+		}
+		words.push({ word, start: seg.b, end, score: seg.p });
 	}
-	return { text, confidence: phraseConfidence(words), words };
+	const text = words.map((w) => w.word).join(' ');
+	return { text, confidence: garbage ? 0 : phraseConfidence(words), words };
 }
 
 /**
