@@ -12,10 +12,10 @@ export type GateAnswer = GateResult & { intent: Intent };
 
 /**
  * What hands-free acts on: a value for a step (logged after the confirm window) and the
- * questions that log nothing. A recogniser that fits any sound to its grammar turns shop talk
- * into a note, a part or a done step with a confidence as high as a real call's (measured on
- * flite shop-talk sentences: 0.76–0.84 against 0.88–0.90), so those, and undo, need
- * push-to-talk or the keyboard.
+ * questions that log nothing. A recogniser that fits any sound to its grammar turned shop talk
+ * into a note, a part or a done step with a confidence as high as a real call's (three flite
+ * sentences before the grammar's out-of-grammar loop: 0.76–0.84 against 0.88–0.90), and a note
+ * takes any words, so those, and undo, need push-to-talk or the keyboard.
  */
 export const HANDS_FREE_INTENTS: ReadonlySet<Intent> = new Set(['measure', 'next', 'spec']);
 
