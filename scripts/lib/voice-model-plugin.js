@@ -32,6 +32,11 @@ function packageDir() {
 	return dir;
 }
 
+function rnnoiseWasm() {
+	const require = createRequire(import.meta.url);
+	return join(dirname(require.resolve('@jitsi/rnnoise-wasm/package.json')), 'dist', 'rnnoise.wasm');
+}
+
 /** URL path (under VOICE_BASE) → file on disk. */
 function files() {
 	const pkg = packageDir();
@@ -39,6 +44,8 @@ function files() {
 	const out = new Map();
 	for (const f of MODEL_FILES) out.set(`${MODEL}/${f}`, join(pkg, 'model', MODEL, f));
 	out.set('soundswallower.wasm', join(pkg, 'soundswallower.web.wasm'));
+	// RNNoise's WASM (its model is compiled in), for noise suppression before decoding
+	out.set('rnnoise.wasm', rnnoiseWasm());
 	out.set('capture-worklet.js', join(here, '../../src/lib/voice/capture-worklet.js'));
 	return out;
 }

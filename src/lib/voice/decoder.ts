@@ -4,16 +4,24 @@
  * so this module never pulls the WASM into a bundle by itself.
  */
 import type { Decoder, SoundSwallowerModule } from 'soundswallower';
-import { buildGrammar, type GrammarInput, type VoiceGrammar } from './grammar';
+import { SAMPLE_RATE } from './audio';
+import { buildGrammar, GARBAGE_PREFIX, type GrammarInput, type VoiceGrammar } from './grammar';
 
 export type { Decoder, SoundSwallowerModule };
+export { SAMPLE_RATE, readWav, readWavForModel, resample, checkPhraseAudio } from './audio';
 
-/** The sample rate of the model (and of the test WAVs). */
-export const SAMPLE_RATE = 16000;
+/**
+ * Decoder settings Benchcall changes from soundswallower's defaults, measured on the voice
+ * corpus's tuning split (README, Voice). Keys are soundswallower's own.
+ */
+export const DECODER_SETTINGS: Record<string, string | number | boolean> = {};
 
 /** A ready decoder for the bundled US English model. */
-export async function createDecoder(ss: SoundSwallowerModule): Promise<Decoder> {
-	const decoder = new ss.Decoder({ loglevel: 'FATAL', samprate: SAMPLE_RATE });
+export async function createDecoder(
+	ss: SoundSwallowerModule,
+	settings: Record<string, string | number | boolean> = DECODER_SETTINGS
+): Promise<Decoder> {
+	const decoder = new ss.Decoder({ loglevel: 'FATAL', samprate: SAMPLE_RATE, ...settings });
 	await decoder.initialize();
 	return decoder;
 }
@@ -31,50 +39,69 @@ export function useGrammar(decoder: Decoder, input: GrammarInput): VoiceGrammar 
 	return grammar;
 }
 
-/** Decodes one whole phrase; '' when nothing in the grammar was heard. */
-export function decodePhrase(decoder: Decoder, samples: Float32Array): string {
+export interface HeardWord {
+	word: string;
+	/** Seconds from the start of the phrase. */
+	start: number;
+	end: number;
+	/** The word's posterior probability from the decoder's lattice (0…1). */
+	score: number;
+}
+
+export interface DecodedPhrase {
+	/** The words heard, '' when nothing in the grammar was heard. */
+	text: string;
+	/** How sure the decoder is of the whole phrase, 0…1 (see `phraseConfidence`). */
+	confidence: number;
+	words: HeardWord[];
+}
+
+/** Fillers and silences in the alignment: not words the technician said. */
+const FILLER = /^(<.*>|\(NULL\)|\[.*\])$/;
+
+/**
+ * Decodes one whole phrase (16 kHz, −1…1). A fresh utterance each time: the cepstral mean is
+ * taken over the whole phrase (`full_utt`), so one phrase's loudness does not carry into the next.
+ */
+export function decodePhrase(decoder: Decoder, samples: Float32Array): DecodedPhrase {
 	decoder.start();
 	decoder.process_audio(samples, false, true);
 	decoder.stop();
-	return decoder.get_text().trim();
+	const raw = decoder.get_text().trim();
+	if (!raw) return { text: '', confidence: 0, words: [] };
+	const words: HeardWord[] = [];
+	let garbage = false;
+	for (const seg of decoder.get_alignment().w ?? []) {
+		if (FILLER.test(seg.t)) continue;
+		const word = seg.t.replace(/\(\d+\)$/, '');
+		const end = seg.b + seg.d;
+		if (word.startsWith(GARBAGE_PREFIX)) {
+			// speech no call fits: shown as "…", and the phrase is not trusted
+			garbage = true;
+			const last = words.at(-1);
+			if (last?.word === '…') last.end = end;
+			else words.push({ word: '…', start: seg.b, end, score: 0 });
+			continue;
+		}
+		words.push({ word, start: seg.b, end, score: seg.p });
+	}
+	const text = words.map((w) => w.word).join(' ');
+	return { text, confidence: garbage ? 0 : phraseConfidence(words), words };
 }
 
 /**
- * Samples of a PCM WAV file (16-bit integer or 32-bit float, first channel) as floats in
- * −1…1, with its sample rate. Throws on anything else.
+ * The phrase's confidence from its words' posterior probabilities (the decoder's lattice,
+ * `get_alignment()`): the weakest word counts most, because one misheard word (a unit, a digit)
+ * is enough to log a wrong value. Confidence = min(p)^0.5 · mean(p)^0.5, 0 when no word.
  */
-export function readWav(bytes: Uint8Array): { sampleRate: number; samples: Float32Array } {
-	const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-	const tag = (at: number) => String.fromCharCode(...bytes.subarray(at, at + 4));
-	if (bytes.length < 12 || tag(0) !== 'RIFF' || tag(8) !== 'WAVE')
-		throw new Error('Not a WAV file.');
-	let format = 0;
-	let channels = 0;
-	let sampleRate = 0;
-	let bits = 0;
-	for (let at = 12; at + 8 <= bytes.length;) {
-		const id = tag(at);
-		const size = view.getUint32(at + 4, true);
-		const body = at + 8;
-		if (id === 'fmt ') {
-			format = view.getUint16(body, true);
-			channels = view.getUint16(body + 2, true);
-			sampleRate = view.getUint32(body + 4, true);
-			bits = view.getUint16(body + 14, true);
-		} else if (id === 'data') {
-			const end = Math.min(body + size, bytes.length);
-			const step = (bits / 8) * channels;
-			const n = Math.floor((end - body) / step);
-			const out = new Float32Array(n);
-			for (let i = 0; i < n; i++) {
-				const p = body + i * step;
-				if (format === 1 && bits === 16) out[i] = view.getInt16(p, true) / 32768;
-				else if (format === 3 && bits === 32) out[i] = view.getFloat32(p, true);
-				else throw new Error(`Unsupported WAV sample format ${format}/${bits} bits.`);
-			}
-			return { sampleRate, samples: out };
-		}
-		at = body + size + (size % 2);
+export function phraseConfidence(words: Pick<HeardWord, 'score'>[]): number {
+	if (!words.length) return 0;
+	let min = 1;
+	let sum = 0;
+	for (const w of words) {
+		const p = Number.isFinite(w.score) ? Math.max(0, Math.min(1, w.score)) : 0;
+		min = Math.min(min, p);
+		sum += p;
 	}
-	throw new Error('The WAV file has no data.');
+	return Math.sqrt(min * (sum / words.length));
 }

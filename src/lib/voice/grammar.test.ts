@@ -111,11 +111,21 @@ describe('buildGrammar', () => {
 			expect(g.jsgf).toContain(`<${rule}> =`);
 		}
 		expect(g.jsgf).toMatch(/<prefix> = .*spec.*\(mark done\).*\(fitted new\)/);
-		expect(g.jsgf).toContain('public <call> = <name> <tail> | <prefix> <name> | note <noteword>+');
+		expect(g.jsgf).toContain('<call> = <name> <tail> | <prefix> <name> | note <noteword>+');
 		expect(g.jsgf).toContain('<tail> = <number> [<unit>] | <donetail> | <parttail>;');
-		expect(g.jsgf).toContain('<number> = <whole> [point <digit> [<digit> [<digit>]]];');
+		expect(g.jsgf).toContain('<number> = <whole> [<decimals>] | <decimals>;');
+		expect(g.jsgf).toContain('<decimals> = point <digit> [<digit> [<digit>]];');
 		expect(g.jsgf).toContain('(hundred | thousand [<one> hundred]) [[and] <below100>]');
 		expect(g.missing).toEqual([]);
+	});
+	it('has an out-of-grammar path of single phones beside the calls, unless told not to', () => {
+		const g = buildGrammar({ steps }, lookup);
+		expect(g.jsgf).toMatch(/^public <top> = \/1\/ <call> \| \/[\d.e-]+\/ <garbage>;$/m);
+		expect(g.jsgf).toMatch(/^<garbage> = \(zz_aa \| zz_ae .* \| zz_zh\)\+;$/m);
+		expect(g.added).toContainEqual(['zz_ng', 'NG']);
+		const plain = buildGrammar({ steps, garbage: 0 }, lookup);
+		expect(plain.jsgf).toContain('public <call> = <name> <tail>');
+		expect(plain.jsgf).not.toContain('zz_');
 	});
 	it('leaves out phrases with unknown words and lists those words', () => {
 		const g = buildGrammar({ steps }, lookup);
@@ -147,6 +157,6 @@ describe('buildGrammar', () => {
 		expect(g.jsgf).not.toContain('<VOID>');
 		expect(g.jsgf).not.toContain('<name>');
 		expect(g.jsgf).toContain('<tail> = <number> | <donetail> | <parttail>;');
-		expect(g.jsgf).toMatch(/public <call> = note <noteword>\+ \| <next> \| <undo> \| <cancel>;/);
+		expect(g.jsgf).toMatch(/<call> = note <noteword>\+ \| <next> \| <undo> \| <cancel>;/);
 	});
 });

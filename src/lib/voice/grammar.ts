@@ -18,7 +18,22 @@ export interface GrammarInput {
 	steps: GrammarStep[];
 	/** Names of parts the job may fit ("drain plug washer"), for "new …" and "… replaced". */
 	parts?: string[];
+	/**
+	 * Weight of the out-of-grammar path against the calls (0 leaves it out): a loop of single
+	 * phones that soaks up speech no call fits (shop talk, noise), so it is not forced into the
+	 * nearest call. Heard words from it start with `GARBAGE_PREFIX`. Default `GARBAGE_WEIGHT`.
+	 */
+	garbage?: number;
 }
+
+/** The model's phones (CMU set), one garbage word each. */
+const PHONES =
+	'AA AE AH AO AW AY B CH D DH EH ER EY F G HH IH IY JH K L M N NG OW OY P R S SH T TH UH UW V W Y Z ZH'.split(
+		' '
+	);
+export const GARBAGE_PREFIX = 'zz_';
+/** Default weight of the out-of-grammar path (the calls weigh 1); measured on the tuning split. */
+export const GARBAGE_WEIGHT = 1e-4;
 
 /** The model dictionary: a word's phones ("S P EH K"), or null when the word is unknown. */
 export type Lookup = (word: string) => string | null;
@@ -258,10 +273,18 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		'<undo>',
 		'<cancel>'
 	];
+	const garbage = input.garbage ?? GARBAGE_WEIGHT;
+	if (garbage > 0) for (const ph of PHONES) added.push([GARBAGE_PREFIX + ph.toLowerCase(), ph]);
 	const lines = [
 		'#JSGF V1.0;',
 		'grammar benchcall;',
-		`public <call> = ${calls.join(' | ')};`,
+		...(garbage > 0
+			? [
+					`public <top> = /1/ <call> | /${garbage}/ <garbage>;`,
+					`<call> = ${calls.join(' | ')};`,
+					`<garbage> = (${PHONES.map((p) => GARBAGE_PREFIX + p.toLowerCase()).join(' | ')})+;`
+				]
+			: [`public <call> = ${calls.join(' | ')};`]),
 		`<tail> = ${tail};`,
 		rule('prefix', keep([...SPEC_PREFIX, ...DONE_PREFIX, ...PART_PREFIX])),
 		rule('next', keep(NEXT)),
@@ -270,7 +293,9 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		rule('donetail', keep(DONE_SUFFIX)),
 		rule('parttail', keep(PART_SUFFIX)),
 		rule('noteword', noteWords),
-		'<number> = <whole> [point <digit> [<digit> [<digit>]]];',
+		// "point one one" as well as "zero point one one": clearances are said both ways
+		'<number> = <whole> [<decimals>] | <decimals>;',
+		'<decimals> = point <digit> [<digit> [<digit>]];',
 		// up to 999, plus the way shops say revs: "fourteen hundred", "one thousand five hundred"
 		'<whole> = zero | <below100> [(hundred | thousand [<one> hundred]) [[and] <below100>]];',
 		'<below100> = <one> | <teen> | <tens> [<one>];',

@@ -7,6 +7,7 @@
 import type { Recogniser, RecogniserEvents, RecogniserFactory } from './recogniser';
 import type { Decoder } from './decoder';
 import type { GrammarInput } from './grammar';
+import { MAX_PHRASE_SECONDS, checkPhraseAudio } from './audio';
 
 /** Where scripts/lib/voice-model-plugin.js serves the model, the WASM and the worklet. */
 export const VOICE_BASE = '/voice-model/';
@@ -23,8 +24,17 @@ const MODEL_FILES = [
 const SAMPLE_RATE = 16000;
 /** Speech ends after this much quiet (ms) when listening hands-free. */
 const END_SILENCE_MS = 700;
-const MAX_UTTERANCE_MS = 10_000;
+/** A phrase still going past the longest call is cut here and refused as too long. */
+const MAX_UTTERANCE_MS = (MAX_PHRASE_SECONDS + 0.5) * 1000;
 const PREROLL_BLOCKS = 3;
+/** A microphone that sends only zeros this long is called out once (muted or unplugged). */
+const DEAD_MIC_MS = 3000;
+
+/** Noise suppression run on each block before the endpointer and the decoder. */
+export interface BlockDenoiser {
+	process(samples16k: Float32Array): Float32Array;
+	destroy(): void;
+}
 
 export type OfflineState = 'off' | 'loading' | 'ready' | 'error';
 
@@ -36,8 +46,13 @@ export class OfflineVoice {
 	/** Words of the job the model cannot say: their phrases were left out of the grammar. */
 	missing = $state<string[]>([]);
 	loadMs = $state<number | null>(null);
-	/** How long the last phrase took to decode (ms), shown so a slow device is noticed. */
+	/**
+	 * How long the last phrase took to read (ms): its noise suppression (done block by block
+	 * while it was spoken) plus its decoding. Shown so a slow device is noticed.
+	 */
 	decodeMs = $state<number | null>(null);
+	/** True when noise suppression runs before the decoder. */
+	denoising = $state(false);
 	/** Microphone level 0…1 while listening. */
 	level = $state(0);
 	listening = $state(false);
@@ -121,10 +136,13 @@ export class OfflineVoice {
 				}
 			})
 		);
-		const [{ default: createModule }, tools] = await Promise.all([
+		const [{ default: createModule }, tools, denoiser] = await Promise.all([
 			import('soundswallower'),
-			import('./decoder')
+			import('./decoder'),
+			loadDenoiser()
 		]);
+		this.#makeDenoiser = denoiser;
+		this.denoising = denoiser !== null;
 		this.#grammarTools = tools;
 		const ss = await createModule({
 			locateFile: () => VOICE_BASE + 'soundswallower.wasm',
@@ -148,8 +166,17 @@ export class OfflineVoice {
 	#quietMs = 0;
 	#floor = 0.005;
 	#preroll: Float32Array[] = [];
+	#prerollRaw: Float32Array[] = [];
 	/** The phrase's audio: decoded whole at its end, with the utterance's own normalisation. */
 	#utterance: Float32Array[] = [];
+	/** The phrase's raw blocks: silence and clipping are judged before suppression. */
+	#raw: Float32Array[] = [];
+	/** Time spent suppressing noise in the phrase's blocks (ms). */
+	#denoiseMs = 0;
+	#deadMs = 0;
+	#denoiser: BlockDenoiser | null = null;
+	/** Made when the model loads; a fresh one per listening session (RNNoise keeps state). */
+	#makeDenoiser: (() => BlockDenoiser) | null = null;
 
 	async #listen(events: RecogniserEvents) {
 		if (this.listening) return;
@@ -167,8 +194,15 @@ export class OfflineVoice {
 					autoGainControl: false
 				}
 			});
+			this.#denoiser = this.#makeDenoiser?.() ?? null;
 			const ctx = new AudioContext({ sampleRate: SAMPLE_RATE });
 			this.#ctx = ctx;
+			if (ctx.state === 'suspended') {
+				// hands-free restored on a fresh page: the browser lets sound run after a first touch
+				const wake = () => void ctx.resume();
+				addEventListener('pointerdown', wake, { once: true });
+				addEventListener('keydown', wake, { once: true });
+			}
 			await ctx.audioWorklet.addModule(VOICE_BASE + 'capture-worklet.js');
 			const source = ctx.createMediaStreamSource(this.#stream);
 			const node = new AudioWorkletNode(ctx, 'benchcall-capture');
@@ -197,6 +231,8 @@ export class OfflineVoice {
 		this.#quietMs = 0;
 		this.#utterance = this.#preroll;
 		this.#preroll = [];
+		this.#raw = this.#prerollRaw;
+		this.#prerollRaw = [];
 	}
 
 	#end() {
@@ -204,42 +240,74 @@ export class OfflineVoice {
 		this.#inUtterance = false;
 		const blocks = this.#utterance;
 		this.#utterance = [];
-		const samples = new Float32Array(blocks.reduce((n, b) => n + b.length, 0));
-		let at = 0;
-		for (const b of blocks) {
-			samples.set(b, at);
-			at += b.length;
+		const denoiseMs = this.#denoiseMs;
+		this.#denoiseMs = 0;
+		const problem = checkPhraseAudio(joined(this.#raw));
+		this.#raw = [];
+		if (problem) {
+			// never decoded, so never logged: the Bench shows why
+			this.#events?.onInterim('');
+			this.#events?.onUnread?.(problem.message, problem.problem);
+			this.#applyGrammar();
+			return;
 		}
+		const samples = joined(blocks);
 		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.25 s a phrase)
 		const t0 = performance.now();
-		const words = this.#grammarTools!.decodePhrase(this.#decoder, samples);
-		this.decodeMs = Math.round(performance.now() - t0);
+		const heard = this.#grammarTools!.decodePhrase(this.#decoder, samples);
+		this.decodeMs = Math.round(performance.now() - t0 + denoiseMs);
 		this.#events?.onInterim('');
-		if (words) this.#events?.onFinal(words);
+		if (heard.text)
+			this.#events?.onFinal([{ text: heard.text, confidence: heard.confidence, offline: true }]);
+		else
+			this.#events?.onUnread?.(
+				'Nothing this job knows was heard: say it again, close to the microphone.',
+				'nothing'
+			);
 		// a grammar for a job changed while speaking
 		this.#applyGrammar();
 	}
 
-	#onBlock(block: Float32Array) {
-		let sum = 0;
-		for (let i = 0; i < block.length; i++) sum += block[i] * block[i];
-		const rms = Math.sqrt(sum / block.length);
-		this.level = Math.min(1, Math.max(rms * 6, this.level * 0.7));
-		const ms = (block.length / SAMPLE_RATE) * 1000;
+	#onBlock(raw: Float32Array) {
+		const ms = (raw.length / SAMPLE_RATE) * 1000;
+		const rawRms = rmsOf(raw);
+		// the meter shows what the microphone sends, before suppression
+		this.level = Math.min(1, Math.max(rawRms * 6, this.level * 0.7));
+		// only a microphone that has sent nothing but zeros since listening began is called dead
+		// (a quiet room still has a little noise; recorded digital silence later on is not a fault)
+		this.#deadMs = rawRms === 0 && this.#deadMs >= 0 ? this.#deadMs + ms : -1;
+		if (this.#deadMs >= DEAD_MIC_MS && this.#deadMs - ms < DEAD_MIC_MS) {
+			this.#events?.onUnread?.(
+				'The microphone sends no sound at all: check it is switched on and not muted.',
+				'silent'
+			);
+		}
+		let block = raw;
+		if (this.#denoiser) {
+			const t0 = performance.now();
+			block = this.#denoiser.process(raw);
+			if (this.#inUtterance) this.#denoiseMs += performance.now() - t0;
+		}
+		const rms = rmsOf(block);
 		const speech = rms > Math.max(0.015, this.#floor * 4);
 		if (!speech && !this.#inUtterance) this.#floor = this.#floor * 0.95 + rms * 0.05;
 		if (!this.#inUtterance) {
 			if (this.pushToTalk || !speech) {
 				this.#preroll.push(block);
-				if (this.#preroll.length > PREROLL_BLOCKS) this.#preroll.shift();
+				this.#prerollRaw.push(raw);
+				if (this.#preroll.length > PREROLL_BLOCKS) {
+					this.#preroll.shift();
+					this.#prerollRaw.shift();
+				}
 				return;
 			}
 			this.#begin();
 		}
 		this.#utterance.push(block);
+		this.#raw.push(raw);
 		this.#uttMs += ms;
 		this.#quietMs = speech ? 0 : this.#quietMs + ms;
-		if (!this.pushToTalk && (this.#quietMs >= END_SILENCE_MS || this.#uttMs >= MAX_UTTERANCE_MS)) {
+		if (this.#uttMs >= MAX_UTTERANCE_MS || (!this.pushToTalk && this.#quietMs >= END_SILENCE_MS)) {
 			this.#end();
 		}
 	}
@@ -256,7 +324,13 @@ export class OfflineVoice {
 		void this.#ctx?.close();
 		this.#ctx = null;
 		this.#preroll = [];
+		this.#prerollRaw = [];
 		this.#utterance = [];
+		this.#raw = [];
+		this.#denoiseMs = 0;
+		this.#deadMs = 0;
+		this.#denoiser?.destroy();
+		this.#denoiser = null;
 		this.#inUtterance = false;
 		this.level = 0;
 		const events = this.#events;
@@ -281,4 +355,41 @@ export class OfflineVoice {
 			}
 		};
 	}
+}
+
+/**
+ * RNNoise (the same denoise.ts as the Node tests and benchmark), its 112 kB WASM served with the
+ * model. Null when it cannot load: voice still works, without suppression, and says so.
+ */
+async function loadDenoiser(): Promise<(() => BlockDenoiser) | null> {
+	try {
+		const [{ default: createRNNWasmModule }, { createDenoiser }] = await Promise.all([
+			import('@jitsi/rnnoise-wasm/dist/rnnoise.js'),
+			import('./denoise')
+		]);
+		const mod = await createRNNWasmModule({
+			locateFile: () => VOICE_BASE + 'rnnoise.wasm'
+		});
+		await mod.ready;
+		return () => createDenoiser(mod);
+	} catch (e) {
+		console.warn('Noise suppression could not load:', e);
+		return null;
+	}
+}
+
+function joined(blocks: Float32Array[]): Float32Array {
+	const out = new Float32Array(blocks.reduce((n, b) => n + b.length, 0));
+	let at = 0;
+	for (const b of blocks) {
+		out.set(b, at);
+		at += b.length;
+	}
+	return out;
+}
+
+function rmsOf(block: Float32Array): number {
+	let sum = 0;
+	for (let i = 0; i < block.length; i++) sum += block[i] * block[i];
+	return block.length ? Math.sqrt(sum / block.length) : 0;
 }

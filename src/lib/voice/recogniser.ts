@@ -2,13 +2,18 @@
  * Speech recognition behind a small interface, so the Bench does not care which recogniser
  * listens: the browser's Web Speech API today, an offline one (a grammar decoder in WASM) later.
  */
+import { speechConfidence, type Heard } from './heard';
+import type { AudioProblem } from './audio';
 
 export interface RecogniserEvents {
 	/** Words heard so far of the phrase being spoken. */
 	onInterim(text: string): void;
-	/** A finished phrase. */
-	onFinal(text: string): void;
-	onError(message: string): void;
+	/** A finished phrase: the recogniser's alternatives, best first (one for offline voice). */
+	onFinal(alternatives: Heard[]): void;
+	/** Audio that was not read (silence, clipping, too long, nothing of the grammar), and why. */
+	onUnread?(message: string, reason: AudioProblem | 'nothing'): void;
+	/** `code`: the Web Speech error code where there is one ('no-speech', 'network', …). */
+	onError(message: string, code?: string): void;
 	/** Listening stopped (by stop(), silence or an error). */
 	onEnd(): void;
 }
@@ -32,9 +37,8 @@ export interface RecogniserFactory {
 }
 
 // The parts of the Web Speech API used here, feature-detected one by one.
-interface SpeechResultLike {
+interface SpeechResultLike extends ArrayLike<{ transcript: string; confidence?: number }> {
 	isFinal: boolean;
-	0: { transcript: string };
 }
 interface SpeechEventLike {
 	resultIndex: number;
@@ -44,6 +48,7 @@ interface SpeechRecognitionLike {
 	lang: string;
 	continuous: boolean;
 	interimResults: boolean;
+	maxAlternatives: number;
 	processLocally?: boolean;
 	phrases?: unknown;
 	onresult: ((e: SpeechEventLike) => void) | null;
@@ -82,6 +87,8 @@ export function webSpeech(
 			rec.lang = lang;
 			rec.continuous = true;
 			rec.interimResults = true;
+			// more than one reading, so the gate can take a later one it trusts (heard.ts)
+			rec.maxAlternatives = 3;
 			// On-device recognition where the browser says it is installed for this language.
 			if (typeof Ctor.available === 'function' && 'processLocally' in rec) {
 				try {
@@ -102,18 +109,30 @@ export function webSpeech(
 				let interim = '';
 				for (let i = e.resultIndex; i < e.results.length; i++) {
 					const r = e.results[i];
-					const words = r[0]?.transcript ?? '';
-					if (r.isFinal) events.onFinal(words.trim());
-					else interim += words;
+					if (r.isFinal) events.onFinal(alternativesOf(r));
+					else interim += r[0]?.transcript ?? '';
 				}
 				if (interim) events.onInterim(interim.trim());
 			};
 			rec.onerror = (e) =>
-				events.onError(ERRORS[e.error ?? ''] ?? e.message ?? 'Speech recognition stopped.');
+				events.onError(
+					ERRORS[e.error ?? ''] ?? e.message ?? 'Speech recognition stopped.',
+					e.error
+				);
 			rec.onend = () => events.onEnd();
 			return { start: () => rec.start(), stop: () => rec.stop() };
 		}
 	};
+}
+
+/** A final Web Speech result's alternatives with their confidence (0 from the engine: unknown). */
+export function alternativesOf(r: SpeechResultLike): Heard[] {
+	const out: Heard[] = [];
+	for (let j = 0; j < r.length; j++) {
+		const text = (r[j]?.transcript ?? '').trim();
+		if (text) out.push({ text, confidence: speechConfidence(r[j].confidence) });
+	}
+	return out;
 }
 
 /** Distinct words of the job's step names and aliases, for biasing. */

@@ -14,6 +14,11 @@ export class VoiceSettings {
 	choice = $state<VoiceChoice>('auto');
 	noisy = $state(false);
 	pushToTalk = $state(false);
+	/**
+	 * Hands-free: listens all the time, no key to hold, and acts only on phrases that read as a
+	 * command with enough confidence. Off by default; push-to-talk is the way in a loud bay.
+	 */
+	handsFree = $state(false);
 	/** Where the last phrase was recognised, for the screen. */
 	using = $state('');
 
@@ -25,20 +30,34 @@ export class VoiceSettings {
 			}
 			this.noisy = saved.noisy === true;
 			this.pushToTalk = saved.pushToTalk === true;
+			this.handsFree = saved.handsFree === true && !this.pushToTalk;
 		} catch {
 			// unreadable settings: keep the defaults
 		}
 	}
 
 	save(storage: Pick<Storage, 'setItem'> | undefined = globalThis.localStorage) {
-		const { choice, noisy, pushToTalk } = this;
-		storage?.setItem(KEY, JSON.stringify({ choice, noisy, pushToTalk }));
+		const { choice, noisy, pushToTalk, handsFree } = this;
+		storage?.setItem(KEY, JSON.stringify({ choice, noisy, pushToTalk, handsFree }));
 	}
 
-	/** Noisy mode turns push-to-talk on (it can still be turned off). */
+	/** Noisy mode turns push-to-talk on (it can still be turned off), and so hands-free off. */
 	setNoisy(on: boolean) {
 		this.noisy = on;
-		if (on) this.pushToTalk = true;
+		if (on) this.setPushToTalk(true);
+		this.save();
+	}
+
+	/** Push-to-talk and hands-free exclude each other: one holds a key, the other needs none. */
+	setPushToTalk(on: boolean) {
+		this.pushToTalk = on;
+		if (on) this.handsFree = false;
+		this.save();
+	}
+
+	setHandsFree(on: boolean) {
+		this.handsFree = on;
+		if (on) this.pushToTalk = false;
 		this.save();
 	}
 }
@@ -73,7 +92,7 @@ export async function pickRecogniser(
 	offline: OfflineVoice = offlineVoice,
 	win: Record<string, unknown> = globalThis as never
 ): Promise<RecogniserFactory | null> {
-	offline.pushToTalk = settings.pushToTalk;
+	offline.pushToTalk = settings.pushToTalk && !settings.handsFree;
 	const browser = webSpeech(win);
 	const canOffline = OfflineVoice.supported(win);
 	let pick: RecogniserFactory | null;

@@ -70,13 +70,18 @@ describe('pickRecogniser', () => {
 	});
 });
 
+function memoryStorage() {
+	const store = new Map<string, string>();
+	const storage = {
+		getItem: (k: string) => store.get(k) ?? null,
+		setItem: (k: string, v: string) => void store.set(k, v)
+	};
+	return { store, storage };
+}
+
 describe('VoiceSettings', () => {
 	it('restores what was saved and ignores anything else', () => {
-		const store = new Map<string, string>();
-		const storage = {
-			getItem: (k: string) => store.get(k) ?? null,
-			setItem: (k: string, v: string) => void store.set(k, v)
-		};
+		const { store, storage } = memoryStorage();
 		const a = new VoiceSettings();
 		a.choice = 'offline';
 		a.pushToTalk = true;
@@ -88,5 +93,32 @@ describe('VoiceSettings', () => {
 		const c = new VoiceSettings();
 		c.restore(storage);
 		expect(c.choice).toBe('auto');
+	});
+	it('hands-free is off by default, kept on the device, and excludes push-to-talk', () => {
+		const { store, storage } = memoryStorage();
+		const a = new VoiceSettings();
+		expect(a.handsFree).toBe(false);
+		a.setPushToTalk(true);
+		a.setHandsFree(true);
+		expect([a.handsFree, a.pushToTalk]).toEqual([true, false]);
+		a.save(storage);
+		const b = new VoiceSettings();
+		b.restore(storage);
+		expect(b.handsFree).toBe(true);
+		b.setNoisy(true);
+		expect([b.handsFree, b.pushToTalk]).toEqual([false, true]);
+		// a hand-edited store with both on keeps the key: push-to-talk wins in a loud bay
+		store.set('benchcall-voice', '{"pushToTalk":true,"handsFree":true}');
+		const c = new VoiceSettings();
+		c.restore(storage);
+		expect([c.handsFree, c.pushToTalk]).toEqual([false, true]);
+	});
+
+	it('hands-free listens without a key even if push-to-talk was saved', async () => {
+		const { s, offline } = setup('offline');
+		s.pushToTalk = true;
+		s.handsFree = true;
+		await pickRecogniser(s, offline, withOffline);
+		expect(offline.pushToTalk).toBe(false);
 	});
 });

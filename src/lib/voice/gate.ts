@@ -1,0 +1,136 @@
+/**
+ * The gate between hearing and logging. A recogniser that is unsure, or a value that no
+ * technician would call out for the step (more than 3× outside its spec band, or a unit one
+ * metric prefix away from the step's own, the classic mishearing of "metres" as
+ * "millimetres"), must not reach the job log: the Bench asks to say it again and shows what it
+ * heard. Pure and framework-free; the offline decoder and the browser's Web Speech results
+ * (which carry their own confidence) both pass through it.
+ *
+ * Out-of-spec values that are plausible (a chain at 40 mm on a 25–35 mm step) are findings,
+ * not mishearings: they pass and are logged with their verdict.
+ */
+import { z } from 'zod';
+import { convert, dimensionOf, type Dimension } from '../units/index';
+import { isCancel, type ParsedPhrase, type StepSpec } from '../phrase/index';
+
+export type GateReason = 'low_confidence' | 'implausible_value' | 'wrong_scale' | 'not_understood';
+
+export type GateResult =
+	{ ok: true } | { ok: false; reason: GateReason; heard: string; message: string };
+
+export interface GateInput {
+	/** The words as heard (shown back to the technician). */
+	heard: string;
+	/** `parsePhrase(heard, …)`. */
+	parsed: ParsedPhrase;
+	/** The step the phrase names (parsed.stepId's spec), or null. */
+	step: StepSpec | null | undefined;
+	/** The recogniser's confidence, 0…1; anything else counts as 0. */
+	confidence: number;
+	/** Lowest confidence accepted; the default suits the offline decoder. */
+	minConfidence?: number;
+}
+
+/**
+ * Default lowest confidence for the offline decoder (`decodePhrase`), chosen on the corpus's
+ * tuning split (README, Voice). Web Speech confidences are on another scale: pass your own.
+ */
+export const MIN_CONFIDENCE = 0.75;
+/** A value more than this factor outside the step's band is taken as a mishearing. */
+export const PLAUSIBLE_FACTOR = 3;
+
+/**
+ * Units that sound alike and differ by a metric prefix (or by centi/milli): a step in one of
+ * them is never called out in another unless its kind of quantity mixes them in daily use.
+ */
+const SCALE_FAMILIES: string[][] = [
+	['mm', 'cm', 'm'],
+	['N.m', 'N.cm', 'daN.m'],
+	['kgf.m', 'kgf.cm'],
+	['V', 'mV'],
+	['Ohm', 'kOhm'],
+	['kPa', 'Pa', 'MPa']
+];
+/** Kinds of quantity whose units of every scale are said at the bench (oil in litres or in ml). */
+const MIXED_SCALE_KINDS = new Set<Dimension>(['volume']);
+
+const NON_LOGGING = new Set(['next', 'spec']);
+
+const inputSchema = z.object({
+	heard: z.string().max(500),
+	confidence: z.number().catch(0),
+	minConfidence: z.number().min(0).max(1).optional()
+});
+
+function quote(heard: string): string {
+	const h = heard.trim();
+	return h ? `“${h.length > 80 ? h.slice(0, 79) + '…' : h}”` : 'nothing clear';
+}
+
+function refuse(reason: GateReason, heard: string, why: string): GateResult {
+	return { ok: false, reason, heard, message: `Say it again — heard ${quote(heard)}. ${why}` };
+}
+
+/** True when `said` and `stepUnit` are the same unit one prefix apart (mm vs cm, N·m vs N·cm). */
+export function isWrongScale(said: string, stepUnit: string): boolean {
+	if (said === stepUnit) return false;
+	const kind = dimensionOf(stepUnit);
+	if (kind && MIXED_SCALE_KINDS.has(kind)) return false;
+	return SCALE_FAMILIES.some((f) => f.includes(said) && f.includes(stepUnit));
+}
+
+/** The step's band in its own unit: min/max, else the band the phrase engine judged against. */
+function bandOf(parsed: ParsedPhrase, step: StepSpec): { lo: number | null; hi: number | null } {
+	const lo = step.min ?? parsed.band?.min ?? step.nominal ?? null;
+	const hi = step.max ?? parsed.band?.max ?? step.nominal ?? null;
+	return { lo, hi };
+}
+
+export function gatePhrase(input: GateInput): GateResult {
+	const checked = inputSchema.safeParse(input);
+	const heard = checked.success ? checked.data.heard : String(input?.heard ?? '').slice(0, 500);
+	if (!checked.success || !input.parsed)
+		return refuse('not_understood', heard, 'That could not be read as a call.');
+	const conf = Number.isFinite(checked.data.confidence)
+		? Math.max(0, Math.min(1, checked.data.confidence))
+		: 0;
+	const min = checked.data.minConfidence ?? MIN_CONFIDENCE;
+	const { parsed } = input;
+
+	if (!heard.trim()) return refuse('not_understood', heard, 'Nothing was understood.');
+	if (conf < min) return refuse('low_confidence', heard, 'Not sure I heard that right.');
+	if (isCancel(heard) || NON_LOGGING.has(parsed.intent)) return { ok: true };
+	if (parsed.intent === 'unknown')
+		return refuse('not_understood', heard, 'That is not a call Benchcall knows.');
+	if (parsed.intent !== 'measure') return { ok: true };
+
+	const step = input.step;
+	const q = parsed.quantity;
+	if (!step || !q || !Number.isFinite(q.value))
+		return refuse('not_understood', heard, 'Name the step and the value.');
+	if (step.unit && q.unit !== '1' && isWrongScale(q.unit, step.unit))
+		return refuse(
+			'wrong_scale',
+			heard,
+			'That unit is not the step’s scale; say the value with its unit again.'
+		);
+	let value = parsed.specValue?.value ?? null;
+	if (value === null && step.unit && q.unit !== '1') {
+		try {
+			value = convert(q.value, q.unit, step.unit);
+		} catch {
+			return refuse('wrong_scale', heard, 'That unit does not measure this step.');
+		}
+	}
+	value ??= q.value;
+	const { lo, hi } = bandOf(parsed, step);
+	const tooHigh = hi !== null && hi > 0 && value > hi * PLAUSIBLE_FACTOR;
+	const tooLow = lo !== null && lo > 0 && value < lo / PLAUSIBLE_FACTOR;
+	if (tooHigh || tooLow)
+		return refuse(
+			'implausible_value',
+			heard,
+			'That value is far outside this step’s spec; check it and say it again.'
+		);
+	return { ok: true };
+}

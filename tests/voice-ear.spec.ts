@@ -1,0 +1,185 @@
+/**
+ * The Bench's ear through Chromium's fake microphone (one browser per recording: Chromium takes
+ * the file at launch). A noisy phrase is logged right; a phrase whose value cannot be right is
+ * refused with "say it again" and nothing is logged; hands-free ignores shop talk and acts on
+ * the call-out after it; silence, clipping and a 30 s recording each get a clear message and log
+ * nothing. "Nothing logged" is checked through the job log's API, not only on the screen.
+ * Recordings: tests/fixtures/voice/e2e (scripts/make-voice-e2e.sh); bad input is made from them.
+ */
+import { chromium, expect, test, type LaunchOptions, type Page } from '@playwright/test';
+import { badWav, fakeMicrophoneArgs, paddedWav } from '../scripts/lib/voice-wav';
+import { demo, signIn } from './helpers/auth';
+import { entry, jobId } from './helpers/bench-db';
+
+interface ApiEntry {
+	id: string;
+	seq: number;
+}
+
+/** Runs `fn` on a Bench page in a browser whose microphone plays `wavPath`. */
+async function withMicrophone(
+	info: { project: { use: { launchOptions?: LaunchOptions; baseURL?: string } } },
+	wavPath: string,
+	fn: (page: Page) => Promise<void>
+) {
+	const base = (info.project.use.launchOptions ?? {}) as LaunchOptions;
+	const browser = await chromium.launch({
+		...base,
+		args: [...(base.args ?? []), ...fakeMicrophoneArgs(wavPath)]
+	});
+	try {
+		const context = await browser.newContext({
+			baseURL: info.project.use.baseURL,
+			viewport: { width: 1280, height: 800 },
+			permissions: ['microphone']
+		});
+		await fn(await context.newPage());
+	} finally {
+		await browser.close();
+	}
+}
+
+/** Signs in, opens the job's Bench and loads offline voice with the given way of listening. */
+async function openWithOfflineVoice(
+	page: Page,
+	who: string,
+	job: number,
+	mode: { handsFree?: boolean; pushToTalk?: boolean } = {}
+) {
+	await signIn(page, who);
+	await page.goto(`/bench?job=${job}`);
+	await expect(page.getByRole('heading', { name: new RegExp(`Job ${job}`) })).toBeVisible();
+	await page.getByTestId('voice-settings').locator('summary').click();
+	await page.getByTestId('voice-choice').selectOption('offline');
+	await expect(page.getByTestId('voice-ready')).toBeVisible({ timeout: 45_000 });
+	await expect(page.getByTestId('voice-denoise')).toBeVisible();
+	const ptt = page.getByRole('checkbox', { name: /Push-to-talk/ });
+	if ((await ptt.isChecked()) !== (mode.pushToTalk ?? false)) await ptt.click();
+	if (mode.handsFree) await page.getByTestId('hands-free').check();
+}
+
+/** The job log through its API: the newest seq now, and what came after a seq. */
+async function logApi(page: Page, job: number) {
+	const id = await jobId(job);
+	const read = async (query: string) => {
+		const res = await page.request.get(`/api/jobs/${id}/entries?${query}`);
+		expect(res.status()).toBe(200);
+		return ((await res.json()) as { entries: ApiEntry[] }).entries;
+	};
+	const latest = (await read('limit=1'))[0]?.seq ?? 0;
+	return { latest, since: () => read(`after=${latest}&limit=200`) };
+}
+
+/** Waits out the confirm window and the outbox, then checks the job log gained nothing. */
+async function expectNothingLogged(page: Page, log: { since: () => Promise<ApiEntry[]> }) {
+	await expect(page.getByTestId('countdown')).toHaveCount(0);
+	await page.waitForTimeout(4_000); // longer than the 3 s confirm window
+	await expect(page.getByTestId('waiting')).toHaveCount(0);
+	expect(await log.since()).toEqual([]);
+}
+
+test.describe('the Bench’s ear', () => {
+	// a browser, the model and a phrase per test; a busy 2-core machine needs the room
+	test.describe.configure({ timeout: 120_000 });
+
+	// eslint-disable-next-line no-empty-pattern -- Playwright wants the fixtures argument first
+	test('a phrase under pink noise at 10 dB SNR is logged right', async ({}, info) => {
+		const wav = paddedWav('e2e/noisy-pink-10db-rear-axle-90-nm.wav', 8);
+		await withMicrophone(info, wav, async (page) => {
+			await openWithOfflineVoice(page, demo.ruth, 1043);
+			const log = await logApi(page, 1043);
+			await page.getByRole('button', { name: /Start listening/ }).click();
+			// the phrase, the confirm window (3 s) and the outbox; slow when the machine is busy
+			await expect(page.getByTestId('log-entry').first()).toContainText('Rear axle nut', {
+				timeout: 45_000
+			});
+			await page.getByRole('button', { name: 'Stop listening' }).click();
+			const added = await log.since();
+			expect(added).toHaveLength(1);
+			// demo spec of the rear axle nut: 80–96 N·m (invented values)
+			expect(await entry(added[0].id)).toMatchObject({
+				source: 'voice',
+				value: 90,
+				unit: 'N.m',
+				verdict: 'in'
+			});
+		});
+	});
+
+	// eslint-disable-next-line no-empty-pattern
+	test('a value ten times the spec is refused: say it again, nothing logged', async ({}, info) => {
+		await withMicrophone(info, paddedWav('e2e/rear-axle-800-nm.wav', 8), async (page) => {
+			await openWithOfflineVoice(page, demo.ruth, 1043);
+			const log = await logApi(page, 1043);
+			await page.getByRole('button', { name: /Start listening/ }).click();
+			const notice = page.getByTestId('say-again');
+			await expect(notice).toBeVisible({ timeout: 45_000 });
+			await expect(notice).toContainText('Say it again');
+			await expect(page.getByTestId('say-again-heard')).toContainText(/rear axle/i);
+			await expect(notice).toContainText('Nothing was logged');
+			await page.getByRole('button', { name: 'Stop listening' }).click();
+			await expectNothingLogged(page, log);
+		});
+	});
+
+	// eslint-disable-next-line no-empty-pattern
+	test('hands-free ignores shop talk and logs the call-out after it', async ({}, info) => {
+		const wav = paddedWav('e2e/shop-talk-then-chain-slack-25-mm.wav', 14);
+		await withMicrophone(info, wav, async (page) => {
+			await openWithOfflineVoice(page, demo.ruth, 1043, { handsFree: true });
+			const log = await logApi(page, 1043);
+			// no key, no button: hands-free starts listening by itself
+			await expect(page.getByTestId('hands-free-status')).toContainText('listening');
+			await expect(page.getByRole('button', { name: 'Stop listening' })).toBeVisible();
+			await expect(page.getByTestId('voice-ignored').first()).toBeVisible({ timeout: 45_000 });
+			await expect(page.getByTestId('log-entry').first()).toContainText('Drive chain slack', {
+				timeout: 30_000
+			});
+			const added = await log.since();
+			expect(added).toHaveLength(1);
+			expect(await entry(added[0].id)).toMatchObject({
+				source: 'voice',
+				value: 25,
+				unit: 'mm',
+				verdict: 'in' // demo spec 20–30 mm
+			});
+			await page.getByTestId('hands-free').uncheck();
+		});
+	});
+
+	const bad = [
+		{
+			name: 'a silent microphone',
+			wav: () => badWav.silence(),
+			says: /no sound at all/
+		},
+		{
+			name: 'a clipped phrase',
+			wav: () => badWav.clipped('e2e/rear-axle-800-nm.wav'),
+			says: /the sound is clipped/
+		},
+		{
+			name: 'a 30 s recording',
+			wav: () => badWav.long('e2e/rear-axle-800-nm.wav', 30),
+			says: /say one call at a time/
+		}
+	];
+	for (const b of bad) {
+		// eslint-disable-next-line no-empty-pattern
+		test(`${b.name}: a clear message, nothing logged`, async ({}, info) => {
+			await withMicrophone(info, b.wav(), async (page) => {
+				const errors: string[] = [];
+				page.on('pageerror', (e) => errors.push(e.message));
+				await openWithOfflineVoice(page, demo.ruth, 1043);
+				const log = await logApi(page, 1043);
+				await page.getByRole('button', { name: /Start listening/ }).click();
+				const unread = page.getByTestId('voice-unread');
+				await expect(unread).toContainText(b.says, { timeout: 40_000 });
+				await expect(unread).toContainText('Nothing was logged');
+				await page.getByRole('button', { name: 'Stop listening' }).click();
+				await expectNothingLogged(page, log);
+				expect(errors).toEqual([]);
+			});
+		});
+	}
+});
