@@ -75,6 +75,18 @@ export function isKnownCurrency(currency: string): boolean {
 	return Object.hasOwn(MINOR_UNIT_EXPONENTS, currency.toUpperCase());
 }
 
+/**
+ * The largest amount Benchcall keeps, in minor units: amounts are stored in PostgreSQL
+ * `integer` columns (2^31 − 1). 21 474 836.47 EUR, 2 147 483 647 JPY: far above any workshop
+ * invoice, and every sum of an invoice is checked against it before it is stored.
+ */
+export const MAX_AMOUNT_MINOR = 2_147_483_647;
+
+/** Whether a minor-unit amount fits the columns it is stored in (either sign). */
+export function fitsAmount(minor: number): boolean {
+	return Number.isSafeInteger(minor) && Math.abs(minor) <= MAX_AMOUNT_MINOR;
+}
+
 /** Rounds a bigint fraction n/d to the nearest integer, halves away from zero. */
 function roundFraction(n: bigint, d: bigint): bigint {
 	if (d < 0n) {
@@ -193,8 +205,12 @@ export function parseMoney(
 	}
 	const minor = BigInt(m[2]) * 10n ** BigInt(e) + BigInt(frac.padEnd(e, '0') || '0');
 	const signed = m[1] === '-' ? -minor : minor;
-	if (signed > BigInt(Number.MAX_SAFE_INTEGER))
-		return { ok: false, error: 'The amount is too large' };
+	if (minor > BigInt(MAX_AMOUNT_MINOR)) {
+		return {
+			ok: false,
+			error: `The amount is too large: at most ${toDecimalString(MAX_AMOUNT_MINOR, currency)}`
+		};
+	}
 	return { ok: true, minor: Number(signed) };
 }
 
