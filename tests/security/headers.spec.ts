@@ -122,6 +122,27 @@ test('nosniff, Referrer-Policy and X-Frame-Options on API answers, redirects and
 	}
 });
 
+test('signed-in pages and JSON are private and never stored; the session cookie lives two days', async () => {
+	const { kettle } = await securityTargets();
+	const owner = await signInSession(demo.owner);
+	for (const [path, accept] of [
+		['/jobs', 'text/html'],
+		[`/jobs/${kettle.number}/invoice`, 'text/html'],
+		['/api/staff', 'application/json'],
+		[`/api/jobs/${kettle.jobId}/entries`, 'application/json']
+	]) {
+		const a = await send(path, { session: owner, headers: { accept } });
+		expect(a.status, path).toBe(200);
+		expect(a.headers.get('cache-control'), path).toBe('private, no-store');
+	}
+	const res = await send('/sign-in', {
+		body: { form: { email: demo.owner, password: demoPassword } }
+	});
+	const cookie = sessionCookie(res.headers) ?? '';
+	// The server session lasts 2 days (lucia's sessionExpiresIn): so does the cookie.
+	expect(cookie).toMatch(/Max-Age=172800\b/);
+});
+
 test.describe('a server of our own, over https as far as it knows', () => {
 	const port2 = port + 20;
 	const base = `http://127.0.0.1:${port2}`;

@@ -92,3 +92,11 @@ describe('sign-in throttling (issue 21)', () => {
 		expect('retryAfterSeconds' in fromOwner && fromOwner.retryAfterSeconds).toBeFalsy();
 	});
 });
+
+describe('the session cookie (issue 21)', () => {
+	it('lives no longer than the server session it names', () => {
+		const cookie = lucia.createSessionCookie('any-session-id');
+		// Two days, as sessionExpiresIn: the cookie was 400 days with `expires: false`.
+		expect(cookie.attributes.maxAge).toBe(2 * 24 * 60 * 60);
+	});
+});

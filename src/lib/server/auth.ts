@@ -124,9 +124,10 @@ const secure = !dev && (env.ORIGIN ?? '').startsWith('https://');
 export const lucia = new Lucia(adapter, {
 	// A working day and then some; renewed while in use (lucia renews in the second half).
 	sessionExpiresIn: new TimeSpan(2, 'd'),
+	// The cookie lives as long as the session it names (Max-Age from sessionExpiresIn, renewed
+	// with it), not lucia's 400 days for `expires: false`.
 	sessionCookie: {
 		name: 'benchcall_session',
-		expires: false,
 		attributes: { secure, sameSite: 'lax' }
 	},
 	getUserAttributes: (attributes) => ({
