@@ -47,6 +47,15 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	response.headers.set('Referrer-Policy', 'same-origin');
 	response.headers.set('X-Frame-Options', 'DENY');
 	response.headers.set('Permissions-Policy', 'camera=(self), microphone=(self), geolocation=()');
+	// A signed-in page or JSON answer is this person's: no shared cache or back-button copy.
+	const type = response.headers.get('content-type') ?? '';
+	if (event.locals.user && /text\/html|application\/json|text\/event-stream/.test(type)) {
+		try {
+			response.headers.set('Cache-Control', 'private, no-store');
+		} catch {
+			// Immutable headers (a fetched response passed through): leave them.
+		}
+	}
 	return response;
 };
 

@@ -2,7 +2,7 @@
 //   - an SMTP sink on 127.0.0.1 (the smtp-server package) that accepts every message and keeps
 //     a copy in .data/mail/, so nothing leaves the machine;
 //   - a payment provider on 127.0.0.1 that answers the only calls Benchcall makes through the
-//     official stripe SDK (create a Checkout Session, retrieve it), serves a "pay" page, and on
+//     official stripe SDK (create a Checkout Session, retrieve it, expire it), serves a "pay" page, and on
 //     pay posts a webhook signed the way the real service signs: the Stripe-Signature header
 //     `t=<unix seconds>,v1=<hex HMAC-SHA256 of "<t>.<payload>" with the endpoint secret>`.
 // Production sets SMTP_URL and STRIPE_SECRET_KEY / STRIPE_WEBHOOK_SECRET instead; then the
@@ -116,6 +116,22 @@ export function startPaymentsFake({ port = 12111, secretKey, webhookSecret, webh
 					sessions.set(id, session);
 					return json(res, 200, session);
 				}
+				// As the real service: only an open session can be expired; it then cannot be paid.
+				const ex = /^\/v1\/checkout\/sessions\/([\w-]+)\/expire$/.exec(url.pathname);
+				if (req.method === 'POST' && ex) {
+					const s = sessions.get(ex[1]);
+					if (!s) return apiError(res, 404, `No such checkout.session: '${ex[1]}'`);
+					if (s.status !== 'open') {
+						return apiError(
+							res,
+							400,
+							'Only Checkout Sessions with a status of `open` can be expired.'
+						);
+					}
+					s.status = 'expired';
+					s.url = null;
+					return json(res, 200, s);
+				}
 				const m = /^\/v1\/checkout\/sessions\/([\w-]+)$/.exec(url.pathname);
 				if (req.method === 'GET' && m) {
 					const s = sessions.get(m[1]);
@@ -129,6 +145,10 @@ export function startPaymentsFake({ port = 12111, secretKey, webhookSecret, webh
 				if (!s) {
 					res.writeHead(404, { 'content-type': 'text/plain' });
 					return res.end('No such payment.');
+				}
+				if (s.status === 'expired') {
+					res.writeHead(410, { 'content-type': 'text/plain' });
+					return res.end('This payment page has expired: nothing was charged.');
 				}
 				if (req.method === 'POST') {
 					if (s.status !== 'complete') {

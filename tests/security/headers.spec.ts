@@ -122,6 +122,50 @@ test('nosniff, Referrer-Policy and X-Frame-Options on API answers, redirects and
 	}
 });
 
+test('signed-in pages and JSON are private and never stored; the session cookie lives two days', async () => {
+	const { kettle } = await securityTargets();
+	const owner = await signInSession(demo.owner);
+	for (const [path, accept] of [
+		['/jobs', 'text/html'],
+		[`/jobs/${kettle.number}/invoice`, 'text/html'],
+		['/api/staff', 'application/json'],
+		[`/api/jobs/${kettle.jobId}/entries`, 'application/json']
+	]) {
+		const a = await send(path, { session: owner, headers: { accept } });
+		expect(a.status, path).toBe(200);
+		expect(a.headers.get('cache-control'), path).toBe('private, no-store');
+	}
+	// 13 MB of JSON to the entries API: over the server's body limit, so 413, not 400 or 500.
+	const big = await send(`/api/jobs/${kettle.jobId}/entries`, {
+		session: owner,
+		body: { json: { id: crypto.randomUUID(), text: 'x'.repeat(13 * 1024 * 1024), source: 'typed' } }
+	});
+	expect(big.status).toBe(413);
+	const res = await send('/sign-in', {
+		body: { form: { email: demo.owner, password: demoPassword } }
+	});
+	const cookie = sessionCookie(res.headers) ?? '';
+	// The server session lasts 2 days (lucia's sessionExpiresIn): so does the cookie.
+	expect(cookie).toMatch(/Max-Age=172800\b/);
+});
+
+test("the customer's page data carries no internal ids", async () => {
+	const { kettle } = await securityTargets();
+	const a = await send(`/r/${kettle.token}/__data.json`);
+	expect(a.status).toBe(200);
+	for (const leak of [
+		kettle.shopId,
+		kettle.invoiceId,
+		kettle.jobId,
+		'checkoutSessionId',
+		'labourRateMinor',
+		'createdBy',
+		'issuedBy'
+	]) {
+		expect(a.text, leak).not.toContain(leak);
+	}
+});
+
 test.describe('a server of our own, over https as far as it knows', () => {
 	const port2 = port + 20;
 	const base = `http://127.0.0.1:${port2}`;

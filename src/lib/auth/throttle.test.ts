@@ -41,3 +41,28 @@ describe('decide', () => {
 		if (!d.allowed) expect(d.message).toMatch(/this device/);
 	});
 });
+
+describe('the slower global back-off for one e-mail (issue 21)', () => {
+	const now = new Date('2026-12-04T10:00:00Z');
+	it('slows every answer once failures pile up from many addresses', () => {
+		expect(decide({ ...none, email: 0, emailAnywhere: 9 }, now)).toEqual({
+			allowed: true,
+			delayMs: 0
+		});
+		expect(decide({ ...none, email: 0, emailAnywhere: 10 }, now)).toEqual({
+			allowed: true,
+			delayMs: 3000
+		});
+	});
+	it('pauses the e-mail everywhere only far above the per-address limit', () => {
+		const d = decide(
+			{
+				...none,
+				emailAnywhere: 50,
+				oldestEmailAnywhereFailure: new Date('2026-12-04T09:50:00Z')
+			},
+			now
+		);
+		expect(d).toMatchObject({ allowed: false, retryAfterSeconds: 300 });
+	});
+});

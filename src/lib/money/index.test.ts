@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import {
 	formatMoney,
+	isKnownCurrency,
 	lineAmountMinor,
+	MINOR_UNIT_EXPONENTS,
 	minorExponent,
 	parseMoney,
 	priceLine,
@@ -22,6 +24,37 @@ describe('ISO 4217 minor-unit exponents', () => {
 	});
 	it('refuses a code it does not know instead of guessing', () => {
 		expect(() => minorExponent('XYZ')).toThrow(/Unknown currency "XYZ"/);
+		expect(() => minorExponent('constructor')).toThrow(/Unknown currency/);
+	});
+	it('takes the whole of ISO 4217 list one, with its minor units', () => {
+		// ISO 4217 list one (2024-06-25), "Minor unit" column: TWD 2, PKR 2, COP 2, BDT 2,
+		// NGN 2, ARS 2, EGP 2, KES 2, UYU 2, XPF 0, RWF 0, DJF 0, IQD 3, LYD 3, CLP 0.
+		const expected: Record<string, number> = {
+			TWD: 2,
+			PKR: 2,
+			COP: 2,
+			BDT: 2,
+			NGN: 2,
+			ARS: 2,
+			EGP: 2,
+			KES: 2,
+			UYU: 2,
+			XPF: 0,
+			RWF: 0,
+			DJF: 0,
+			IQD: 3,
+			LYD: 3,
+			CLP: 0
+		};
+		for (const [code, digits] of Object.entries(expected)) {
+			expect(minorExponent(code), code).toBe(digits);
+		}
+		// List one holds about 155 active currencies once metals, funds and test codes are out.
+		expect(Object.keys(MINOR_UNIT_EXPONENTS).length).toBeGreaterThan(150);
+	});
+	it('refuses codes one cannot invoice in (metals, funds, the test code)', () => {
+		// ISO 4217 list one: XAU gold and XTS testing have minor unit "N.A."; CLF is a fund.
+		for (const c of ['XAU', 'XTS', 'XXX', 'CLF']) expect(isKnownCurrency(c), c).toBe(false);
 	});
 	it('agrees with the ICU currency data that Intl.NumberFormat carries for common codes', () => {
 		// A second outside source: CLDR's currency digits, which ICU ships with Node.

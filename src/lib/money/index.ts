@@ -11,62 +11,60 @@
 // Quantities are taken to 6 decimal places and the arithmetic is done in bigint, so a float
 // like 1.041 × 1490 never lands on the wrong side of a half.
 
+import { data as iso4217, publishDate as iso4217Published } from 'currency-codes';
+
 /**
- * ISO 4217 minor-unit exponents (digits after the decimal point). Source: ISO 4217 "List one:
- * currency, fund and precious metal codes" (the table the maintenance agency publishes), the
- * "Minor unit" column. Only currencies a workshop is likely to bill in, plus the zero- and
- * three-digit ones that prove the rule; an unknown code is refused, never guessed.
+ * Codes of ISO 4217 list one that a shop cannot invoice in: the precious metals, bond units,
+ * SDR, the testing and "no currency" codes (their "Minor unit" column reads N.A.), and the
+ * fund codes (IsFund="true"). Source: ISO 4217 list one as published on 2024-06-25 (shipped as
+ * node_modules/currency-codes/iso-4217-list-one.xml).
  */
-export const MINOR_UNIT_EXPONENTS: Readonly<Record<string, number>> = {
-	EUR: 2,
-	USD: 2,
-	GBP: 2,
-	CHF: 2,
-	SEK: 2,
-	NOK: 2,
-	DKK: 2,
-	PLN: 2,
-	CZK: 2,
-	HUF: 2,
-	RON: 2,
-	BGN: 2,
-	CAD: 2,
-	AUD: 2,
-	NZD: 2,
-	ZAR: 2,
-	INR: 2,
-	SGD: 2,
-	HKD: 2,
-	MXN: 2,
-	BRL: 2,
-	TRY: 2,
-	THB: 2,
-	MYR: 2,
-	PHP: 2,
-	IDR: 2,
-	CNY: 2,
-	AED: 2,
-	JPY: 0,
-	KRW: 0,
-	ISK: 0,
-	VND: 0,
-	CLP: 0,
-	PYG: 0,
-	UGX: 0,
-	XAF: 0,
-	XOF: 0,
-	BHD: 3,
-	KWD: 3,
-	OMR: 3,
-	JOD: 3,
-	TND: 3,
-	LYD: 3,
-	IQD: 3
-};
+const NOT_FOR_INVOICES = new Set([
+	'XAG',
+	'XAU',
+	'XBA',
+	'XBB',
+	'XBC',
+	'XBD',
+	'XDR',
+	'XPD',
+	'XPT',
+	'XSU',
+	'XTS',
+	'XUA',
+	'XXX',
+	'BOV',
+	'CHE',
+	'CHW',
+	'CLF',
+	'COU',
+	'MXV',
+	'USN',
+	'UYI',
+	'UYW'
+]);
+
+/**
+ * ISO 4217 minor-unit exponents (digits after the decimal point) for every currency of list
+ * one. Source: ISO 4217 "List one: currency, fund and precious metal codes", the "Minor unit"
+ * column, through the npm package `currency-codes` (its data is generated from the maintenance
+ * agency's XML; {@link ISO_4217_PUBLISHED} says which edition). An unknown code is refused,
+ * never guessed.
+ */
+export const MINOR_UNIT_EXPONENTS: Readonly<Record<string, number>> = Object.freeze(
+	Object.fromEntries(
+		iso4217.filter((c) => !NOT_FOR_INVOICES.has(c.code)).map((c) => [c.code, c.digits])
+	)
+);
+
+/** The edition of ISO 4217 list one the exponents come from. */
+export const ISO_4217_PUBLISHED: string = iso4217Published;
 
 /** The minor-unit exponent of an ISO 4217 code; throws a clear error for an unknown code. */
 export function minorExponent(currency: string): number {
-	const e = MINOR_UNIT_EXPONENTS[currency.toUpperCase()];
+	const e = Object.hasOwn(MINOR_UNIT_EXPONENTS, currency.toUpperCase())
+		? MINOR_UNIT_EXPONENTS[currency.toUpperCase()]
+		: undefined;
 	if (e === undefined) {
 		throw new Error(`Unknown currency "${currency}": use an ISO 4217 code such as EUR or JPY`);
 	}
@@ -74,7 +72,19 @@ export function minorExponent(currency: string): number {
 }
 
 export function isKnownCurrency(currency: string): boolean {
-	return MINOR_UNIT_EXPONENTS[currency.toUpperCase()] !== undefined;
+	return Object.hasOwn(MINOR_UNIT_EXPONENTS, currency.toUpperCase());
+}
+
+/**
+ * The largest amount Benchcall keeps, in minor units: amounts are stored in PostgreSQL
+ * `integer` columns (2^31 − 1). 21 474 836.47 EUR, 2 147 483 647 JPY: far above any workshop
+ * invoice, and every sum of an invoice is checked against it before it is stored.
+ */
+export const MAX_AMOUNT_MINOR = 2_147_483_647;
+
+/** Whether a minor-unit amount fits the columns it is stored in (either sign). */
+export function fitsAmount(minor: number): boolean {
+	return Number.isSafeInteger(minor) && Math.abs(minor) <= MAX_AMOUNT_MINOR;
 }
 
 /** Rounds a bigint fraction n/d to the nearest integer, halves away from zero. */
@@ -195,8 +205,12 @@ export function parseMoney(
 	}
 	const minor = BigInt(m[2]) * 10n ** BigInt(e) + BigInt(frac.padEnd(e, '0') || '0');
 	const signed = m[1] === '-' ? -minor : minor;
-	if (signed > BigInt(Number.MAX_SAFE_INTEGER))
-		return { ok: false, error: 'The amount is too large' };
+	if (minor > BigInt(MAX_AMOUNT_MINOR)) {
+		return {
+			ok: false,
+			error: `The amount is too large: at most ${toDecimalString(MAX_AMOUNT_MINOR, currency)}`
+		};
+	}
 	return { ok: true, minor: Number(signed) };
 }
 

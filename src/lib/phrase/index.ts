@@ -15,6 +15,7 @@ import {
 } from '../units/index';
 import { FILLER_WORDS, StepIndex, toMatchTokens, type ScoredStep } from './match';
 import { findNumbers, type NumberSpan } from './numbers';
+import { namesNumber, readPair } from './pairs';
 import { MAX_PHRASE_CHARS, normalizeText, tokenize } from './text';
 import { defaultTimeZone, extractTime } from './time';
 
@@ -415,7 +416,18 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 	const donePre = startsWith(tokens, DONE_PREFIXES);
 	const doneSuf = donePre ? 0 : endsWith(tokens, DONE_SUFFIXES);
 	const body = donePre ? tokens.slice(donePre) : tokens;
-	const value = chooseValue(body, findNumbers(body), vocabulary);
+	const spans = findNumbers(body);
+	let value = chooseValue(body, spans, vocabulary);
+	const pair = value
+		? readPair(body, spans, value, unitAfter(body, value.end)?.unit ?? null, (d) =>
+				namesNumber(vocabulary.steps, d)
+			)
+		: null;
+	if (pair?.kind === 'pair') value = pair.span;
+	if (pair?.kind === 'ask') {
+		r.problems.push(pair.problem);
+		return r;
+	}
 	if ((donePre || doneSuf) && !value) {
 		r.intent = 'done';
 		const words = tokens.slice(donePre, tokens.length - doneSuf);

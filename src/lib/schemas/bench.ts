@@ -1,5 +1,6 @@
 // Payloads of the Bench API: entries, retractions and the hand-over to final inspection.
 import { z } from 'zod';
+import { inWindow, outOfWindow } from './dates';
 import { MAX_PHRASE_CHARS } from '$lib/phrase';
 
 export const entrySourceValues = ['typed', 'voice'] as const;
@@ -14,6 +15,7 @@ export const entryPostSchema = z.object({
 	source: z.enum(entrySourceValues, { error: "source must be 'typed' or 'voice'." }),
 	occurredAt: z.iso
 		.datetime({ offset: true, error: 'occurredAt must be an ISO 8601 date-time.' })
+		.refine((v) => inWindow(new Date(v)), `occurredAt: ${outOfWindow}`)
 		.optional(),
 	torqueToolId: z.uuid({ error: 'torqueToolId must be a UUID.' }).nullish(),
 	/** A step picked from the candidates instead of the best match. */

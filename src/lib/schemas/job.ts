@@ -1,6 +1,7 @@
 // Forms of the Jobs area: intake, assignment, state changes, extra-work approval, the table's
 // query string.
 import { z } from 'zod';
+import { inWindow, outOfWindow, readDate } from './dates';
 import { jobStates } from '$lib/jobs/states';
 import { emailField } from './auth';
 
@@ -85,9 +86,13 @@ export const intakeSchema = z
 			.optional()
 			.transform((v, ctx) => {
 				if (!v) return null;
-				const d = new Date(v);
-				if (Number.isNaN(d.getTime())) {
+				const d = readDate(v);
+				if (!d) {
 					ctx.addIssue({ code: 'custom', message: 'Give a date and time.' });
+					return z.NEVER;
+				}
+				if (!inWindow(d)) {
+					ctx.addIssue({ code: 'custom', message: outOfWindow });
 					return z.NEVER;
 				}
 				return d;
@@ -152,9 +157,13 @@ export const extraWorkSchema = z.object({
 		.trim()
 		.min(1, 'Say when it was approved.')
 		.transform((v, ctx) => {
-			const d = new Date(v);
-			if (Number.isNaN(d.getTime())) {
+			const d = readDate(v);
+			if (!d) {
 				ctx.addIssue({ code: 'custom', message: 'Give a date and time.' });
+				return z.NEVER;
+			}
+			if (!inWindow(d)) {
+				ctx.addIssue({ code: 'custom', message: outOfWindow });
 				return z.NEVER;
 			}
 			if (d.getTime() > Date.now() + 5 * 60_000) {

@@ -1,5 +1,6 @@
 // Forms of the Shop settings: rates and policies, the price list, torque tools.
 import { z } from 'zod';
+import { inWindow, outOfWindow } from './dates';
 import { isKnownCurrency } from '$lib/money';
 import { isKnownUnit, dimensionOf } from '$lib/units';
 
@@ -85,7 +86,12 @@ export const toolSchema = z
 		unit: z
 			.string()
 			.refine((u) => isKnownUnit(u) && dimensionOf(u) === 'torque', 'Pick a torque unit.'),
-		calibratedOn: z.union([z.iso.date('Give a date.'), z.literal('')]).default(''),
+		calibratedOn: z
+			.union([
+				z.iso.date('Give a date.').refine((v) => inWindow(new Date(v)), outOfWindow),
+				z.literal('')
+			])
+			.default(''),
 		intervalMonths: z
 			.string()
 			.trim()

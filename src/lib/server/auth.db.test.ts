@@ -1,6 +1,6 @@
 import { eq } from 'drizzle-orm';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { forgetUser, lucia, sessionCacheMs } from './auth';
+import { checkSignIn, forgetUser, lucia, sessionCacheMs } from './auth';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
@@ -66,5 +66,37 @@ describe('sessions read from the short-lived cache', () => {
 			.insert(s.session)
 			.values({ id: missing, userId: f.tech.id, expiresAt: new Date(Date.now() + 3_600_000) });
 		expect((await lucia.validateSession(missing)).user?.id).toBe(f.tech.id);
+	});
+});
+
+describe('sign-in throttling (issue 21)', () => {
+	const wrong = (email: string, address: string) => checkSignIn(email, 'not the password', address);
+
+	it('checks at most five of seven simultaneous wrong passwords for one e-mail', async () => {
+		const email = `parallel-${crypto.randomUUID().slice(0, 8)}@test.test`;
+		const results = await Promise.all(Array.from({ length: 7 }, () => wrong(email, '192.0.2.7')));
+		const checked = results.filter((r) => !r.ok && r.retryAfterSeconds === undefined);
+		const refused = results.filter((r) => !r.ok && r.retryAfterSeconds !== undefined);
+		expect(checked).toHaveLength(5);
+		expect(refused).toHaveLength(2);
+	});
+
+	it('counts failures per e-mail and address: another address is not locked out', async () => {
+		const email = `pair-${crypto.randomUUID().slice(0, 8)}@test.test`;
+		for (let i = 0; i < 5; i++)
+			await db.insert(s.signInFailure).values({ email, address: '192.0.2.66' });
+		const fromAttacker = await wrong(email, '192.0.2.66');
+		expect(fromAttacker).toMatchObject({ ok: false, retryAfterSeconds: expect.any(Number) });
+		const fromOwner = await wrong(email, '198.51.100.4');
+		expect(fromOwner.ok).toBe(false);
+		expect('retryAfterSeconds' in fromOwner && fromOwner.retryAfterSeconds).toBeFalsy();
+	});
+});
+
+describe('the session cookie (issue 21)', () => {
+	it('lives no longer than the server session it names', () => {
+		const cookie = lucia.createSessionCookie('any-session-id');
+		// Two days, as sessionExpiresIn: the cookie was 400 days with `expires: false`.
+		expect(cookie.attributes.maxAge).toBe(2 * 24 * 60 * 60);
 	});
 });

@@ -124,9 +124,10 @@ const secure = !dev && (env.ORIGIN ?? '').startsWith('https://');
 export const lucia = new Lucia(adapter, {
 	// A working day and then some; renewed while in use (lucia renews in the second half).
 	sessionExpiresIn: new TimeSpan(2, 'd'),
+	// The cookie lives as long as the session it names (Max-Age from sessionExpiresIn, renewed
+	// with it), not lucia's 400 days for `expires: false`.
 	sessionCookie: {
 		name: 'benchcall_session',
-		expires: false,
 		attributes: { secure, sameSite: 'lax' }
 	},
 	getUserAttributes: (attributes) => ({
@@ -195,23 +196,40 @@ export type SignInResult =
 
 const generic = 'That e-mail and password do not match an active account.';
 
-/** Checks a sign-in attempt with throttling by e-mail and address. */
+/**
+ * Checks a sign-in attempt with throttling by e-mail and address. The attempt is counted
+ * before the password is checked, under a lock on the e-mail (one transaction), so parallel
+ * tries cannot all slip under the limit; a right password then takes the count back.
+ */
 export async function checkSignIn(
 	email: string,
 	password: string,
 	address: string
 ): Promise<SignInResult> {
-	const decision = await throttleFor(email, address);
-	if (!decision.allowed)
-		return { ok: false, message: decision.message, retryAfterSeconds: decision.retryAfterSeconds };
+	const reserved = await db.transaction(async (tx) => {
+		await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${'sign-in ' + email}, 0))`);
+		const decision = await throttleFor(tx, email, address);
+		if (!decision.allowed) return { decision, attempt: null };
+		const [attempt] = await tx
+			.insert(signInFailure)
+			.values({ email, address })
+			.returning({ id: signInFailure.id });
+		return { decision, attempt: attempt.id };
+	});
+	const { decision } = reserved;
+	if (!decision.allowed || reserved.attempt === null)
+		return {
+			ok: false,
+			message: decision.allowed ? generic : decision.message,
+			retryAfterSeconds: decision.allowed ? undefined : decision.retryAfterSeconds
+		};
 	const [row] = await db.select().from(user).where(eq(user.email, email)).limit(1);
 	const valid = row
 		? await verifyPassword(row.passwordHash, password)
 		: (await verifyPassword(await dummyHash(), password), false);
 	if (!row || !valid || !row.active) {
-		await db.insert(signInFailure).values({ email, address });
 		if (decision.delayMs > 0) await new Promise((r) => setTimeout(r, decision.delayMs));
-		const after = await throttleFor(email, address);
+		const after = await throttleFor(db, email, address);
 		const slowed = decision.delayMs > 0 || !after.allowed;
 		return {
 			ok: false,
@@ -222,15 +240,23 @@ export async function checkSignIn(
 	return { ok: true, userId: row.id, role: row.role };
 }
 
-async function throttleFor(email: string, address: string): Promise<ThrottleDecision> {
+async function throttleFor(
+	q: Pick<typeof db, 'select'>,
+	email: string,
+	address: string
+): Promise<ThrottleDecision> {
 	const since = sql`now() - make_interval(mins => ${throttleWindowMinutes})`;
-	const [counts] = await db
+	const [counts] = await q
 		.select({
-			email: sql<number>`count(*) filter (where ${signInFailure.email} = ${email})::int`,
+			email: sql<number>`count(*) filter (where ${signInFailure.email} = ${email} and ${signInFailure.address} = ${address})::int`,
+			anywhere: sql<number>`count(*) filter (where ${signInFailure.email} = ${email})::int`,
+			oldestAnywhere: sql<
+				string | null
+			>`min(${signInFailure.at}) filter (where ${signInFailure.email} = ${email})`,
 			address: sql<number>`count(*) filter (where ${signInFailure.address} = ${address})::int`,
 			oldestEmail: sql<
 				string | null
-			>`min(${signInFailure.at}) filter (where ${signInFailure.email} = ${email})`,
+			>`min(${signInFailure.at}) filter (where ${signInFailure.email} = ${email} and ${signInFailure.address} = ${address})`,
 			oldestAddress: sql<
 				string | null
 			>`min(${signInFailure.at}) filter (where ${signInFailure.address} = ${address})`
@@ -245,6 +271,8 @@ async function throttleFor(email: string, address: string): Promise<ThrottleDeci
 	return decide(
 		{
 			email: counts?.email ?? 0,
+			emailAnywhere: counts?.anywhere ?? 0,
+			oldestEmailAnywhereFailure: counts?.oldestAnywhere ? new Date(counts.oldestAnywhere) : null,
 			address: counts?.address ?? 0,
 			oldestEmailFailure: counts?.oldestEmail ? new Date(counts.oldestEmail) : null,
 			oldestAddressFailure: counts?.oldestAddress ? new Date(counts.oldestAddress) : null

@@ -537,3 +537,52 @@ describe('sendToFinalInspection', () => {
 		expect(await sendToFinalInspection(as(f.tech), f.job.id)).toMatchObject({ ok: true });
 	});
 });
+
+describe('a closed record takes no entries (issue 21)', () => {
+	const setState = (f: Fixture, state: (typeof s.job.$inferSelect)['state']) =>
+		db.update(s.job).set({ state }).where(eq(s.job.id, f.job.id));
+
+	it('refuses notes, measurements and undo on invoiced, paid and cancelled jobs with a 409', async () => {
+		const f = await makeShop('Closed');
+		// The first append puts this process's copy of the steps in memory (the group-commit path).
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		for (const state of ['invoiced', 'paid', 'cancelled'] as const) {
+			await setState(f, state);
+			for (const text of ['rear axle 90 nm', 'note looked again', 'undo']) {
+				const r = await appendEntry(as(f.tech), f.job.id, post(text));
+				expect(r.status, `${state}: ${text}`).toBe(409);
+				expect('message' in r && r.message).toMatch(/record is closed/);
+			}
+		}
+		expect(await rowsOf(f)).toHaveLength(1);
+	});
+
+	it('still answers a retry of an entry stored before the job closed', async () => {
+		const f = await makeShop('Closed retry');
+		const body = post('rear axle 88 nm');
+		const first = entryOf(await appendEntry(as(f.tech), f.job.id, body));
+		await setState(f, 'invoiced');
+		const again = await appendEntry(as(f.tech), f.job.id, body);
+		expect(entryOf(again).id).toBe(first.id);
+	});
+
+	it('sends a job ready to invoice back to in work when work is found, then stores it', async () => {
+		const f = await makeShop('Found late');
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		await setState(f, 'ready_to_invoice');
+		const r = await appendEntry(as(f.tech), f.job.id, post('rear axle 70 nm'));
+		expect(r.status).toBe(201);
+		expect(entryOf(r).verdict).toBe('low');
+		const [j] = await db.select().from(s.job).where(eq(s.job.id, f.job.id));
+		expect(j.state).toBe('in_work');
+		const changes = await db
+			.select()
+			.from(s.jobStateChange)
+			.where(eq(s.jobStateChange.jobId, f.job.id));
+		expect(changes.at(-1)).toMatchObject({
+			fromState: 'ready_to_invoice',
+			toState: 'in_work',
+			reason: expect.stringMatching(/Work found/)
+		});
+	});
+});

@@ -5,7 +5,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
 import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
-import type { JobState } from '$lib/jobs/states';
+import { stateLabels, type JobState } from '$lib/jobs/states';
 import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
 import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
@@ -13,6 +13,7 @@ import { dimensionOf, formatQuantity } from '$lib/units';
 import { announceEntry } from './announce';
 import { client, db } from './db';
 import { isDatabaseUnavailable } from './db/errors';
+import { transitionJob } from './jobs';
 import * as s from './db/schema';
 import { storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
@@ -508,6 +509,8 @@ export async function appendEntry(
 					: 'Your role does not log work on jobs.'
 		};
 	}
+	const closed = await closedJob(actor, jobId, ctx.job.state, input.id);
+	if (closed) return closed;
 	const result = await appendChecked(actor, ctx, input, now);
 	// A repeat of a stored id answers with the stored entry, whatever the text reads as now. The
 	// insert itself recognises a repeat (on conflict); any other outcome asks here.
@@ -633,6 +636,7 @@ async function writeBatch(batch: Waiting[]) {
 				select r.*, j.state as job_state
 				from r
 				join job j on j.id = r."jobId" and j.shop_id = r."shopId"
+					and j.state in ('open', 'in_work', 'final_inspection', 'on_hold')
 					and j.steps_version = r."stepsVersion" and (r."anyJob" or j.technician_id = r."authorId")
 				join shop sh on sh.id = j.shop_id and sh.default_tolerance_pct = r.pct
 			), e as (
@@ -840,6 +844,38 @@ function answer(parsed: ParsedPhrase, steps: BenchStep[]): AppendResult {
 		return { status: 422, message: parsed.problems[0] ?? 'No step of this job matches.' };
 	}
 	return { status: 200, answer: { intent, step: shown, message: describeStep(shown, intent) } };
+}
+
+/** States whose record is closed: nothing more is written to the job's log. */
+const closedStates: readonly JobState[] = ['invoiced', 'paid', 'cancelled'];
+
+/**
+ * The state machine at the append: a closed job refuses entries with a 409 (a device's retry of
+ * an entry already stored still gets it back); on a job ready to invoice, work found sends the
+ * job back to in work first (recorded with a reason), so it is in the foreman's view again
+ * before anything is invoiced. Null when the append may go on.
+ */
+async function closedJob(
+	actor: Actor,
+	jobId: string,
+	state: JobState,
+	entryId: string
+): Promise<AppendResult | null> {
+	if (closedStates.includes(state)) {
+		return (
+			(await existingEntry(actor.shopId, jobId, entryId)) ?? {
+				status: 409,
+				message: `This job is ${stateLabels[state].toLowerCase()}: its record is closed and takes no more entries. Open a new job card for new work.`
+			}
+		);
+	}
+	if (state !== 'ready_to_invoice') return null;
+	const back = await transitionJob(actor.shopId, jobId, 'in_work', {
+		byUserId: actor.id,
+		expectedFrom: 'ready_to_invoice',
+		reason: 'Work found after the job was ready to invoice'
+	});
+	return back.ok ? null : { status: 409, message: back.message };
 }
 
 /** The first entry on an open job puts it in work, recorded like any other state change. */

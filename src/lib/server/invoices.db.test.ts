@@ -7,6 +7,7 @@ import * as s from './db/schema';
 import {
 	addManualLine,
 	applyCheckoutCompleted,
+	creditInvoice,
 	getInvoice,
 	issueInvoice,
 	makeDraft,
@@ -183,5 +184,141 @@ describe('payments', () => {
 		});
 		expect(part2).toEqual({ ok: true, recorded: true, paid: true });
 		expect((await getInvoice(f.shop.id, d.invoiceId))?.status).toBe('paid');
+	});
+});
+
+describe('money the provider took is never lost (issue 21)', () => {
+	const secret = 'whsec_test_secret_for_db_tests';
+
+	it('records a checkout paid after the invoice was credited, as a refund due', async () => {
+		const f = await makeShop('Credited then paid');
+		const d = await readyDraft(f, 800, 4200);
+		expect((await issueInvoice(f.shop.id, d.invoiceId, f.owner.id)).ok).toBe(true);
+		const credit = await creditInvoice(f.shop.id, d.invoiceId, f.owner.id, 'wrong customer');
+		expect(credit.ok).toBe(true);
+		const payload = completedEvent('evt_after_credit', f.shop.id, d.invoiceId, 4200);
+		expect(await handleWebhook(payload, sign(payload, secret), secret)).toEqual({
+			status: 200,
+			body: 'Applied: refund due.'
+		});
+		const inv = await getInvoice(f.shop.id, d.invoiceId);
+		expect(inv?.status).toBe('credited');
+		expect(inv?.payments).toHaveLength(1);
+		expect(inv?.refundDueMinor).toBe(4200);
+		expect(await handleWebhook(payload, sign(payload, secret), secret)).toEqual({
+			status: 200,
+			body: 'Already applied.'
+		});
+		expect((await getInvoice(f.shop.id, d.invoiceId))?.payments).toHaveLength(1);
+	});
+
+	it('shows a second paid checkout as a refund due, not as lost', async () => {
+		const f = await makeShop('Paid twice');
+		const d = await readyDraft(f, 801, 1500);
+		await issueInvoice(f.shop.id, d.invoiceId, f.owner.id);
+		const cash = await recordPayment(f.shop.id, d.invoiceId, {
+			method: 'cash',
+			amountMinor: 1500,
+			byUserId: f.owner.id
+		});
+		expect(cash).toMatchObject({ ok: true, paid: true });
+		const payload = completedEvent('evt_paid_twice', f.shop.id, d.invoiceId, 1500);
+		expect((await handleWebhook(payload, sign(payload, secret), secret)).status).toBe(200);
+		const inv = await getInvoice(f.shop.id, d.invoiceId);
+		expect(inv?.paidMinor).toBe(3000);
+		expect(inv?.refundDueMinor).toBe(1500);
+	});
+
+	it('never answers a refused event as handled on a repeat delivery', async () => {
+		const f = await makeShop('Refused twice');
+		const d = await readyDraft(f, 802, 1000);
+		await issueInvoice(f.shop.id, d.invoiceId, f.owner.id);
+		const credit = await creditInvoice(f.shop.id, d.invoiceId, f.owner.id, 'typing slip');
+		if (!credit.ok) throw new Error(credit.message);
+		// A checkout can only be for an invoice: one naming the credit note is refused, every time.
+		const payload = completedEvent('evt_on_note', f.shop.id, credit.creditNoteId, 1000);
+		const first = await handleWebhook(payload, sign(payload, secret), secret);
+		expect(first.status).toBe(400);
+		const again = await handleWebhook(payload, sign(payload, secret), secret);
+		expect(again).toEqual(first);
+		const seen = await db
+			.select()
+			.from(s.webhookEvent)
+			.where(eq(s.webhookEvent.eventId, 'evt_on_note'));
+		expect(seen).toHaveLength(0);
+	});
+
+	it('answers a signed event with an enormous amount with 400 and words, storing nothing', async () => {
+		const f = await makeShop('Enormous');
+		const d = await readyDraft(f, 803, 1000);
+		await issueInvoice(f.shop.id, d.invoiceId, f.owner.id);
+		for (const amount of [99_999_999_999_999, 2_147_483_648, 1e300]) {
+			const payload = completedEvent(`evt_big_${amount}`, f.shop.id, d.invoiceId, amount);
+			const r = await handleWebhook(payload, sign(payload, secret), secret);
+			expect(r.status, String(amount)).toBe(400);
+			expect(r.body).toMatch(/amount_total must be a whole amount/);
+		}
+		expect((await getInvoice(f.shop.id, d.invoiceId))?.payments).toHaveLength(0);
+	});
+});
+
+describe('amounts that cannot be stored are refused with words (issue 21)', () => {
+	it('refuses a line of 10 000 × 9 999 999.99', async () => {
+		const f = await makeShop('Huge line');
+		const d = await readyDraft(f, 810, 100);
+		const r = await addManualLine(f.shop.id, d.invoiceId, {
+			kind: 'sundry',
+			description: 'Too much',
+			quantity: 10_000,
+			unitPriceMinor: 999_999_999
+		});
+		expect(r).toMatchObject({ ok: false, message: expect.stringMatching(/too large/) });
+		expect((await getInvoice(f.shop.id, d.invoiceId))?.lines).toHaveLength(1);
+	});
+
+	it('refuses lines whose sum no longer fits, keeping the draft as it was', async () => {
+		const f = await makeShop('Huge sum');
+		const d = await readyDraft(f, 811, 2_000_000_000);
+		const r = await addManualLine(f.shop.id, d.invoiceId, {
+			kind: 'sundry',
+			description: 'One more',
+			quantity: 1,
+			unitPriceMinor: 2_000_000_000
+		});
+		expect(r).toMatchObject({ ok: false, message: expect.stringMatching(/too large/) });
+		const inv = await getInvoice(f.shop.id, d.invoiceId);
+		expect(inv?.lines).toHaveLength(1);
+		expect(inv?.totalMinor).toBe(2_000_000_000);
+	});
+
+	it('bounds counter payments by what is owed and refuses them on a paid invoice', async () => {
+		const f = await makeShop('Counter bounds');
+		const d = await readyDraft(f, 812, 3000);
+		await issueInvoice(f.shop.id, d.invoiceId, f.owner.id);
+		const over = await recordPayment(f.shop.id, d.invoiceId, {
+			method: 'cash',
+			amountMinor: 3001,
+			byUserId: f.owner.id
+		});
+		expect(over).toMatchObject({ ok: false, message: expect.stringMatching(/more than is owed/) });
+		const huge = await recordPayment(f.shop.id, d.invoiceId, {
+			method: 'cash',
+			amountMinor: 9_999_999_999_900,
+			byUserId: f.owner.id
+		});
+		expect(huge.ok).toBe(false);
+		const all = await recordPayment(f.shop.id, d.invoiceId, {
+			method: 'card',
+			amountMinor: 3000,
+			byUserId: f.owner.id
+		});
+		expect(all).toMatchObject({ ok: true, paid: true });
+		const after = await recordPayment(f.shop.id, d.invoiceId, {
+			method: 'cash',
+			amountMinor: 1,
+			byUserId: f.owner.id
+		});
+		expect(after).toMatchObject({ ok: false, message: expect.stringMatching(/paid in full/) });
+		expect((await getInvoice(f.shop.id, d.invoiceId))?.payments).toHaveLength(1);
 	});
 });

@@ -2,7 +2,7 @@
 import { randomBytes } from 'node:crypto';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import { buildDraftLines, type LabourMode, type LineKind } from '$lib/invoice/draft';
-import { priceLine, sumTotals } from '$lib/money';
+import { fitsAmount, MAX_AMOUNT_MINOR, priceLine, sumTotals, toDecimalString } from '$lib/money';
 import { db, type Tx } from './db';
 import {
 	customer,
@@ -64,6 +64,16 @@ export interface InvoiceWithLines extends Invoice {
 	lines: InvoiceLine[];
 	payments: Payment[];
 	paidMinor: number;
+	/**
+	 * Money the shop holds beyond what is owed and must give back: every payment on a credited
+	 * invoice, or what was paid above the total (a second checkout paid at the provider).
+	 */
+	refundDueMinor: number;
+}
+
+/** What was paid beyond what is owed: all of it once the invoice is credited. */
+export function refundDue(status: Invoice['status'], totalMinor: number, paidMinor: number) {
+	return status === 'credited' ? paidMinor : Math.max(0, paidMinor - totalMinor);
 }
 
 async function withLines(shopId: string, rows: Invoice[]): Promise<InvoiceWithLines[]> {
@@ -81,11 +91,13 @@ async function withLines(shopId: string, rows: Invoice[]): Promise<InvoiceWithLi
 		.orderBy(asc(payment.receivedAt));
 	return rows.map((r) => {
 		const p = pays.filter((x) => x.invoiceId === r.id);
+		const paidMinor = p.reduce((s, x) => s + x.amountMinor, 0);
 		return {
 			...r,
 			lines: lines.filter((l) => l.invoiceId === r.id),
 			payments: p,
-			paidMinor: p.reduce((s, x) => s + x.amountMinor, 0)
+			paidMinor,
+			refundDueMinor: refundDue(r.status, r.totalMinor, paidMinor)
 		};
 	});
 }
@@ -123,12 +135,27 @@ export async function invoiceByToken(token: string) {
 	return { invoice: inv, shop: s, jobNumber: j.number };
 }
 
+/** A line priced by the rounding rule, refused (not a 500) when it cannot be stored. */
+function priceFitting(line: Parameters<typeof priceLine>[0]) {
+	let priced;
+	try {
+		priced = priceLine(line);
+	} catch {
+		throw tooLarge();
+	}
+	if (!fitsAmount(priced.amountMinor) || !fitsAmount(priced.taxMinor)) throw tooLarge();
+	return priced;
+}
+
 async function recomputeTotals(tx: Tx, shopId: string, invoiceId: string) {
 	const lines = await tx
 		.select({ amountMinor: invoiceLine.amountMinor, taxMinor: invoiceLine.taxMinor })
 		.from(invoiceLine)
 		.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.invoiceId, invoiceId)));
 	const t = sumTotals(lines);
+	if (!fitsAmount(t.subtotalMinor) || !fitsAmount(t.taxMinor) || !fitsAmount(t.totalMinor)) {
+		throw tooLarge();
+	}
 	await tx
 		.update(invoice)
 		.set({ ...t, updatedAt: new Date() })
@@ -147,6 +174,25 @@ async function lockInvoice(tx: Tx, shopId: string, invoiceId: string) {
 }
 
 type Refusal = { ok: false; message: string; status?: number };
+
+/** Thrown inside a transaction to roll it back and answer the refusal it carries. */
+class Refused extends Error {
+	constructor(readonly refusal: Refusal) {
+		super(refusal.message);
+	}
+}
+
+/** `.catch(refusal)` on a transaction: a `Refused` thrown inside rolled it back; answer it. */
+function refusal(err: unknown): Refusal {
+	if (err instanceof Refused) return err.refusal;
+	throw err;
+}
+
+const tooLarge = (): Refused =>
+	new Refused({
+		ok: false,
+		message: 'The amounts are too large for one invoice: split the work over several.'
+	});
 
 const frozen = (row: Invoice | null): Refusal | null =>
 	!row
@@ -169,7 +215,7 @@ export async function makeDraft(
 	byUserId: string,
 	labourMode?: LabourMode
 ): Promise<Result<{ invoiceId: string }>> {
-	return db.transaction(async (tx) => {
+	const answer: Promise<Result<{ invoiceId: string }>> = db.transaction(async (tx) => {
 		const [j] = await tx
 			.select({ id: job.id, state: job.state })
 			.from(job)
@@ -268,7 +314,7 @@ export async function makeDraft(
 			...lines.map((l) => ({ ...l, sourceEntryId: l.sourceEntryId, sourceStepId: l.sourceStepId })),
 			...kept.map((k) => ({ ...k, suggestions: [] as string[] }))
 		].map((l, i) => {
-			const priced = priceLine({
+			const priced = priceFitting({
 				quantity: l.quantity,
 				unitPriceMinor: l.unitPriceMinor,
 				taxRateBp: s.taxRateBp
@@ -295,6 +341,7 @@ export async function makeDraft(
 		await recomputeTotals(tx, shopId, draft.id);
 		return { ok: true, invoiceId: draft.id };
 	});
+	return answer.catch(refusal);
 }
 
 /** A sundry or discount added by the service writer to a draft. */
@@ -308,14 +355,14 @@ export async function addManualLine(
 		unitPriceMinor: number;
 	}
 ): Promise<Result> {
-	return db.transaction(async (tx) => {
+	const answer: Promise<Result> = db.transaction(async (tx) => {
 		const row = await lockInvoice(tx, shopId, invoiceId);
 		const refused = frozen(row);
 		if (refused) return refused;
 		// A discount always takes money off, whatever sign was typed.
 		const unitPriceMinor =
 			line.kind === 'discount' ? -Math.abs(line.unitPriceMinor) : line.unitPriceMinor;
-		const priced = priceLine({
+		const priced = priceFitting({
 			quantity: line.quantity,
 			unitPriceMinor,
 			taxRateBp: row!.taxRateBp
@@ -340,6 +387,7 @@ export async function addManualLine(
 		await recomputeTotals(tx, shopId, invoiceId);
 		return { ok: true };
 	});
+	return answer.catch(refusal);
 }
 
 export async function removeLine(
@@ -371,7 +419,7 @@ export async function pickPart(
 	lineId: string,
 	partId: string
 ): Promise<Result> {
-	return db.transaction(async (tx) => {
+	const answer: Promise<Result> = db.transaction(async (tx) => {
 		const row = await lockInvoice(tx, shopId, invoiceId);
 		const refused = frozen(row);
 		if (refused) return refused;
@@ -391,7 +439,7 @@ export async function pickPart(
 				)
 			);
 		if (!l) return { ok: false, message: 'No such line on this invoice.', status: 404 };
-		const priced = priceLine({
+		const priced = priceFitting({
 			quantity: l.quantity,
 			unitPriceMinor: p.priceMinor,
 			taxRateBp: row!.taxRateBp
@@ -412,6 +460,7 @@ export async function pickPart(
 		await recomputeTotals(tx, shopId, invoiceId);
 		return { ok: true };
 	});
+	return answer.catch(refusal);
 }
 
 /**
@@ -482,7 +531,7 @@ export async function creditInvoice(
 	invoiceId: string,
 	byUserId: string,
 	reason: string
-): Promise<Result<{ number: number; creditNoteId: string }>> {
+): Promise<Result<{ number: number; creditNoteId: string; checkoutSessionId: string | null }>> {
 	return db.transaction(async (tx) => {
 		const row = await lockInvoice(tx, shopId, invoiceId);
 		if (!row) return { ok: false, message: 'No such invoice in this shop.', status: 404 };
@@ -548,7 +597,7 @@ export async function creditInvoice(
 			});
 			if (!moved.ok) throw new Error(moved.message);
 		}
-		return { ok: true, number, creditNoteId: note.id };
+		return { ok: true, number, creditNoteId: note.id, checkoutSessionId: row.checkoutSessionId };
 	});
 }
 
@@ -556,6 +605,10 @@ export async function creditInvoice(
  * Records a payment. With a provider reference it is recorded at most once (a repeated
  * webhook finds the reference taken and changes nothing). Once the payments reach the total
  * the invoice is paid and the job moves invoiced → paid.
+ *
+ * Money the provider already took is always recorded, whatever became of the invoice since the
+ * checkout began (credited, or paid another way): it then shows as a refund due. A payment at
+ * the counter is refused on an invoice that is paid or credited, and above what is still owed.
  */
 export async function recordPayment(
 	shopId: string,
@@ -571,11 +624,32 @@ export async function recordPayment(
 	const run = async (tx: Tx): Promise<Result<{ recorded: boolean; paid: boolean }>> => {
 		const row = await lockInvoice(tx, shopId, invoiceId);
 		if (!row) return { ok: false, message: 'No such invoice in this shop.', status: 404 };
-		if (row.kind !== 'invoice' || (row.status !== 'issued' && row.status !== 'paid')) {
+		const taken = Boolean(p.providerReference);
+		const open = row.status === 'issued' || row.status === 'paid';
+		if (row.kind !== 'invoice' || !(open || (taken && row.status === 'credited'))) {
 			return { ok: false, message: 'Payments are taken on an issued invoice only.' };
 		}
 		if (!Number.isInteger(p.amountMinor) || p.amountMinor <= 0) {
 			return { ok: false, message: 'The amount must be more than zero.' };
+		}
+		if (p.amountMinor > MAX_AMOUNT_MINOR) {
+			return { ok: false, message: 'The amount is larger than any invoice Benchcall keeps.' };
+		}
+		const [{ before }] = await tx
+			.select({ before: sql<string>`coalesce(sum(${payment.amountMinor}), 0)::bigint` })
+			.from(payment)
+			.where(and(eq(payment.shopId, shopId), eq(payment.invoiceId, invoiceId)));
+		if (!taken) {
+			if (row.status === 'paid') {
+				return { ok: false, message: 'This invoice is paid in full: nothing is owed.' };
+			}
+			const owed = row.totalMinor - Number(before);
+			if (p.amountMinor > owed) {
+				return {
+					ok: false,
+					message: `That is more than is owed (${toDecimalString(owed, row.currency)} ${row.currency}).`
+				};
+			}
 		}
 		const inserted = await tx
 			.insert(payment)
@@ -590,11 +664,8 @@ export async function recordPayment(
 			.onConflictDoNothing({ target: payment.providerReference })
 			.returning({ id: payment.id });
 		const recorded = inserted.length > 0;
-		const [{ paid }] = await tx
-			.select({ paid: sql<number>`coalesce(sum(${payment.amountMinor}), 0)::int` })
-			.from(payment)
-			.where(and(eq(payment.shopId, shopId), eq(payment.invoiceId, invoiceId)));
-		const nowPaid = paid >= row.totalMinor;
+		const paid = Number(before) + (recorded ? p.amountMinor : 0);
+		const nowPaid = row.status !== 'credited' && paid >= row.totalMinor;
 		if (nowPaid && row.status === 'issued') {
 			await tx
 				.update(invoice)
@@ -623,8 +694,12 @@ export async function setCheckoutSession(shopId: string, invoiceId: string, sess
 
 /**
  * A completed checkout from the provider's webhook, handled exactly once: the event id is
- * recorded in the same transaction as the payment, so a repeat finds it and does nothing.
+ * recorded in the same transaction as the payment, so a repeat finds it and does nothing. A
+ * refused event leaves nothing behind (the transaction rolls back), so a repeat is refused too
+ * rather than answered as handled.
  */
+type Applied = Result<{ duplicate: boolean; refundDueMinor: number }>;
+
 export async function applyCheckoutCompleted(ev: {
 	eventId: string;
 	type: string;
@@ -633,31 +708,50 @@ export async function applyCheckoutCompleted(ev: {
 	sessionId: string;
 	amountMinor: number;
 	currency: string;
-}): Promise<Result<{ duplicate: boolean }>> {
-	return db.transaction(async (tx) => {
+}): Promise<Applied> {
+	const answer: Promise<Applied> = db.transaction(async (tx) => {
 		const [inv] = await tx
 			.select()
 			.from(invoice)
 			.where(and(eq(invoice.shopId, ev.shopId), eq(invoice.id, ev.invoiceId)));
-		if (!inv) return { ok: false, message: 'No such invoice.', status: 404 };
+		if (!inv) throw new Refused({ ok: false, message: 'No such invoice.', status: 404 });
 		if (inv.currency.toLowerCase() !== ev.currency.toLowerCase()) {
-			return { ok: false, message: 'The payment is in another currency.', status: 400 };
+			throw new Refused({
+				ok: false,
+				message: 'The payment is in another currency.',
+				status: 400
+			});
 		}
 		const fresh = await tx
 			.insert(webhookEvent)
 			.values({ eventId: ev.eventId, shopId: ev.shopId, type: ev.type })
 			.onConflictDoNothing()
 			.returning({ id: webhookEvent.eventId });
-		if (fresh.length === 0) return { ok: true, duplicate: true };
-		const r = await recordPayment(
-			ev.shopId,
-			ev.invoiceId,
-			{ method: 'online', amountMinor: ev.amountMinor, providerReference: ev.sessionId },
-			tx
-		);
-		if (!r.ok) return r;
-		return { ok: true, duplicate: !r.recorded };
+		const r =
+			fresh.length === 0
+				? { ok: true as const, recorded: false }
+				: await recordPayment(
+						ev.shopId,
+						ev.invoiceId,
+						{ method: 'online', amountMinor: ev.amountMinor, providerReference: ev.sessionId },
+						tx
+					);
+		if (!r.ok) throw new Refused({ ...r, status: r.status ?? 400 });
+		const [after] = await tx
+			.select({ status: invoice.status, total: invoice.totalMinor })
+			.from(invoice)
+			.where(eq(invoice.id, ev.invoiceId));
+		const [{ paid }] = await tx
+			.select({ paid: sql<string>`coalesce(sum(${payment.amountMinor}), 0)::bigint` })
+			.from(payment)
+			.where(and(eq(payment.shopId, ev.shopId), eq(payment.invoiceId, ev.invoiceId)));
+		return {
+			ok: true as const,
+			duplicate: !r.recorded,
+			refundDueMinor: refundDue(after.status, after.total, Number(paid))
+		};
 	});
+	return answer.catch(refusal);
 }
 
 /** Price-list parts of the shop, for picking a part for an unmatched line. */

@@ -4,7 +4,9 @@
 // real service with STRIPE_SECRET_KEY. Webhooks are verified with the SDK's constructEvent.
 import { env } from '$env/dynamic/private';
 import Stripe from 'stripe';
+import { z } from 'zod';
 import { isUuid } from '$lib/ids';
+import { MAX_AMOUNT_MINOR } from '$lib/money';
 import { applyCheckoutCompleted, setCheckoutSession, type InvoiceWithLines } from './invoices';
 
 export function paymentsClient(): Stripe | null {
@@ -37,6 +39,8 @@ export async function checkoutUrl(
 		if (inv.checkoutSessionId) {
 			const s = await stripe.checkout.sessions.retrieve(inv.checkoutSessionId);
 			if (s.status === 'open' && s.amount_total === owed && s.url) return { ok: true, url: s.url };
+			// An open page for another amount must not stay payable beside the new one.
+			if (s.status === 'open') await stripe.checkout.sessions.expire(s.id);
 		}
 		const s = await stripe.checkout.sessions.create({
 			mode: 'payment',
@@ -68,6 +72,40 @@ export async function checkoutUrl(
 }
 
 /**
+ * Closes a checkout page at the provider so it can no longer be paid (after a credit note).
+ * A page already completed or expired is left as it is. Answers whether the provider was
+ * reached; when it was not, a payment that still comes is recorded as a refund due.
+ */
+export async function expireCheckout(sessionId: string | null): Promise<boolean> {
+	if (!sessionId) return true;
+	const stripe = paymentsClient();
+	if (!stripe) return true;
+	try {
+		const s = await stripe.checkout.sessions.retrieve(sessionId);
+		if (s.status === 'open') await stripe.checkout.sessions.expire(sessionId);
+		return true;
+	} catch (err) {
+		console.error('payment provider: could not expire checkout', sessionId, err);
+		return false;
+	}
+}
+
+/** The parts of a completed checkout session Benchcall relies on, with their bounds. */
+const completedSession = z.object({
+	id: z.string().min(1).max(255),
+	payment_status: z.string(),
+	amount_total: z.number().int().min(1).max(MAX_AMOUNT_MINOR).nullable(),
+	currency: z
+		.string()
+		.regex(/^[a-z]{3}$/i)
+		.nullable(),
+	metadata: z
+		.object({ invoice_id: z.string().optional(), shop_id: z.string().optional() })
+		.nullable()
+		.optional()
+});
+
+/**
  * Handles one webhook delivery. A bad or missing signature is refused (400); a completed
  * checkout is applied once, however often it is delivered. Answers the HTTP status and text.
  */
@@ -87,7 +125,14 @@ export async function handleWebhook(
 	if (event.type !== 'checkout.session.completed') {
 		return { status: 200, body: `Ignored ${event.type}.` };
 	}
-	const s = event.data.object;
+	const parsed = completedSession.safeParse(event.data.object);
+	if (!parsed.success) {
+		return {
+			status: 400,
+			body: `The checkout cannot be recorded: amount_total must be a whole amount from 1 to ${MAX_AMOUNT_MINOR} minor units, with a three-letter currency.`
+		};
+	}
+	const s = parsed.data;
 	const invoiceId = s.metadata?.invoice_id;
 	const shopId = s.metadata?.shop_id;
 	if (!invoiceId || !shopId || !isUuid(invoiceId) || !isUuid(shopId)) {
@@ -106,5 +151,6 @@ export async function handleWebhook(
 		currency: s.currency ?? ''
 	});
 	if (!r.ok) return { status: r.status ?? 400, body: r.message };
-	return { status: 200, body: r.duplicate ? 'Already applied.' : 'Applied.' };
+	if (r.duplicate) return { status: 200, body: 'Already applied.' };
+	return { status: 200, body: r.refundDueMinor > 0 ? 'Applied: refund due.' : 'Applied.' };
 }

@@ -28,7 +28,9 @@ export async function readJson(request: Request, unreadable: string): Promise<un
 	let body: unknown;
 	try {
 		body = await request.json();
-	} catch {
+	} catch (e) {
+		// Over the server's body limit (adapter-node's BODY_SIZE_LIMIT): the size is the fault.
+		if (isTooLarge(e)) error(413, 'The body is larger than the server takes in one request.');
 		error(400, unreadable);
 	}
 	if (hasNul(body)) error(400, nulMessage);

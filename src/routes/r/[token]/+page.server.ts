@@ -13,9 +13,28 @@ async function byToken(token: string) {
 export const load: PageServerLoad = async ({ params, setHeaders, url }) => {
 	setHeaders({ 'cache-control': 'private, no-store', 'x-robots-tag': 'noindex' });
 	const { invoice, shop, jobNumber } = await byToken(params.token);
+	// Only what the customer reads: no shop, staff or checkout ids, no labour rate or tokens.
 	return {
 		payError: url.searchParams.get('payerror'),
-		invoice,
+		invoice: {
+			kind: invoice.kind,
+			number: invoice.number,
+			status: invoice.status,
+			currency: invoice.currency,
+			issuedAt: invoice.issuedAt,
+			paidAt: invoice.paidAt,
+			paidMinor: invoice.paidMinor,
+			subtotalMinor: invoice.subtotalMinor,
+			taxMinor: invoice.taxMinor,
+			taxRateBp: invoice.taxRateBp,
+			totalMinor: invoice.totalMinor,
+			lines: invoice.lines.map((l) => ({
+				description: l.description,
+				quantity: l.quantity,
+				unit: l.unit,
+				amountMinor: l.amountMinor
+			}))
+		},
 		shop: { name: shop.name },
 		jobNumber,
 		report: await workReport(invoice.shopId, invoice.jobId)

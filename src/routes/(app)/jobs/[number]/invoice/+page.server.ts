@@ -29,6 +29,7 @@ import {
 	removeLine
 } from '$lib/server/invoices';
 import { mailFrom, sendMail } from '$lib/server/mail';
+import { expireCheckout } from '$lib/server/payments';
 import { getShop } from '$lib/server/shop';
 import { workReport } from '$lib/server/work-report';
 import type { Actions, PageServerLoad } from './$types';
@@ -167,7 +168,14 @@ export const actions = {
 		await invoiceOfJob(user.shopId, job.id, p.parsed.invoiceId);
 		const r = await creditInvoice(user.shopId, p.parsed.invoiceId, user.id, p.parsed.reason);
 		if (!r.ok) return refused('credit', r.message, echoValues(p.form));
-		return { action: 'credit', done: `Credit note ${r.number} issued.` };
+		// The customer's open checkout must not stay payable once the invoice is credited.
+		const closed = await expireCheckout(r.checkoutSessionId);
+		return {
+			action: 'credit',
+			done: closed
+				? `Credit note ${r.number} issued.`
+				: `Credit note ${r.number} issued. The payment provider could not be reached to close the customer’s payment page: a payment made there still shows here as a refund due.`
+		};
 	},
 
 	payment: async ({ request, params }) => {
