@@ -4,11 +4,12 @@
 import type { Sql } from 'postgres';
 import { chainFields, eachChainRow } from './chain-verify';
 import { canonicalJson } from '../evidence/chain';
+import { toDate } from '../vehicles/vin';
 import type { EvidenceEntry, EvidencePack } from '../evidence/pack';
 
 const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
 const str = (v: unknown) => (v === null || v === undefined ? null : String(v));
-const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : v ? String(v) : null);
+const iso = (v: unknown) => (v === null || v === undefined ? null : toDate(v).toISOString());
 
 /** The job card, vehicle and customer of a job of this shop; null when there is none. */
 async function header(client: Sql, shopId: string, jobId: string) {

@@ -2,7 +2,7 @@
 // out-of-spec entries, photos), what is due next, and the reminder e-mail. Scoped by shop id.
 import { client } from './db';
 import { mailFrom, sendMail } from './mail';
-import { normalizeRegistration, normalizeVin } from '$lib/vehicles/vin';
+import { normalizeRegistration, normalizeVin, toDate } from '$lib/vehicles/vin';
 import type { JobState } from '$lib/jobs/states';
 import { serviceDue, type DueItem, type LastDone, type Reading } from '$lib/vehicles/due';
 
@@ -48,7 +48,7 @@ function toVehicle(r: Record<string, unknown>): VehicleRow & {
 		customerPhone: (r.customer_phone as string | null) ?? null,
 		customerEmail: (r.customer_email as string | null) ?? null,
 		jobs: Number(r.jobs ?? 0),
-		lastJobAt: (r.last_job_at as Date | null) ?? null,
+		lastJobAt: r.last_job_at ? toDate(r.last_job_at) : null,
 		lastOdometer: (r.last_odometer as number | null) ?? null
 	};
 }
@@ -106,7 +106,7 @@ export async function vehicleJobs(shopId: string, vehicleId: string): Promise<Ve
 	return rows.map((r) => ({
 		id: r.id,
 		number: r.number,
-		openedAt: r.created_at,
+		openedAt: toDate(r.created_at),
 		odometer: r.odometer,
 		odometerUnit: r.odometer_unit,
 		state: r.state,
@@ -160,7 +160,7 @@ export async function stepSeries(
 		g.points.push({
 			entryId: r.id,
 			jobNumber: r.number,
-			on: r.occurred_at,
+			on: toDate(r.occurred_at),
 			value: r.spec_value,
 			verdict: r.verdict,
 			min: r.min,
@@ -189,7 +189,7 @@ export async function outOfSpecHistory(shopId: string, vehicleId: string) {
 	return rows.map((r) => ({
 		id: r.id as string,
 		jobNumber: r.number as number,
-		on: r.occurred_at as Date,
+		on: toDate(r.occurred_at),
 		text: r.raw_text as string,
 		value: r.spec_value as number | null,
 		unit: r.spec_unit as string | null,
@@ -211,7 +211,7 @@ export async function vehiclePhotos(shopId: string, vehicleId: string) {
 	return rows.map((r) => ({
 		id: r.id as string,
 		fileName: r.file_name as string,
-		takenAt: r.created_at as Date,
+		takenAt: toDate(r.created_at),
 		jobNumber: r.number as number
 	}));
 }
@@ -253,12 +253,12 @@ async function dueFacts(shopId: string, vehicleIds: string[] | null) {
 		v.last.push({
 			procedureId: r.procedure_id,
 			jobNumber: r.number,
-			on: r.created_at,
+			on: toDate(r.created_at),
 			odometer: r.odometer
 		});
 	}
 	for (const r of readings)
-		of(r.vehicle_id).readings.push({ on: r.created_at, odometer: r.odometer });
+		of(r.vehicle_id).readings.push({ on: toDate(r.created_at), odometer: r.odometer });
 	return byVehicle;
 }
 
@@ -325,7 +325,7 @@ export async function getCustomer(shopId: string, customerId: string) {
 		vehicles: vehicles.map(toVehicle),
 		jobs: jobs.map((j) => ({
 			number: j.number as number,
-			openedAt: j.created_at as Date,
+			openedAt: toDate(j.created_at),
 			state: j.state as JobState,
 			concern: j.concern as string,
 			odometer: j.odometer as number | null,

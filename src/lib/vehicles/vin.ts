@@ -31,7 +31,7 @@ const WEIGHTS = [8, 7, 6, 5, 4, 3, 2, 10, 0, 9, 8, 7, 6, 5, 4, 3, 2];
 
 /** Upper case, without spaces, dashes or dots (as people copy a VIN off a frame or a form). */
 export function normalizeVin(raw: string): string {
-	return raw.toUpperCase().replace(/[\s.\-]/g, '');
+	return raw.toUpperCase().replace(/[\s.-]/g, '');
 }
 
 /** The North American check digit of a 17-character VIN ('0'–'9' or 'X'); null if unreadable. */
@@ -80,5 +80,18 @@ export function checkVin(raw: string): VinCheck {
 
 /** A registration as searched: upper case, spaces and dashes ignored ("ab 12 cde" = "AB12CDE"). */
 export function normalizeRegistration(raw: string): string {
-	return raw.toUpperCase().replace(/[\s\-]/g, '');
+	return raw.toUpperCase().replace(/[\s-]/g, '');
+}
+
+/**
+ * A timestamp as the database client hands it over: drizzle makes postgres.js pass timestamps
+ * through as PostgreSQL's text ("2026-12-04 05:00:00.123456+00"), so raw queries read Dates here.
+ */
+export function toDate(v: unknown): Date {
+	if (v instanceof Date) return v;
+	return new Date(
+		String(v)
+			.replace(' ', 'T')
+			.replace(/([+-]\d\d)$/, '$1:00')
+	);
 }
