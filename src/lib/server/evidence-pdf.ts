@@ -118,7 +118,7 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 		text(`Device time ${utc(e.deviceTime)} · server time ${utc(e.serverTime)} · ${e.source}`);
 		let said = `“${e.text}”`;
 		if (e.value !== null) {
-			said += ` → ${quantity(e.value, e.unit)}`;
+			said += `: ${quantity(e.value, e.unit)}`;
 			if (e.specValue !== null && e.specUnit && e.specUnit !== e.unit) {
 				said += ` = ${quantity(e.specValue, e.specUnit)}`;
 			}
@@ -152,7 +152,7 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 		doc.font('Helvetica').fontSize(8.5);
 		for (const c of pack.stateChanges) {
 			text(
-				`${utc(c.at)} · ${c.from ?? 'new'} → ${c.to} · ${c.by ?? '?'}${c.reason ? ` · ${c.reason}` : ''}`
+				`${utc(c.at)} · ${c.from ?? 'new'} to ${c.to} · ${c.by ?? '?'}${c.reason ? ` · ${c.reason}` : ''}`
 			);
 		}
 	}
