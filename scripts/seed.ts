@@ -47,11 +47,19 @@ type StepSeed = {
 	qty?: number;
 };
 
-const procedures: { name: string; appliesTo: string; hours: number; steps: StepSeed[] }[] = [
+const procedures: {
+	name: string;
+	appliesTo: string;
+	hours: number;
+	/** Demo service interval: due again after this distance or these months. */
+	every?: { km: number; months: number };
+	steps: StepSeed[];
+}[] = [
 	{
 		name: 'Periodic service, 6 000 km (demo specs)',
 		appliesTo: 'Small single-cylinder motorcycles, 125–300 cc',
 		hours: 1.5,
+		every: { km: 6000, months: 12 },
 		steps: [
 			{
 				label: 'Engine oil drain plug',
@@ -468,7 +476,14 @@ async function main() {
 		for (const p of procedures) {
 			const [row] = await tx
 				.insert(s.procedure)
-				.values({ shopId: shop.id, name: p.name, appliesTo: p.appliesTo, flatRateHours: p.hours })
+				.values({
+					shopId: shop.id,
+					name: p.name,
+					appliesTo: p.appliesTo,
+					flatRateHours: p.hours,
+					intervalKm: p.every?.km ?? null,
+					intervalMonths: p.every?.months ?? null
+				})
 				.returning();
 			const steps = await tx
 				.insert(s.procedureStep)

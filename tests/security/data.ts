@@ -38,6 +38,8 @@ export interface Target {
 	inspectionItemId: string;
 	outboxId: string;
 	vehicleId: string;
+	/** The customer of `vehicleId`. */
+	customerId: string;
 	/** A staff account of the shop that is not the one signed in. */
 	userId: string;
 	/** Words only this shop's data holds: none may show in the other shop's answers. */
@@ -194,6 +196,7 @@ async function makeTarget(s: ShopSeed): Promise<Target> {
 			inspectionItemId: item.id as string,
 			outboxId: mail.id as string,
 			vehicleId: vehicle.id as string,
+			customerId: vehicle.customer_id as string,
 			userId: other.id as string
 		};
 	});

@@ -77,12 +77,18 @@ export const rules: Record<string, Rule> = {
 	'GET /(app)/jobs/[number]/invoice': r(S, 200, 200, 403, 403, 404),
 	'GET /(app)/jobs/[number]/invoice/[invoiceId]/csv': r(S, 200, 200, 403, 403, 404),
 	'GET /(app)/jobs/[number]/invoice/[invoiceId]/pdf': r(S, 200, 200, 403, 403, 404),
+	'GET /(app)/jobs/[number]/evidence/pdf': r(S, 200, 200, 200, 403, 404),
+	'GET /(app)/jobs/[number]/evidence/json': r(S, 200, 200, 200, 403, 404),
+	'GET /(app)/vehicles': r(S, 200, 200, 200, 403, 200),
+	'GET /(app)/vehicles/[id]': r(S, 200, 200, 200, 403, 404),
+	'GET /(app)/customers/[id]': r(S, 200, 200, 200, 403, 404),
 	'GET /(app)/procedures': r(S, 200, 200, 200, 200, 200),
 	'GET /(app)/procedures/[id]': r(S, 200, 200, 200, 200, 404),
 	'GET /(app)/procedures/import': r(S, 200, 403, 200, 403, 200),
 	'GET /(app)/shop': r(S, 200, 403, 403, 403, 200),
 	'GET /(app)/shop/settings': r(S, 200, 403, 403, 403, 200),
 	'GET /(app)/shop/outbox': r(S, 200, 200, 403, 403, 200),
+	'GET /(app)/shop/log-check': r(S, 200, 403, 403, 403, 200),
 	'GET /(app)/shop/outbox/[id]': r(S, 200, 200, 403, 403, 404),
 	'GET /(app)/shop/outbox/[id]/attachments/[index]': r(S, 200, 200, 403, 403, 404),
 	// The customer's private page: no sign-in, the token is the key.
@@ -98,6 +104,9 @@ export const rules: Record<string, Rule> = {
 		foreignBody: (t) => ({
 			form: { pick: `v:${t.vehicleId}`, concern: 'Security check', odometer: '100' }
 		})
+	}),
+	'POST /(app)/vehicles/[id]?/remind': r(S, 400, 400, 403, 403, 404, {
+		foreignBody: form({ to: 'customer@example.test' })
 	}),
 	'POST /(app)/jobs/[number]?/photo': r(S, 400, 400, 403, 403, 404, { foreignBody: photo }),
 	'POST /(app)/jobs/[number]?/state': r(S, 400, 400, 403, 403, 404, {
@@ -258,6 +267,8 @@ export function paramsFor(routeId: string, t: Target): Record<string, string> {
 		entryId: t.entryId,
 		photoId: t.photoId,
 		...(routeId.includes('/procedures/[id]') ? { id: t.procedureId } : {}),
-		...(routeId.includes('/outbox/[id]') ? { id: t.outboxId } : {})
+		...(routeId.includes('/outbox/[id]') ? { id: t.outboxId } : {}),
+		...(routeId.includes('/vehicles/[id]') ? { id: t.vehicleId } : {}),
+		...(routeId.includes('/customers/[id]') ? { id: t.customerId } : {})
 	};
 }

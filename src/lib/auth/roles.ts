@@ -34,6 +34,7 @@ export const navItems: readonly NavItem[] = [
 	{ href: '/bench', label: 'Bench', roles: ['technician', 'foreman', 'owner'] },
 	{ href: '/floor', label: 'Floor', roles: ['foreman', 'owner'] },
 	{ href: '/jobs', label: 'Jobs', roles: ['service_writer', 'owner', 'foreman'] },
+	{ href: '/vehicles', label: 'Vehicles', roles: ['service_writer', 'owner', 'foreman'] },
 	{ href: '/procedures', label: 'Procedures', roles: ['owner', 'foreman', 'service_writer'] },
 	{ href: '/shop', label: 'Shop', roles: ['owner'] }
 ];

@@ -150,6 +150,23 @@ export const procedureFormSchema = z.object({
 			.min(0, 'Flat-rate hours cannot be negative.')
 			.max(200, 'At most 200 hours.')
 			.nullable()
+	),
+	/** Service interval; a form without these fields (the short create form) sets none. */
+	intervalKm: optionalNumber('The distance interval').pipe(
+		z
+			.number()
+			.int('Give the distance interval in whole units.')
+			.min(1, 'The distance interval must be more than 0.')
+			.max(1_000_000, 'At most 1,000,000.')
+			.nullable()
+	),
+	intervalMonths: optionalNumber('The months interval').pipe(
+		z
+			.number()
+			.int('Give the interval in whole months.')
+			.min(1, 'The months interval must be at least 1.')
+			.max(240, 'At most 240 months.')
+			.nullable()
 	)
 });
 

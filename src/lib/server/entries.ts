@@ -647,6 +647,8 @@ async function writeBatch(batch: Waiting[]) {
 					"value", "unit", "specValue", "specUnit", "verdict", "note", "torqueToolId", "overdue",
 					"occurredAt"
 				from ok
+				-- Each entry locks its job's chain head (drizzle/0010): one order for all batches.
+				order by "jobId"
 				on conflict (id) do nothing
 				returning *
 			)

@@ -5,6 +5,7 @@ import { checkFileName, checkPhoto } from '$lib/uploads/check';
 import { db } from './db';
 import * as s from './db/schema';
 import { uploads, type FileStorage } from './storage';
+import { keepThumb } from './thumbs';
 
 export type StoreResult = { ok: true; id: string } | { ok: false; message: string };
 
@@ -40,6 +41,7 @@ export async function storePhoto(
 		await storage.remove(key).catch(() => {});
 		throw e;
 	}
+	await keepThumb(storage, key);
 	return { ok: true, id };
 }
 

@@ -100,7 +100,13 @@ export async function createProcedure(
 export async function updateProcedure(
 	shopId: string,
 	id: string,
-	input: { name: string; appliesTo: string; flatRateHours: number | null }
+	input: {
+		name: string;
+		appliesTo: string;
+		flatRateHours: number | null;
+		intervalKm?: number | null;
+		intervalMonths?: number | null;
+	}
 ): Promise<boolean> {
 	const rows = await db
 		.update(procedure)
@@ -108,6 +114,8 @@ export async function updateProcedure(
 			name: input.name,
 			appliesTo: input.appliesTo,
 			flatRateHours: input.flatRateHours ?? 0,
+			intervalKm: input.intervalKm ?? null,
+			intervalMonths: input.intervalMonths ?? null,
 			updatedAt: new Date()
 		})
 		.where(and(eq(procedure.shopId, shopId), eq(procedure.id, id)))

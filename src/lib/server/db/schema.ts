@@ -10,6 +10,7 @@ import {
 	integer,
 	pgEnum,
 	pgTable,
+	primaryKey,
 	text,
 	timestamp,
 	uniqueIndex,
@@ -176,6 +177,10 @@ export const procedure = pgTable(
 		appliesTo: text('applies_to').notNull().default(''),
 		flatRateHours: doublePrecision('flat_rate_hours').notNull().default(0),
 		archivedAt: timestamp('archived_at', { withTimezone: true }),
+		/** Service interval: due again after this distance (in the job's odometer unit)… */
+		intervalKm: integer('interval_km'),
+		/** …or this many months, whichever comes first. Both null: no interval. */
+		intervalMonths: integer('interval_months'),
 		createdAt: createdAt(),
 		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
 	},
@@ -385,10 +390,19 @@ export const logEntry = pgTable(
 			onDelete: 'set null'
 		}),
 		occurredAt: timestamp('occurred_at', { withTimezone: true }).notNull(),
-		recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow()
+		recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow(),
+		/**
+		 * The hash chain (drizzle/0010): set by a trigger in the inserting statement, whatever the
+		 * defaults say. Position in the job's own log (1, 2, …), the previous entry's hash, and
+		 * SHA-256 over the entry's canonical JSON (src/lib/evidence/chain.ts).
+		 */
+		chainPos: integer('chain_pos').notNull().default(0),
+		prevHash: text('prev_hash'),
+		entryHash: text('entry_hash').notNull().default('')
 	},
 	(t) => [
 		uniqueIndex('log_entry_seq_key').on(t.seq),
+		uniqueIndex('log_entry_job_chain_key').on(t.jobId, t.chainPos),
 		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
 		index('log_entry_shop_seq_idx').on(t.shopId, t.seq),
 		index('log_entry_step_idx').on(t.jobStepId),
@@ -397,6 +411,23 @@ export const logEntry = pgTable(
 	]
 );
 export type LogEntry = typeof logEntry.$inferSelect;
+
+/**
+ * The last link of each job's hash chain, kept by the chain trigger (drizzle/0010). Its row
+ * lock orders a job's appends; its count and hash show when the newest entries were removed.
+ */
+export const logChainHead = pgTable(
+	'log_chain_head',
+	{
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		pos: integer('pos').notNull(),
+		hash: text('hash')
+	},
+	(t) => [primaryKey({ columns: [t.shopId, t.jobId] })]
+);
 
 /** Photos: on an entry, or taken at intake. Files live behind the storage interface. */
 export const attachment = pgTable(

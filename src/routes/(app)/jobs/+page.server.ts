@@ -3,22 +3,27 @@ import { jobPage } from '$lib/jobs/table';
 import { jobTableQuerySchema } from '$lib/schemas/job';
 import { listBays, listTechnicians } from '$lib/server/job-cards';
 import { listJobs } from '$lib/server/jobs';
+import { vehiclesDueWithin } from '$lib/server/vehicles';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {
 	const user = requireRole('service_writer', 'owner', 'foreman');
 	// Bad values in the query string fall back to defaults: a hand-edited URL never fails.
 	const query = jobTableQuerySchema.parse(Object.fromEntries(url.searchParams));
-	const [jobs, technicians, bays] = await Promise.all([
+	// ?due=30: the vehicles with service due within 30 days (or overdue), above the job cards.
+	const showDue = url.searchParams.get('due') === '30';
+	const [jobs, technicians, bays, due] = await Promise.all([
 		listJobs(user.shopId),
 		listTechnicians(user.shopId),
-		listBays(user.shopId)
+		listBays(user.shopId),
+		showDue ? vehiclesDueWithin(user.shopId, 30) : null
 	]);
 	return {
 		page: jobPage(jobs, query),
 		query,
 		technicians,
 		bays,
+		due,
 		canOpen: user.role !== 'foreman'
 	};
 };

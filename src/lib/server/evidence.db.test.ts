@@ -1,0 +1,181 @@
+import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { PDFParse } from 'pdf-parse';
+import sharp from 'sharp';
+import { describe, expect, it } from 'vitest';
+import { toJsonExport } from '$lib/evidence/pack';
+import { client, db } from './db';
+import { logMeasurement, makeShop } from './db/fixtures';
+import * as s from './db/schema';
+import { loadEvidence, loadEvidenceByNumber } from './evidence';
+import { evidencePdf } from './evidence-pdf';
+import { storePhoto } from './photos';
+import { localDiskStorage } from './storage';
+
+async function pdfText(pdf: Buffer): Promise<string> {
+	const parser = new PDFParse({ data: new Uint8Array(pdf) });
+	try {
+		return (await parser.getText()).text;
+	} finally {
+		await parser.destroy();
+	}
+}
+
+const sha256 = (t: string) => createHash('sha256').update(t, 'utf8').digest('hex');
+
+async function jobWithHistory() {
+	const f = await makeShop('Evidence');
+	const [tool] = await db
+		.insert(s.torqueTool)
+		.values({
+			shopId: f.shop.id,
+			identifier: 'TW-07',
+			kind: 'Type II class A click',
+			rangeMin: 20,
+			rangeMax: 100,
+			unit: 'N.m',
+			calibratedOn: '2025-01-10'
+		})
+		.returning();
+	const low = await logMeasurement(f, 70, 'low');
+	const base = {
+		shopId: f.shop.id,
+		jobId: f.job.id,
+		source: 'typed' as const,
+		occurredAt: new Date()
+	};
+	await db.insert(s.logEntry).values({
+		...base,
+		id: crypto.randomUUID(),
+		authorId: f.tech.id,
+		kind: 'retraction',
+		rawText: 'undo',
+		retracts: low.id
+	});
+	const [good] = await db
+		.insert(s.logEntry)
+		.values({
+			...base,
+			id: crypto.randomUUID(),
+			jobStepId: f.step.id,
+			authorId: f.tech.id,
+			kind: 'measure',
+			rawText: 'rear axle 8.8 kgf m',
+			value: 8.8,
+			unit: 'kgf.m',
+			// 8.8 kgf·m × 9.80665 N/kgf = 86.29852 N·m (NIST SP 811 B.8, exact g_n)
+			specValue: 86.29852,
+			specUnit: 'N.m',
+			verdict: 'in',
+			torqueToolId: tool.id,
+			toolCalibrationOverdue: true
+		})
+		.returning();
+	const [over] = await db
+		.insert(s.logEntry)
+		.values({
+			...base,
+			id: crypto.randomUUID(),
+			jobStepId: f.step.id,
+			authorId: f.tech.id,
+			kind: 'measure',
+			rawText: 'rear axle 97 nm',
+			value: 97,
+			unit: 'N.m',
+			specValue: 97,
+			specUnit: 'N.m',
+			verdict: 'high'
+		})
+		.returning();
+	await db.insert(s.logEntry).values({
+		...base,
+		id: crypto.randomUUID(),
+		authorId: f.owner.id,
+		kind: 'accept',
+		rawText: 'accept',
+		note: 'Within the wrench accuracy; maker allows it',
+		respondsTo: over.id
+	});
+	return { f, tool, low, good };
+}
+
+describe('the evidence pack', () => {
+	it('holds every entry with both times, who, the spec and the tool at the time', async () => {
+		const { f, low, good } = await jobWithHistory();
+		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
+		expect(pack.entries.map((e) => e.pos)).toEqual([1, 2, 3, 4, 5]);
+		const g = pack.entries.find((e) => e.id === good.id)!;
+		expect(g).toMatchObject({
+			author: 'Tech',
+			step: 'Rear axle nut',
+			spec: { unit: 'N.m', min: 80, max: 96 },
+			tool: { identifier: 'TW-07', calibrationOverdueAtTheTime: true },
+			verdict: 'in'
+		});
+		expect(g.deviceTime).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{6}Z$/);
+		expect(pack.entries[1]).toMatchObject({ kind: 'retraction', retracts: low.id });
+		expect(pack.vehicle?.registration).toBe(f.vehicle.registration);
+	});
+
+	it('exports JSON whose chain anyone can recompute with plain SHA-256', async () => {
+		const { f } = await jobWithHistory();
+		const out = toJsonExport((await loadEvidence(client, f.shop.id, f.job.id))!);
+		const parsed = JSON.parse(JSON.stringify(out));
+		let prev: string | null = null;
+		for (const e of parsed.entries) {
+			expect(JSON.parse(e.canonical).prev).toBe(prev);
+			expect(sha256(e.canonical)).toBe(e.hash);
+			prev = e.hash;
+		}
+		expect(parsed.chain).toEqual({ entries: 5, headHash: prev });
+		expect(JSON.stringify(parsed)).not.toContain('storageKey');
+	});
+
+	it('renders a PDF that reads back as text and opens in pdftoppm, photos included', async () => {
+		const { f } = await jobWithHistory();
+		const storage = localDiskStorage(mkdtempSync(join(tmpdir(), 'evidence-')));
+		const photo = await sharp({
+			create: { width: 2400, height: 1800, channels: 3, background: '#6a7b8c' }
+		})
+			.jpeg()
+			.toBuffer();
+		const stored = await storePhoto(
+			{ shopId: f.shop.id, jobId: f.job.id, entryId: null, uploadedBy: f.tech.id },
+			{ bytes: new Uint8Array(photo), name: 'axle.jpg' },
+			storage
+		);
+		expect(stored.ok).toBe(true);
+		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
+		const pdf = await evidencePdf(pack, storage);
+		expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+		// The photo went in downscaled: far smaller than the 2400 px original it came from.
+		expect(pdf.length).toBeLessThan(photo.length + 200_000);
+		const text = (await pdfText(pdf)).replace(/\s+/g, ' ');
+		expect(text).toContain(`Evidence pack, job card ${pack.job.number}`);
+		expect(text).toContain(f.vehicle.registration);
+		expect(text).toContain(pack.chain.headHash!);
+		expect(text).toContain('Torque tool TW-07');
+		expect(text).toContain('calibration OVERDUE at the time');
+		expect(text).toContain('Withdraws #1');
+		expect(text).toContain('Within the wrench accuracy');
+		expect(text).toContain('axle.jpg');
+		const dir = mkdtempSync(join(tmpdir(), 'evidence-ppm-'));
+		writeFileSync(join(dir, 'pack.pdf'), pdf);
+		const ppm = spawnSync('pdftoppm', ['-r', '20', '-png', join(dir, 'pack.pdf'), join(dir, 'p')]);
+		expect(ppm.status).toBe(0);
+	});
+
+	it('is not there for another shop’s job or a bad number', async () => {
+		const { f } = await jobWithHistory();
+		const other = await makeShop('Evidence other');
+		expect(await loadEvidence(client, other.shop.id, f.job.id)).toBeNull();
+		expect(
+			await loadEvidenceByNumber(client, other.shop.id, String(f.job.number + 1000))
+		).toBeNull();
+		expect(await loadEvidenceByNumber(client, f.shop.id, '1; drop')).toBeNull();
+		expect(await loadEvidenceByNumber(client, f.shop.id, '1')).not.toBeNull();
+	});
+});
