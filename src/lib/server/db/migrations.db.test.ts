@@ -9,9 +9,9 @@ const url = process.env.DATABASE_URL!;
 
 /** Every table the model declares, with its columns: read from schema.ts, not listed here. */
 const model = Object.values(schema)
-	.filter((t): t is PgTable => t instanceof PgTable)
+	.filter((t) => t instanceof PgTable)
 	.map((t) => {
-		const c = getTableConfig(t);
+		const c = getTableConfig(t as PgTable);
 		return { name: c.name, columns: c.columns.map((col) => col.name).sort() };
 	})
 	.sort((a, b) => a.name.localeCompare(b.name));
