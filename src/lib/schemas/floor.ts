@@ -23,6 +23,9 @@ export const logPageSchema = logFilterSchema.extend({
 	before: z.coerce.number().int().positive().optional()
 });
 
+/** The out-of-spec queue's next page: items after this seq. */
+export const queueAfterSchema = z.coerce.number().int().nonnegative().optional();
+
 /** Where a live stream resumes: the last event id the browser saw (a seq, or `seq.mark`). */
 export const streamAfterSchema = z.string().transform((raw, ctx) => {
 	const point = decodeResume(raw);

@@ -183,43 +183,60 @@ export interface QueueItem {
 	occurredAt: string;
 }
 
+/** Queue items per page: a queue of thousands is read a page at a time. */
+export const QUEUE_PAGE = 100;
+
 /**
  * Steps whose latest measurement (not retracted) is under or over and has no answer yet (an
- * accept or a redo responding to it). A new in-spec measurement of the step leaves the queue
- * empty for it; a new out-of-spec one is a new item.
+ * accept or a redo responding to it), on jobs still open. A new in-spec measurement of the step
+ * leaves the queue empty for it; a new out-of-spec one is a new item. Read from job_step_state
+ * (kept at each append, drizzle/0011) starting from the shop's open jobs, so the cost follows
+ * the open work. Oldest first; `after` is the seq of the last item already shown.
  */
-function openOutOfSpecSql(shopId: string, jobId?: string) {
+export function openOutOfSpecSql(
+	shopId: string,
+	opts: { jobId?: string; after?: number; limit?: number } = {}
+) {
 	return sql`
-		with latest as (
-			select distinct on (e.job_step_id) e.*
-			from log_entry e
-			where e.shop_id = ${shopId} and e.kind = 'measure' and e.job_step_id is not null
-			  ${jobId ? sql`and e.job_id = ${jobId}` : sql``}
-			  and not exists (select 1 from log_entry r where r.retracts = e.id)
-			order by e.job_step_id, e.seq desc
-		)
 		select e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.job_step_id,
 			st.label as step_label, u.name as author_name, e.raw_text, e.spec_value, e.spec_unit,
 			e.verdict, st.min, st.max, st.nominal, e.occurred_at
-		from latest e
-		join job j on j.id = e.job_id
-		join job_step st on st.id = e.job_step_id
+		from job j
+		join job_step_state ss on ss.job_id = j.id and ss.shop_id = j.shop_id and ss.waiting
+		join log_entry e on e.id = ss.latest_measure_id
+		join job_step st on st.id = ss.job_step_id
 		join "user" u on u.id = e.author_id
-		where e.verdict in ('low', 'high')
+		where j.shop_id = ${shopId}
 		  and j.state::text in (${sql.join(
 				openStates.map((st) => sql`${st}`),
 				sql`, `
 			)})
-		  and not exists (
-			select 1 from log_entry a
-			where a.responds_to = e.id and a.kind in ('accept', 'redo')
-			  and not exists (select 1 from log_entry r where r.retracts = a.id)
-		  )
-		order by e.seq asc`;
+		  ${opts.jobId ? sql`and j.id = ${opts.jobId}` : sql``}
+		  ${opts.after !== undefined ? sql`and ss.latest_measure_seq > ${opts.after}` : sql``}
+		order by ss.latest_measure_seq asc
+		${opts.limit !== undefined ? sql`limit ${opts.limit}` : sql``}`;
 }
 
-export async function listOutOfSpec(shopId: string, jobId?: string): Promise<QueueItem[]> {
-	const rows = await db.execute(openOutOfSpecSql(shopId, jobId));
+/** How many items the whole queue holds (its pages together). */
+export function openOutOfSpecCountSql(shopId: string) {
+	return sql`
+		select count(*)::int as n
+		from job j
+		join job_step_state ss on ss.job_id = j.id and ss.shop_id = j.shop_id and ss.waiting
+		where j.shop_id = ${shopId}
+		  and j.state::text in (${sql.join(
+				openStates.map((st) => sql`${st}`),
+				sql`, `
+			)})`;
+}
+
+/** The whole queue of one job (a job holds few), or a page of the shop's queue. */
+export async function listOutOfSpec(
+	shopId: string,
+	jobId?: string,
+	page: { after?: number; limit?: number } = {}
+): Promise<QueueItem[]> {
+	const rows = await db.execute(openOutOfSpecSql(shopId, { jobId, ...page }));
 	return rows.map((r) => ({
 		entryId: r.id as string,
 		seq: Number(r.seq),
@@ -238,6 +255,19 @@ export async function listOutOfSpec(shopId: string, jobId?: string): Promise<Que
 		nominal: r.nominal === null ? null : Number(r.nominal),
 		occurredAt: new Date(r.occurred_at as string).toISOString()
 	}));
+}
+
+/** A page of the shop's queue (oldest first) and the size of the whole queue. */
+export async function queuePage(shopId: string, after?: number, limit = QUEUE_PAGE) {
+	const [items, [count]] = await Promise.all([
+		listOutOfSpec(shopId, undefined, { after, limit: limit + 1 }),
+		db.execute(openOutOfSpecCountSql(shopId))
+	]);
+	return {
+		queue: items.slice(0, limit),
+		queueTotal: Number(count.n),
+		queueNextAfter: items.length > limit ? items[limit - 1].seq : null
+	};
 }
 
 async function requireOpenItem(shopId: string, entryId: string): Promise<QueueItem> {
@@ -534,18 +564,19 @@ export async function markReadyToInvoice(actor: Actor, jobId: string) {
 
 export type BoardJob = Awaited<ReturnType<typeof listJobs>>[number] & { openOutOfSpec: number };
 
-/** Every active job with its progress and open out-of-spec count, and the queue itself. */
-export async function floorBoard(shopId: string) {
+/**
+ * Every active job with its progress and open out-of-spec count, and the first page of the
+ * queue (`queueAfter`: the seq of the last item of the page before).
+ */
+export async function floorBoard(shopId: string, queueAfter?: number) {
 	const [jobs, queue] = await Promise.all([
 		listJobs(shopId, { states: [...activeStates] }),
-		listOutOfSpec(shopId)
+		queuePage(shopId, queueAfter)
 	]);
-	const open: Record<string, number> = {};
-	for (const item of queue) open[item.jobId] = (open[item.jobId] ?? 0) + 1;
 	const board: BoardJob[] = jobs
-		.map((j) => ({ ...j, openOutOfSpec: open[j.id] ?? 0 }))
+		.map((j) => ({ ...j, openOutOfSpec: j.waiting }))
 		.sort((a, b) => (a.bay ?? '~').localeCompare(b.bay ?? '~') || a.number - b.number);
-	return { board, queue };
+	return { board, ...queue };
 }
 
 // ——— Spec drift ———

@@ -21,16 +21,20 @@ export interface JobSummary {
 	stepsTotal: number;
 	stepsDone: number;
 	outOfSpec: number;
+	/** Out-of-spec steps with no answer yet (the Floor's queue). */
+	waiting: number;
 	lastEntryAt: Date | null;
 }
 
 /**
- * Jobs with progress: a step is done once it has an entry that is not retracted; the
- * out-of-spec count is of steps whose latest measurement (not retracted) is under or over.
+ * Jobs with progress: a step is done once it has an entry that is not retracted (and no redo
+ * after it); the out-of-spec count is of steps whose latest measurement (not retracted) is under
+ * or over. Read from the state kept current at each append (drizzle/0011), so the cost follows
+ * the jobs listed, not the length of their logs.
  */
 export async function listJobs(
 	shopId: string,
-	filter: { technicianId?: string; states?: JobState[] } = {}
+	filter: { technicianId?: string; states?: JobState[]; ids?: string[] } = {}
 ): Promise<JobSummary[]> {
 	const byTechnician = filter.technicianId
 		? sql`and j.technician_id = ${filter.technicianId}`
@@ -43,37 +47,38 @@ export async function listJobs(
 					filter.states.map((state) => sql`${state}`),
 					sql`, `
 				)})`;
+	const byIds = !filter.ids
+		? sql``
+		: filter.ids.length === 0
+			? sql`and false`
+			: sql`and j.id in (${sql.join(
+					filter.ids.map((id) => sql`${id}::uuid`),
+					sql`, `
+				)})`;
 	const rows = await db.execute(sql`
-		with live as (
-			select e.* from log_entry e
-			where e.shop_id = ${shopId}
-			  and e.kind <> 'retraction'
-			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
-		),
-		latest as (
-			select distinct on (job_step_id) job_step_id, verdict
-			from live where kind = 'measure' and job_step_id is not null
-			order by job_step_id, seq desc
-		)
 		select j.id, j.number, j.state, j.state_reason, j.bay, j.concern, j.created_at,
 			j.technician_id, t.name as technician_name, c.name as customer_name,
 			v.registration, nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
 			(select count(*) from job_step s where s.job_id = j.id)::int as steps_total,
-			-- A foreman's redo reopens a step until a newer entry for it (issue 7).
-			(select count(distinct l.job_step_id) from live l where l.job_id = j.id
-				and l.kind in ('measure', 'done', 'part')
-				and not exists (select 1 from live d where d.job_step_id = l.job_step_id
-					and d.kind = 'redo' and d.seq > l.seq))::int as steps_done,
-			(select count(*) from job_step s join latest on latest.job_step_id = s.id
-				where s.job_id = j.id and latest.verdict in ('low', 'high'))::int as out_of_spec,
-			(select max(l.occurred_at) from live l where l.job_id = j.id) as last_entry_at
+			coalesce(ss.done, 0)::int as steps_done,
+			coalesce(ss.out_of_spec, 0)::int as out_of_spec,
+			coalesce(ss.waiting, 0)::int as waiting,
+			ls.last_entry_at
 		from job j
 		left join "user" t on t.id = j.technician_id
 		left join customer c on c.id = j.customer_id
 		left join vehicle v on v.id = j.vehicle_id
+		left join job_log_state ls on ls.shop_id = j.shop_id and ls.job_id = j.id
+		left join lateral (
+			select count(*) filter (where x.done) as done,
+				count(*) filter (where x.latest_verdict in ('low', 'high')) as out_of_spec,
+				count(*) filter (where x.waiting) as waiting
+			from job_step_state x where x.job_id = j.id and x.shop_id = j.shop_id
+		) ss on true
 		where j.shop_id = ${shopId}
 		  ${byTechnician}
 		  ${byState}
+		  ${byIds}
 		order by j.number desc
 	`);
 	return rows.map((r) => ({
@@ -92,6 +97,7 @@ export async function listJobs(
 		stepsTotal: r.steps_total as number,
 		stepsDone: r.steps_done as number,
 		outOfSpec: r.out_of_spec as number,
+		waiting: r.waiting as number,
 		lastEntryAt: r.last_entry_at ? new Date(r.last_entry_at as string) : null
 	}));
 }

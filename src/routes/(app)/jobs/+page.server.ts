@@ -1,21 +1,20 @@
 import { requireRole } from '$lib/server/auth';
-import { jobPage } from '$lib/jobs/table';
 import { jobTableQuerySchema } from '$lib/schemas/job';
 import { listBays, listTechnicians } from '$lib/server/job-cards';
-import { listJobs } from '$lib/server/jobs';
+import { searchJobs } from '$lib/server/job-search';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {
 	const user = requireRole('service_writer', 'owner', 'foreman');
 	// Bad values in the query string fall back to defaults: a hand-edited URL never fails.
 	const query = jobTableQuerySchema.parse(Object.fromEntries(url.searchParams));
-	const [jobs, technicians, bays] = await Promise.all([
-		listJobs(user.shopId),
+	const [page, technicians, bays] = await Promise.all([
+		searchJobs(user.shopId, query),
 		listTechnicians(user.shopId),
 		listBays(user.shopId)
 	]);
 	return {
-		page: jobPage(jobs, query),
+		page,
 		query,
 		technicians,
 		bays,
