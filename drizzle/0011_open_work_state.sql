@@ -35,6 +35,11 @@ CREATE TABLE "job_log_state" (
 -- Jobs with entries in a time window (drift for one step).
 CREATE INDEX "job_log_state_last_entry_idx" ON "job_log_state" ("shop_id", "last_entry_at");
 --> statement-breakpoint
+-- A step's entries newest first (the trigger reads a step's latest measurement at each append).
+DROP INDEX "log_entry_step_idx";
+--> statement-breakpoint
+CREATE INDEX "log_entry_step_seq_idx" ON "log_entry" ("job_step_id", "seq");
+--> statement-breakpoint
 -- Measurements of one step over time (drift) and of one torque tool, newest first.
 CREATE INDEX "log_entry_step_measure_idx" ON "log_entry" ("job_step_id", "occurred_at")
 	WHERE "kind" = 'measure' AND "spec_value" IS NOT NULL;
@@ -52,6 +57,12 @@ CREATE INDEX "vehicle_registration_trgm_idx" ON "vehicle"
 	USING gin (lower(regexp_replace("registration", '[\s-]+', '', 'g')) gin_trgm_ops);
 --> statement-breakpoint
 CREATE INDEX "job_shop_created_idx" ON "job" ("shop_id", "created_at");
+--> statement-breakpoint
+CREATE INDEX "job_shop_number_text_idx" ON "job" ("shop_id", ("number"::text) text_pattern_ops);
+--> statement-breakpoint
+CREATE INDEX "job_shop_customer_idx" ON "job" ("shop_id", "customer_id");
+--> statement-breakpoint
+CREATE INDEX "job_shop_vehicle_idx" ON "job" ("shop_id", "vehicle_id");
 --> statement-breakpoint
 -- One step's state, read again from the log. The row is locked first, so appends to the same
 -- step take turns and each reads what the one before committed.

@@ -1,4 +1,4 @@
-// npm run db:start | db:stop | db:status | db:migrate | db:seed
+// npm run db:start | db:stop | db:status | db:migrate | db:seed | db:rebuild-state [-- --shop ID]
 import { config, databaseUrl } from './lib/config.js';
 import { findPgBin, isRunning, startCluster, stopCluster } from './lib/pg.js';
 import { ensurePackages, prepareDatabase, seed } from './lib/prepare.js';
@@ -35,6 +35,16 @@ switch (command) {
 		await startCluster();
 		await seed(databaseUrl(process.env.BENCHCALL_DB_NAME || config.dbName));
 		break;
+	case 'rebuild-state': {
+		await startCluster();
+		const { rebuildState } = await import('./lib/rebuild-state.js');
+		const n = await rebuildState(
+			databaseUrl(process.env.BENCHCALL_DB_NAME || config.dbName),
+			option('--shop')
+		);
+		console.log(`Derived state rebuilt from the log for ${n} shop${n === 1 ? '' : 's'}.`);
+		break;
+	}
 	case 'backup': {
 		const { backup } = await import('./lib/backup.js');
 		await backup(option('--db') ?? config.dbName, option('--out') ?? undefined);
@@ -56,6 +66,8 @@ switch (command) {
 		break;
 	}
 	default:
-		console.error('usage: node scripts/db.js start|stop|status|migrate|seed|backup|restore');
+		console.error(
+			'usage: node scripts/db.js start|stop|status|migrate|seed|rebuild-state|backup|restore'
+		);
 		process.exit(2);
 }

@@ -59,5 +59,8 @@ export const inspectionTickSchema = z.object({
 
 export const driftQuerySchema = z.object({
 	step: z.union([uuid, z.literal('')]).optional(),
-	tool: z.union([uuid, z.literal('')]).optional()
+	tool: z.union([uuid, z.literal('')]).optional(),
+	/** The window's first and last day (YYYY-MM-DD); checked by driftWindow() for its message. */
+	from: z.string().max(40).optional(),
+	to: z.string().max(40).optional()
 });

@@ -4,6 +4,7 @@ import { checkTransition, type TransitionFacts } from '$lib/jobs/machine';
 import type { JobState } from '$lib/jobs/states';
 import { db, type Tx } from './db';
 import { job, jobStateChange } from './db/schema';
+import { listJobsSql, type JobListFilter } from './jobs-sql';
 
 export interface JobSummary {
 	id: string;
@@ -32,55 +33,8 @@ export interface JobSummary {
  * or over. Read from the state kept current at each append (drizzle/0011), so the cost follows
  * the jobs listed, not the length of their logs.
  */
-export async function listJobs(
-	shopId: string,
-	filter: { technicianId?: string; states?: JobState[]; ids?: string[] } = {}
-): Promise<JobSummary[]> {
-	const byTechnician = filter.technicianId
-		? sql`and j.technician_id = ${filter.technicianId}`
-		: sql``;
-	const byState = !filter.states
-		? sql``
-		: filter.states.length === 0
-			? sql`and false`
-			: sql`and j.state::text in (${sql.join(
-					filter.states.map((state) => sql`${state}`),
-					sql`, `
-				)})`;
-	const byIds = !filter.ids
-		? sql``
-		: filter.ids.length === 0
-			? sql`and false`
-			: sql`and j.id in (${sql.join(
-					filter.ids.map((id) => sql`${id}::uuid`),
-					sql`, `
-				)})`;
-	const rows = await db.execute(sql`
-		select j.id, j.number, j.state, j.state_reason, j.bay, j.concern, j.created_at,
-			j.technician_id, t.name as technician_name, c.name as customer_name,
-			v.registration, nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
-			(select count(*) from job_step s where s.job_id = j.id)::int as steps_total,
-			coalesce(ss.done, 0)::int as steps_done,
-			coalesce(ss.out_of_spec, 0)::int as out_of_spec,
-			coalesce(ss.waiting, 0)::int as waiting,
-			ls.last_entry_at
-		from job j
-		left join "user" t on t.id = j.technician_id
-		left join customer c on c.id = j.customer_id
-		left join vehicle v on v.id = j.vehicle_id
-		left join job_log_state ls on ls.shop_id = j.shop_id and ls.job_id = j.id
-		left join lateral (
-			select count(*) filter (where x.done) as done,
-				count(*) filter (where x.latest_verdict in ('low', 'high')) as out_of_spec,
-				count(*) filter (where x.waiting) as waiting
-			from job_step_state x where x.job_id = j.id and x.shop_id = j.shop_id
-		) ss on true
-		where j.shop_id = ${shopId}
-		  ${byTechnician}
-		  ${byState}
-		  ${byIds}
-		order by j.number desc
-	`);
+export async function listJobs(shopId: string, filter: JobListFilter = {}): Promise<JobSummary[]> {
+	const rows = await db.execute(listJobsSql(shopId, filter));
 	return rows.map((r) => ({
 		id: r.id as string,
 		number: r.number as number,

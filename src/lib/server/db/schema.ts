@@ -270,6 +270,9 @@ export const job = pgTable(
 		uniqueIndex('job_shop_number_key').on(t.shopId, t.number),
 		index('job_shop_state_idx').on(t.shopId, t.state),
 		index('job_shop_created_idx').on(t.shopId, t.createdAt),
+		index('job_shop_number_text_idx').on(t.shopId, sql`(${t.number}::text) text_pattern_ops`),
+		index('job_shop_customer_idx').on(t.shopId, t.customerId),
+		index('job_shop_vehicle_idx').on(t.shopId, t.vehicleId),
 		index('job_technician_idx').on(t.technicianId)
 	]
 );
@@ -402,7 +405,7 @@ export const logEntry = pgTable(
 		uniqueIndex('log_entry_seq_key').on(t.seq),
 		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
 		index('log_entry_shop_seq_idx').on(t.shopId, t.seq),
-		index('log_entry_step_idx').on(t.jobStepId),
+		index('log_entry_step_seq_idx').on(t.jobStepId, t.seq),
 		index('log_entry_retracts_idx').on(t.retracts),
 		index('log_entry_responds_to_idx').on(t.respondsTo),
 		index('log_entry_step_measure_idx')
