@@ -6,7 +6,7 @@
 import { sql } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
-import { makeShop } from './db/fixtures';
+import { logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import { listOutOfSpec } from './floor';
 import { listJobs } from './jobs';
@@ -244,24 +244,7 @@ describe('state kept at append', () => {
 	it('a rebuild touches only the shop it is given', async () => {
 		const a = await makeShop('Rebuild A');
 		const b = await makeShop('Rebuild B');
-		for (const f of [a, b]) {
-			await db.insert(s.logEntry).values({
-				id: crypto.randomUUID(),
-				shopId: f.shop.id,
-				jobId: f.job.id,
-				jobStepId: f.step.id,
-				authorId: f.tech.id,
-				kind: 'measure',
-				rawText: 'rear axle 70 nm',
-				source: 'typed',
-				value: 70,
-				unit: 'N.m',
-				specValue: 70,
-				specUnit: 'N.m',
-				verdict: 'low',
-				occurredAt: new Date()
-			});
-		}
+		for (const f of [a, b]) await logMeasurement(f, 70, 'low');
 		const before = await stateRows(b.shop.id);
 		expect(before.steps).toHaveLength(1);
 		await db.execute(sql`select rebuild_log_state(${a.shop.id})`);
