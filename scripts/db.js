@@ -1,4 +1,4 @@
-// npm run db:start | db:stop | db:status | db:migrate | db:seed
+// npm run db:start | db:stop | db:status | db:migrate | db:seed | db:rebuild-state [-- --shop ID] | db:audit-distribution
 import { config, databaseUrl } from './lib/config.js';
 import { findPgBin, isRunning, startCluster, stopCluster } from './lib/pg.js';
 import { ensurePackages, prepareDatabase, seed } from './lib/prepare.js';
@@ -35,6 +35,30 @@ switch (command) {
 		await startCluster();
 		await seed(databaseUrl(process.env.BENCHCALL_DB_NAME || config.dbName));
 		break;
+	case 'rebuild-state': {
+		await startCluster();
+		const { rebuildState } = await import('./lib/rebuild-state.js');
+		const n = await rebuildState(
+			databaseUrl(process.env.BENCHCALL_DB_NAME || config.dbName),
+			option('--shop')
+		);
+		console.log(`Derived state rebuilt from the log for ${n} shop${n === 1 ? '' : 's'}.`);
+		break;
+	}
+	case 'audit-distribution': {
+		await startCluster();
+		const { distributionObstacles } = await import('./lib/distribution-audit.js');
+		const found = await distributionObstacles(
+			databaseUrl(process.env.BENCHCALL_DB_NAME || config.dbName)
+		);
+		for (const line of found) console.log(`  ${line}`);
+		console.log(
+			found.length === 0
+				? 'Every shop table can be distributed by shop_id.'
+				: `${found.length} obstacles to distributing the shop tables by shop_id.`
+		);
+		break;
+	}
 	case 'backup': {
 		const { backup } = await import('./lib/backup.js');
 		await backup(option('--db') ?? config.dbName, option('--out') ?? undefined);
@@ -56,6 +80,8 @@ switch (command) {
 		break;
 	}
 	default:
-		console.error('usage: node scripts/db.js start|stop|status|migrate|seed|backup|restore');
+		console.error(
+			'usage: node scripts/db.js start|stop|status|migrate|seed|rebuild-state|audit-distribution|backup|restore'
+		);
 		process.exit(2);
 }

@@ -23,6 +23,9 @@ export const logPageSchema = logFilterSchema.extend({
 	before: z.coerce.number().int().positive().optional()
 });
 
+/** The out-of-spec queue's next page: items after this seq. */
+export const queueAfterSchema = z.coerce.number().int().nonnegative().optional();
+
 /** Where a live stream resumes: the last event id the browser saw (a seq, or `seq.mark`). */
 export const streamAfterSchema = z.string().transform((raw, ctx) => {
 	const point = decodeResume(raw);
@@ -56,5 +59,8 @@ export const inspectionTickSchema = z.object({
 
 export const driftQuerySchema = z.object({
 	step: z.union([uuid, z.literal('')]).optional(),
-	tool: z.union([uuid, z.literal('')]).optional()
+	tool: z.union([uuid, z.literal('')]).optional(),
+	/** The window's first and last day (YYYY-MM-DD); checked by driftWindow() for its message. */
+	from: z.string().max(40).optional(),
+	to: z.string().max(40).optional()
 });

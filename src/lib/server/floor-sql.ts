@@ -2,6 +2,8 @@
 // free of SvelteKit imports so that scripts/bench-floor.ts measures exactly what the app runs.
 import { sql, type SQL } from 'drizzle-orm';
 import type { LogFilter } from '../floor/log';
+import type { JobState } from '../jobs/states';
+import { stateArray } from './state-array';
 
 export const entryColumns = sql`
 	e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.author_id, u.name as author_name,
@@ -48,16 +50,49 @@ export function logPageSql(
 	`;
 }
 
-/** Logged values of one library step across jobs, oldest first, in the step's unit. */
-export function driftStepSql(shopId: string, procedureStepId: string, unit: string) {
+/** Job states whose out-of-spec entries still need an answer. */
+export const openStates: JobState[] = [
+	'open',
+	'in_work',
+	'final_inspection',
+	'on_hold',
+	'ready_to_invoice'
+];
+
+/**
+ * Steps whose latest measurement (not retracted) is under or over and has no answer yet (an
+ * accept or a redo responding to it), on jobs still open. A new in-spec measurement of the step
+ * leaves the queue empty for it; a new out-of-spec one is a new item. Read from job_step_state
+ * (kept at each append, drizzle/0011) starting from the shop's open jobs, so the cost follows
+ * the open work. Oldest first; `after` is the seq of the last item already shown.
+ */
+export function openOutOfSpecSql(
+	shopId: string,
+	opts: { jobId?: string; after?: number; limit?: number } = {}
+) {
 	return sql`
-		select e.occurred_at, e.spec_value, j.number as job_number, t.identifier as tool, e.verdict
-		from job_step js
-		join log_entry e on e.job_step_id = js.id
-		join job j on j.id = e.job_id
-		left join torque_tool t on t.id = e.torque_tool_id
-		where js.procedure_step_id = ${procedureStepId} and js.shop_id = ${shopId}
-		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = ${unit}
-		  and not exists (select 1 from log_entry r where r.retracts = e.id)
-		order by e.occurred_at asc`;
+		select e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.job_step_id,
+			st.label as step_label, u.name as author_name, e.raw_text, e.spec_value, e.spec_unit,
+			e.verdict, st.min, st.max, st.nominal, e.occurred_at
+		from job j
+		join job_step_state ss on ss.job_id = j.id and ss.shop_id = j.shop_id and ss.waiting
+		join log_entry e on e.id = ss.latest_measure_id
+		join job_step st on st.id = ss.job_step_id
+		join "user" u on u.id = e.author_id
+		where j.shop_id = ${shopId}
+		  and j.state = any(${stateArray(openStates)}::job_state[])
+		  ${opts.jobId ? sql`and j.id = ${opts.jobId}` : sql``}
+		  ${opts.after !== undefined ? sql`and ss.latest_measure_seq > ${opts.after}` : sql``}
+		order by ss.latest_measure_seq asc
+		${opts.limit !== undefined ? sql`limit ${opts.limit}` : sql``}`;
+}
+
+/** How many items the whole queue holds (its pages together). */
+export function openOutOfSpecCountSql(shopId: string) {
+	return sql`
+		select count(*)::int as n
+		from job j
+		join job_step_state ss on ss.job_id = j.id and ss.shop_id = j.shop_id and ss.waiting
+		where j.shop_id = ${shopId}
+		  and j.state = any(${stateArray(openStates)}::job_state[])`;
 }

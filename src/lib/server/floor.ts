@@ -12,7 +12,13 @@ import { announceEntry } from './announce';
 import { db } from './db';
 import { readJson } from './request';
 import * as s from './db/schema';
-import { driftStepSql, entryColumns, entryJoins, logPageSql } from './floor-sql';
+import {
+	entryColumns,
+	entryJoins,
+	logPageSql,
+	openOutOfSpecCountSql,
+	openOutOfSpecSql
+} from './floor-sql';
 import { listJobs, transitionJob } from './jobs';
 
 export interface Actor {
@@ -25,15 +31,6 @@ import { RESCAN_WINDOW } from '$lib/floor/resume';
 
 export { RESCAN_WINDOW };
 export const PAGE_SIZE = 50;
-
-/** Job states whose out-of-spec entries still need an answer. */
-const openStates: JobState[] = [
-	'open',
-	'in_work',
-	'final_inspection',
-	'on_hold',
-	'ready_to_invoice'
-];
 
 function toEntry(r: Record<string, unknown>): FloorEntry {
 	return {
@@ -183,43 +180,16 @@ export interface QueueItem {
 	occurredAt: string;
 }
 
-/**
- * Steps whose latest measurement (not retracted) is under or over and has no answer yet (an
- * accept or a redo responding to it). A new in-spec measurement of the step leaves the queue
- * empty for it; a new out-of-spec one is a new item.
- */
-function openOutOfSpecSql(shopId: string, jobId?: string) {
-	return sql`
-		with latest as (
-			select distinct on (e.job_step_id) e.*
-			from log_entry e
-			where e.shop_id = ${shopId} and e.kind = 'measure' and e.job_step_id is not null
-			  ${jobId ? sql`and e.job_id = ${jobId}` : sql``}
-			  and not exists (select 1 from log_entry r where r.retracts = e.id)
-			order by e.job_step_id, e.seq desc
-		)
-		select e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.job_step_id,
-			st.label as step_label, u.name as author_name, e.raw_text, e.spec_value, e.spec_unit,
-			e.verdict, st.min, st.max, st.nominal, e.occurred_at
-		from latest e
-		join job j on j.id = e.job_id
-		join job_step st on st.id = e.job_step_id
-		join "user" u on u.id = e.author_id
-		where e.verdict in ('low', 'high')
-		  and j.state::text in (${sql.join(
-				openStates.map((st) => sql`${st}`),
-				sql`, `
-			)})
-		  and not exists (
-			select 1 from log_entry a
-			where a.responds_to = e.id and a.kind in ('accept', 'redo')
-			  and not exists (select 1 from log_entry r where r.retracts = a.id)
-		  )
-		order by e.seq asc`;
-}
+/** Queue items per page: a queue of thousands is read a page at a time. */
+export const QUEUE_PAGE = 100;
 
-export async function listOutOfSpec(shopId: string, jobId?: string): Promise<QueueItem[]> {
-	const rows = await db.execute(openOutOfSpecSql(shopId, jobId));
+/** The whole queue of one job (a job holds few), or a page of the shop's queue. */
+export async function listOutOfSpec(
+	shopId: string,
+	jobId?: string,
+	page: { after?: number; limit?: number } = {}
+): Promise<QueueItem[]> {
+	const rows = await db.execute(openOutOfSpecSql(shopId, { jobId, ...page }));
 	return rows.map((r) => ({
 		entryId: r.id as string,
 		seq: Number(r.seq),
@@ -238,6 +208,19 @@ export async function listOutOfSpec(shopId: string, jobId?: string): Promise<Que
 		nominal: r.nominal === null ? null : Number(r.nominal),
 		occurredAt: new Date(r.occurred_at as string).toISOString()
 	}));
+}
+
+/** A page of the shop's queue (oldest first) and the size of the whole queue. */
+export async function queuePage(shopId: string, after?: number, limit = QUEUE_PAGE) {
+	const [items, [count]] = await Promise.all([
+		listOutOfSpec(shopId, undefined, { after, limit: limit + 1 }),
+		db.execute(openOutOfSpecCountSql(shopId))
+	]);
+	return {
+		queue: items.slice(0, limit),
+		queueTotal: Number(count.n),
+		queueNextAfter: items.length > limit ? items[limit - 1].seq : null
+	};
 }
 
 async function requireOpenItem(shopId: string, entryId: string): Promise<QueueItem> {
@@ -534,150 +517,17 @@ export async function markReadyToInvoice(actor: Actor, jobId: string) {
 
 export type BoardJob = Awaited<ReturnType<typeof listJobs>>[number] & { openOutOfSpec: number };
 
-/** Every active job with its progress and open out-of-spec count, and the queue itself. */
-export async function floorBoard(shopId: string) {
+/**
+ * Every active job with its progress and open out-of-spec count, and the first page of the
+ * queue (`queueAfter`: the seq of the last item of the page before).
+ */
+export async function floorBoard(shopId: string, queueAfter?: number) {
 	const [jobs, queue] = await Promise.all([
 		listJobs(shopId, { states: [...activeStates] }),
-		listOutOfSpec(shopId)
+		queuePage(shopId, queueAfter)
 	]);
-	const open: Record<string, number> = {};
-	for (const item of queue) open[item.jobId] = (open[item.jobId] ?? 0) + 1;
 	const board: BoardJob[] = jobs
-		.map((j) => ({ ...j, openOutOfSpec: open[j.id] ?? 0 }))
+		.map((j) => ({ ...j, openOutOfSpec: j.waiting }))
 		.sort((a, b) => (a.bay ?? '~').localeCompare(b.bay ?? '~') || a.number - b.number);
-	return { board, queue };
-}
-
-// ——— Spec drift ———
-
-export interface DriftPoint {
-	at: string;
-	value: number;
-	jobNumber: number;
-	tool: string | null;
-	verdict: Verdict | null;
-}
-
-/** Library steps with a unit and torque tools, each with how many readings it has. */
-export async function driftOptions(shopId: string) {
-	const steps = await db.execute(sql`
-		select ps.id, ps.label, p.name as procedure_name, ps.unit,
-			(select count(*) from job_step js
-				join log_entry e on e.job_step_id = js.id
-				where js.procedure_step_id = ps.id and js.shop_id = ${shopId}
-				  and e.kind = 'measure' and e.spec_value is not null)::int as n
-		from procedure_step ps
-		join procedure p on p.id = ps.procedure_id
-		where ps.shop_id = ${shopId} and ps.unit is not null
-		order by n desc, p.name, ps.position`);
-	const tools = await db.execute(sql`
-		select t.id, t.identifier, t.kind,
-			(select count(*) from log_entry e where e.torque_tool_id = t.id and e.shop_id = ${shopId}
-				and e.kind = 'measure')::int as n
-		from torque_tool t where t.shop_id = ${shopId}
-		order by t.identifier`);
-	return {
-		steps: steps.map((r) => ({
-			id: r.id as string,
-			label: r.label as string,
-			procedureName: r.procedure_name as string,
-			unit: r.unit as string,
-			n: Number(r.n)
-		})),
-		tools: tools.map((r) => ({
-			id: r.id as string,
-			identifier: r.identifier as string,
-			kind: r.kind as string,
-			n: Number(r.n)
-		}))
-	};
-}
-
-/**
- * Logged values of one library step across jobs (matched through job_step.procedure_step_id),
- * oldest first, in the step's unit, without retracted entries. The band is the step's min/max,
- * or nominal ± the shop's tolerance for a nominal-only spec.
- */
-export async function driftForStep(shopId: string, procedureStepId: string) {
-	const [step] = await db.execute(sql`
-		select ps.id, ps.label, ps.unit, ps.min, ps.max, ps.nominal, p.name as procedure_name,
-			sh.default_tolerance_pct
-		from procedure_step ps
-		join procedure p on p.id = ps.procedure_id
-		join shop sh on sh.id = ps.shop_id
-		where ps.id = ${procedureStepId} and ps.shop_id = ${shopId}`);
-	if (!step) return null;
-	const rows = await db.execute(driftStepSql(shopId, procedureStepId, step.unit as string));
-	const nominal = step.nominal === null ? null : Number(step.nominal);
-	const tol = Number(step.default_tolerance_pct) / 100;
-	let lsl = step.min === null ? null : Number(step.min);
-	let usl = step.max === null ? null : Number(step.max);
-	if (lsl === null && usl === null && nominal !== null) {
-		lsl = nominal * (1 - tol);
-		usl = nominal * (1 + tol);
-	}
-	return {
-		step: {
-			id: step.id as string,
-			label: step.label as string,
-			procedureName: step.procedure_name as string,
-			unit: step.unit as string,
-			nominal,
-			lsl,
-			usl,
-			bandFromTolerance: step.min === null && step.max === null && nominal !== null
-		},
-		points: rows.map((r): DriftPoint => ({
-			at: new Date(r.occurred_at as string).toISOString(),
-			value: Number(r.spec_value),
-			jobNumber: Number(r.job_number),
-			tool: (r.tool as string | null) ?? null,
-			verdict: (r.verdict as Verdict | null) ?? null
-		}))
-	};
-}
-
-/**
- * Readings made with one torque tool, as deviation from each step's nominal (or the middle of
- * its band), oldest first; and the tool's calibration facts.
- */
-export async function driftForTool(shopId: string, toolId: string) {
-	const [tool] = await db.execute(sql`
-		select t.id, t.identifier, t.kind, t.range_min, t.range_max, t.unit, to_char(t.calibrated_on, 'YYYY-MM-DD') as calibrated_on,
-			t.interval_months, sh.calibration_months
-		from torque_tool t join shop sh on sh.id = t.shop_id
-		where t.id = ${toolId} and t.shop_id = ${shopId}`);
-	if (!tool) return null;
-	const rows = await db.execute(sql`
-		select e.occurred_at, e.spec_value, j.number as job_number, e.verdict, st.label,
-			coalesce(st.nominal, (st.min + st.max) / 2) as nominal
-		from log_entry e
-		join job j on j.id = e.job_id
-		join job_step st on st.id = e.job_step_id
-		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId}
-		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = st.unit
-		  and not exists (select 1 from log_entry r where r.retracts = e.id)
-		order by e.occurred_at asc`);
-	return {
-		tool: {
-			id: tool.id as string,
-			identifier: tool.identifier as string,
-			kind: tool.kind as string,
-			rangeMin: Number(tool.range_min),
-			rangeMax: Number(tool.range_max),
-			unit: tool.unit as string,
-			calibratedOn: (tool.calibrated_on as string | null) ?? null,
-			intervalMonths: Number(tool.interval_months ?? tool.calibration_months)
-		},
-		readings: rows
-			.filter((r) => r.nominal !== null)
-			.map((r) => ({
-				at: new Date(r.occurred_at as string).toISOString(),
-				value: Number(r.spec_value),
-				nominal: Number(r.nominal),
-				label: r.label as string,
-				jobNumber: Number(r.job_number),
-				verdict: (r.verdict as Verdict | null) ?? null
-			}))
-	};
+	return { board, ...queue };
 }

@@ -4,6 +4,7 @@ import { checkTransition, type TransitionFacts } from '$lib/jobs/machine';
 import type { JobState } from '$lib/jobs/states';
 import { db, type Tx } from './db';
 import { job, jobStateChange } from './db/schema';
+import { listJobsSql, type JobListFilter } from './jobs-sql';
 
 export interface JobSummary {
 	id: string;
@@ -21,61 +22,19 @@ export interface JobSummary {
 	stepsTotal: number;
 	stepsDone: number;
 	outOfSpec: number;
+	/** Out-of-spec steps with no answer yet (the Floor's queue). */
+	waiting: number;
 	lastEntryAt: Date | null;
 }
 
 /**
- * Jobs with progress: a step is done once it has an entry that is not retracted; the
- * out-of-spec count is of steps whose latest measurement (not retracted) is under or over.
+ * Jobs with progress: a step is done once it has an entry that is not retracted (and no redo
+ * after it); the out-of-spec count is of steps whose latest measurement (not retracted) is under
+ * or over. Read from the state kept current at each append (drizzle/0011), so the cost follows
+ * the jobs listed, not the length of their logs.
  */
-export async function listJobs(
-	shopId: string,
-	filter: { technicianId?: string; states?: JobState[] } = {}
-): Promise<JobSummary[]> {
-	const byTechnician = filter.technicianId
-		? sql`and j.technician_id = ${filter.technicianId}`
-		: sql``;
-	const byState = !filter.states
-		? sql``
-		: filter.states.length === 0
-			? sql`and false`
-			: sql`and j.state::text in (${sql.join(
-					filter.states.map((state) => sql`${state}`),
-					sql`, `
-				)})`;
-	const rows = await db.execute(sql`
-		with live as (
-			select e.* from log_entry e
-			where e.shop_id = ${shopId}
-			  and e.kind <> 'retraction'
-			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
-		),
-		latest as (
-			select distinct on (job_step_id) job_step_id, verdict
-			from live where kind = 'measure' and job_step_id is not null
-			order by job_step_id, seq desc
-		)
-		select j.id, j.number, j.state, j.state_reason, j.bay, j.concern, j.created_at,
-			j.technician_id, t.name as technician_name, c.name as customer_name,
-			v.registration, nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
-			(select count(*) from job_step s where s.job_id = j.id)::int as steps_total,
-			-- A foreman's redo reopens a step until a newer entry for it (issue 7).
-			(select count(distinct l.job_step_id) from live l where l.job_id = j.id
-				and l.kind in ('measure', 'done', 'part')
-				and not exists (select 1 from live d where d.job_step_id = l.job_step_id
-					and d.kind = 'redo' and d.seq > l.seq))::int as steps_done,
-			(select count(*) from job_step s join latest on latest.job_step_id = s.id
-				where s.job_id = j.id and latest.verdict in ('low', 'high'))::int as out_of_spec,
-			(select max(l.occurred_at) from live l where l.job_id = j.id) as last_entry_at
-		from job j
-		left join "user" t on t.id = j.technician_id
-		left join customer c on c.id = j.customer_id
-		left join vehicle v on v.id = j.vehicle_id
-		where j.shop_id = ${shopId}
-		  ${byTechnician}
-		  ${byState}
-		order by j.number desc
-	`);
+export async function listJobs(shopId: string, filter: JobListFilter = {}): Promise<JobSummary[]> {
+	const rows = await db.execute(listJobsSql(shopId, filter));
 	return rows.map((r) => ({
 		id: r.id as string,
 		number: r.number as number,
@@ -92,6 +51,7 @@ export async function listJobs(
 		stepsTotal: r.steps_total as number,
 		stepsDone: r.steps_done as number,
 		outOfSpec: r.out_of_spec as number,
+		waiting: r.waiting as number,
 		lastEntryAt: r.last_entry_at ? new Date(r.last_entry_at as string) : null
 	}));
 }

@@ -4,10 +4,12 @@ import { describe, expect, it } from 'vitest';
 import {
 	capability,
 	capabilityFrom,
+	capabilityOf,
 	mean,
 	MIN_CAPABILITY_N,
 	sampleStdDev,
 	sideBias,
+	sideBiasOf,
 	signTest
 } from './index';
 
@@ -94,6 +96,34 @@ describe('sign test and side bias', () => {
 			const tail = pmf.slice(0, k + 1).reduce((a, b) => a + b, 0);
 			expect(signTest(above, below)).toBeCloseTo(Math.min(1, 2 * tail), 3);
 		}
+	});
+
+	it('stays right for a window of thousands of readings', () => {
+		// Normal approximation with continuity correction (NIST/SEMATECH e-Handbook §7.2.3.2 uses
+		// it for large n): z = (|above − n/2| − 0.5) / (√n / 2); p = 2 (1 − Φ(z)), Φ from
+		// simple-statistics. At n = 10,000 the exact test and the approximation agree closely.
+		const z = (100 - 0.5) / 50;
+		const approx = 2 * (1 - ss.cumulativeStdNormalProbability(z));
+		expect(signTest(5100, 4900)).toBeCloseTo(approx, 3);
+		expect(signTest(4900, 5100)).toBeCloseTo(approx, 3);
+	});
+
+	it('gives the same verdict from counts made in SQL as from the readings', () => {
+		const readings = Array.from({ length: 30 }, (_, i) => ({ value: 88 + (i % 4), nominal: 88 }));
+		const fromReadings = sideBias(readings);
+		const deviations = readings.map((r) => ((r.value - r.nominal) / r.nominal) * 100);
+		expect(
+			sideBiasOf({
+				n: readings.length,
+				above: deviations.filter((d) => d > 0).length,
+				below: 0,
+				meanDeviationPct: ss.mean(deviations)
+			})
+		).toEqual({
+			...fromReadings,
+			meanDeviationPct: expect.closeTo(fromReadings.meanDeviationPct!, 9)
+		});
+		expect(capabilityOf(30, 10, 0.5, { lsl: 8, usl: 12 })).toMatchObject({ cp: 4 / 3, cpk: 4 / 3 });
 	});
 
 	it('calls out readings that sit above nominal, not a balanced tool', () => {

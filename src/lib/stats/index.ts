@@ -62,8 +62,16 @@ export function capabilityFrom(m: number, s: number, band: SpecBand) {
 /** n, mean, s and, from MIN_CAPABILITY_N readings with a band and some spread, Cp and Cpk. */
 export function capability(values: readonly number[], band: SpecBand): Capability {
 	const n = values.length;
-	const m = n > 0 ? mean(values) : null;
-	const s = n > 1 ? sampleStdDev(values) : null;
+	return capabilityOf(n, n > 0 ? mean(values) : null, n > 1 ? sampleStdDev(values) : null, band);
+}
+
+/** The same from n, mean and sample standard deviation already computed (in SQL, for drift). */
+export function capabilityOf(
+	n: number,
+	m: number | null,
+	s: number | null,
+	band: SpecBand
+): Capability {
 	const none = { cp: null, cpk: null, cpu: null, cpl: null };
 	if (band.lsl === null && band.usl === null) {
 		return { n, mean: m, s, ...none, reason: 'The step has no spec band to compare against.' };
@@ -83,13 +91,6 @@ export function capability(values: readonly number[], band: SpecBand): Capabilit
 	return { n, mean: m, s, ...capabilityFrom(m!, s, band), reason: null };
 }
 
-/** log(n choose k), exact enough for the sizes here. */
-function logChoose(n: number, k: number): number {
-	let r = 0;
-	for (let i = 1; i <= k; i++) r += Math.log(n - k + i) - Math.log(i);
-	return r;
-}
-
 /**
  * Two-sided exact sign test: the chance of a split at least this uneven between readings
  * above and below nominal if each side were equally likely. Readings exactly on nominal are
@@ -99,8 +100,14 @@ export function signTest(above: number, below: number): number {
 	const n = above + below;
 	if (n === 0) return 1;
 	const k = Math.min(above, below);
+	// Terms C(n, i) / 2^n in log form, each from the one before: linear in k, so a window of
+	// tens of thousands of readings costs a moment.
+	let logTerm = -n * Math.LN2;
 	let tail = 0;
-	for (let i = 0; i <= k; i++) tail += Math.exp(logChoose(n, i) - n * Math.LN2);
+	for (let i = 0; i <= k; i++) {
+		tail += Math.exp(logTerm);
+		logTerm += Math.log(n - i) - Math.log(i + 1);
+	}
 	return Math.min(1, 2 * tail);
 }
 
@@ -124,20 +131,28 @@ export function sideBias(
 	readings: readonly { value: number; nominal: number }[],
 	opts: { alpha?: number; minN?: number } = {}
 ): SideBias {
-	const alpha = opts.alpha ?? 0.01;
-	const minN = opts.minN ?? 8;
 	const usable = readings.filter((r) => Number.isFinite(r.value) && r.nominal > 0);
 	const deviations = usable.map((r) => ((r.value - r.nominal) / r.nominal) * 100);
-	const above = deviations.filter((d) => d > 0).length;
-	const below = deviations.filter((d) => d < 0).length;
-	const p = signTest(above, below);
-	const side = usable.length >= minN && p < alpha ? (above > below ? 'above' : 'below') : null;
-	return {
-		n: usable.length,
-		above,
-		below,
-		meanDeviationPct: deviations.length > 0 ? mean(deviations) : null,
-		p,
-		side
-	};
+	return sideBiasOf(
+		{
+			n: usable.length,
+			above: deviations.filter((d) => d > 0).length,
+			below: deviations.filter((d) => d < 0).length,
+			meanDeviationPct: deviations.length > 0 ? mean(deviations) : null
+		},
+		opts
+	);
+}
+
+/** The same from counts already made (in SQL, for drift). */
+export function sideBiasOf(
+	counts: { n: number; above: number; below: number; meanDeviationPct: number | null },
+	opts: { alpha?: number; minN?: number } = {}
+): SideBias {
+	const alpha = opts.alpha ?? 0.01;
+	const minN = opts.minN ?? 8;
+	const p = signTest(counts.above, counts.below);
+	const side =
+		counts.n >= minN && p < alpha ? (counts.above > counts.below ? 'above' : 'below') : null;
+	return { ...counts, p, side };
 }

@@ -104,7 +104,10 @@ export const customer = pgTable(
 		email: text('email'),
 		createdAt: createdAt()
 	},
-	(t) => [index('customer_shop_idx').on(t.shopId, t.name)]
+	(t) => [
+		index('customer_shop_idx').on(t.shopId, t.name),
+		index('customer_name_trgm_idx').using('gin', sql`lower(${t.name}) gin_trgm_ops`)
+	]
 );
 export type Customer = typeof customer.$inferSelect;
 
@@ -123,7 +126,13 @@ export const vehicle = pgTable(
 		colour: text('colour'),
 		createdAt: createdAt()
 	},
-	(t) => [index('vehicle_shop_idx').on(t.shopId, t.registration)]
+	(t) => [
+		index('vehicle_shop_idx').on(t.shopId, t.registration),
+		index('vehicle_registration_trgm_idx').using(
+			'gin',
+			sql`lower(regexp_replace(${t.registration}, '[\\s-]+', '', 'g')) gin_trgm_ops`
+		)
+	]
 );
 export type Vehicle = typeof vehicle.$inferSelect;
 
@@ -264,6 +273,10 @@ export const job = pgTable(
 	(t) => [
 		uniqueIndex('job_shop_number_key').on(t.shopId, t.number),
 		index('job_shop_state_idx').on(t.shopId, t.state),
+		index('job_shop_created_idx').on(t.shopId, t.createdAt),
+		index('job_shop_number_text_idx').on(t.shopId, sql`(${t.number}::text) text_pattern_ops`),
+		index('job_shop_customer_idx').on(t.shopId, t.customerId),
+		index('job_shop_vehicle_idx').on(t.shopId, t.vehicleId),
 		index('job_technician_idx').on(t.technicianId)
 	]
 );
@@ -405,9 +418,15 @@ export const logEntry = pgTable(
 		uniqueIndex('log_entry_job_chain_key').on(t.jobId, t.chainPos),
 		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
 		index('log_entry_shop_seq_idx').on(t.shopId, t.seq),
-		index('log_entry_step_idx').on(t.jobStepId),
+		index('log_entry_step_seq_idx').on(t.jobStepId, t.seq),
 		index('log_entry_retracts_idx').on(t.retracts),
-		index('log_entry_responds_to_idx').on(t.respondsTo)
+		index('log_entry_responds_to_idx').on(t.respondsTo),
+		index('log_entry_step_measure_idx')
+			.on(t.jobStepId, t.occurredAt)
+			.where(sql`${t.kind} = 'measure' AND ${t.specValue} IS NOT NULL`),
+		index('log_entry_tool_idx')
+			.on(t.torqueToolId, t.occurredAt)
+			.where(sql`${t.kind} = 'measure' AND ${t.torqueToolId} IS NOT NULL`)
 	]
 );
 export type LogEntry = typeof logEntry.$inferSelect;
@@ -427,6 +446,51 @@ export const logChainHead = pgTable(
 		hash: text('hash')
 	},
 	(t) => [primaryKey({ columns: [t.shopId, t.jobId] })]
+);
+
+/**
+ * Derived from the log and kept by a trigger in each appending transaction (drizzle/0011): one
+ * row per step that has entries. Rebuilt from the log by rebuild_log_state(shop).
+ */
+export const jobStepState = pgTable(
+	'job_step_state',
+	{
+		shopId: shopRef(),
+		jobStepId: uuid('job_step_id')
+			.notNull()
+			.references(() => jobStep.id, { onDelete: 'cascade' }),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		done: boolean('done').notNull().default(false),
+		latestMeasureId: uuid('latest_measure_id'),
+		latestMeasureSeq: bigint('latest_measure_seq', { mode: 'number' }),
+		latestVerdict: verdictEnum('latest_verdict'),
+		waiting: boolean('waiting').notNull().default(false)
+	},
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.jobStepId] }),
+		index('job_step_state_job_idx').on(t.jobId),
+		index('job_step_state_waiting_idx')
+			.on(t.jobId, t.latestMeasureSeq)
+			.where(sql`${t.waiting}`)
+	]
+);
+
+/** Derived like job_step_state: a job's newest live entry time. */
+export const jobLogState = pgTable(
+	'job_log_state',
+	{
+		shopId: shopRef(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		lastEntryAt: timestamp('last_entry_at', { withTimezone: true })
+	},
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.jobId] }),
+		index('job_log_state_last_entry_idx').on(t.shopId, t.lastEntryAt)
+	]
 );
 
 /** Photos: on an entry, or taken at intake. Files live behind the storage interface. */

@@ -1,8 +1,7 @@
 import { requireRole } from '$lib/server/auth';
-import { jobPage } from '$lib/jobs/table';
 import { jobTableQuerySchema } from '$lib/schemas/job';
 import { listBays, listTechnicians } from '$lib/server/job-cards';
-import { listJobs } from '$lib/server/jobs';
+import { searchJobs } from '$lib/server/job-search';
 import { vehiclesDueWithin } from '$lib/server/vehicles';
 import type { PageServerLoad } from './$types';
 
@@ -12,14 +11,14 @@ export const load: PageServerLoad = async ({ url }) => {
 	const query = jobTableQuerySchema.parse(Object.fromEntries(url.searchParams));
 	// ?due=30: the vehicles with service due within 30 days (or overdue), above the job cards.
 	const showDue = url.searchParams.get('due') === '30';
-	const [jobs, technicians, bays, due] = await Promise.all([
-		listJobs(user.shopId),
+	const [page, technicians, bays, due] = await Promise.all([
+		searchJobs(user.shopId, query),
 		listTechnicians(user.shopId),
 		listBays(user.shopId),
 		showDue ? vehiclesDueWithin(user.shopId, 30) : null
 	]);
 	return {
-		page: jobPage(jobs, query),
+		page,
 		query,
 		technicians,
 		bays,

@@ -1,0 +1,45 @@
+import { describe, expect, it } from 'vitest';
+import { DEFAULT_DAYS, driftWindow, MAX_DAYS } from './drift-window';
+
+const now = new Date('2026-12-04T06:00:00Z');
+
+describe('drift window', () => {
+	it('defaults to the last 90 days up to now', () => {
+		const w = driftWindow({}, now);
+		expect(w).toMatchObject({ ok: true, days: DEFAULT_DAYS, custom: false, to: now });
+		if (w.ok) expect(w.from.toISOString()).toBe('2026-09-05T06:00:00.000Z');
+	});
+
+	it('takes whole UTC days, both included', () => {
+		const w = driftWindow({ from: '2026-11-01', to: '2026-11-30' }, now);
+		expect(w).toMatchObject({ ok: true, days: 30, custom: true });
+		if (w.ok) {
+			expect(w.from.toISOString()).toBe('2026-11-01T00:00:00.000Z');
+			expect(w.to.toISOString()).toBe('2026-12-01T00:00:00.000Z');
+		}
+		expect(driftWindow({ from: '2026-11-30', to: '2026-11-30' }, now)).toMatchObject({ days: 1 });
+	});
+
+	it('answers a reversed, malformed or enormous window with words', () => {
+		const reversed = driftWindow({ from: '2026-11-30', to: '2026-11-01' }, now);
+		expect(reversed).toEqual({
+			ok: false,
+			message: 'The window ends (2026-11-01) before it starts (2026-11-30): swap the dates.'
+		});
+		expect(driftWindow({ from: '2026-02-30' }, now)).toMatchObject({ ok: false });
+		expect(driftWindow({ to: 'yesterday' }, now)).toMatchObject({ ok: false });
+		const huge = driftWindow({ from: '1900-01-01', to: '2026-12-04' }, now);
+		expect(huge.ok).toBe(false);
+		if (!huge.ok) expect(huge.message).toContain(`at most ${MAX_DAYS} days`);
+		expect(driftWindow({ from: '2024-12-04', to: '2026-12-04' }, now)).toMatchObject({
+			ok: true,
+			days: MAX_DAYS
+		});
+	});
+
+	it('a start alone runs to now; an end alone starts 90 days before it', () => {
+		expect(driftWindow({ from: '2026-12-01' }, now)).toMatchObject({ ok: true, days: 4, to: now });
+		const w = driftWindow({ to: '2026-06-30' }, now);
+		expect(w).toMatchObject({ ok: true, days: DEFAULT_DAYS });
+	});
+});
