@@ -176,7 +176,12 @@ export interface QueueItem {
 	rawText: string;
 	specValue: number | null;
 	specUnit: string | null;
-	verdict: 'low' | 'high';
+	/** The quantity's verdict: under or over, or in spec when only the grade fails. */
+	verdict: Verdict;
+	/** Why it waits: the value is under or over, or the fluid grade fails the step's spec. */
+	reason: 'value' | 'grade';
+	/** The fluid grade as called out, when the entry has one. */
+	fluid: string | null;
 	min: number | null;
 	max: number | null;
 	nominal: number | null;
@@ -184,7 +189,8 @@ export interface QueueItem {
 }
 
 /**
- * Steps whose latest measurement (not retracted) is under or over and has no answer yet (an
+ * Steps whose latest measurement (not retracted) is under or over, or whose fluid grade fails the
+ * step's spec, and has no answer yet (an
  * accept or a redo responding to it). A new in-spec measurement of the step leaves the queue
  * empty for it; a new out-of-spec one is a new item.
  */
@@ -200,12 +206,12 @@ function openOutOfSpecSql(shopId: string, jobId?: string) {
 		)
 		select e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.job_step_id,
 			st.label as step_label, u.name as author_name, e.raw_text, e.spec_value, e.spec_unit,
-			e.verdict, st.min, st.max, st.nominal, e.occurred_at
+			e.verdict, e.fluid, e.fluid_verdict, st.min, st.max, st.nominal, e.occurred_at
 		from latest e
 		join job j on j.id = e.job_id
 		join job_step st on st.id = e.job_step_id
 		join "user" u on u.id = e.author_id
-		where e.verdict in ('low', 'high')
+		where (e.verdict in ('low', 'high') or e.fluid_verdict = 'fails')
 		  and j.state::text in (${sql.join(
 				openStates.map((st) => sql`${st}`),
 				sql`, `
@@ -232,7 +238,9 @@ export async function listOutOfSpec(shopId: string, jobId?: string): Promise<Que
 		rawText: r.raw_text as string,
 		specValue: r.spec_value === null ? null : Number(r.spec_value),
 		specUnit: (r.spec_unit as string | null) ?? null,
-		verdict: r.verdict as 'low' | 'high',
+		verdict: r.verdict as Verdict,
+		reason: r.verdict === 'low' || r.verdict === 'high' ? 'value' : 'grade',
+		fluid: (r.fluid as string | null) ?? null,
 		min: r.min === null ? null : Number(r.min),
 		max: r.max === null ? null : Number(r.max),
 		nominal: r.nominal === null ? null : Number(r.nominal),
