@@ -5,6 +5,7 @@ import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import { appendEntry, listSteps, type AppendResult } from './entries';
 import { listOutOfSpec } from './floor';
+import { workReport } from './work-report';
 
 // Invented demo step; the spec is written the way manuals write one (common practice).
 async function oilJob(name: string) {
@@ -59,6 +60,17 @@ describe('fluid grades at the append', () => {
 		const right = entryOf(await f.post('oil 1.1 l 10w-30 api sn jaso ma2'));
 		expect(right.fluidVerdict).toBe('meets');
 		expect(await listOutOfSpec(f.shop.id, f.job.id)).toEqual([]);
+
+		// the work report (and its PDF, which prints the same lines) shows the spec and each grade
+		const report = await workReport(f.shop.id, f.job.id);
+		const step = report.procedures
+			.flatMap((p) => p.steps)
+			.find((st) => st.label === 'Engine oil fill');
+		expect(step?.spec).toContain('SAE 10W-30, API SJ or higher, JASO MA');
+		expect(step?.entries.map((e) => e.value)).toEqual([
+			'1.1 L · SAE 10W-40 · JASO MB (wrong grade)',
+			'1.1 L · SAE 10W-30 · API SN · JASO MA2 (grade meets spec)'
+		]);
 	});
 
 	it('logs a fill without a grade as grade not stated, and a quantity-only step as before', async () => {
