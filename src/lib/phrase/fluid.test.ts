@@ -12,7 +12,14 @@ const STEPS: StepSpec[] = [
 		max: 1.3,
 		fluid: 'SAE 10W-30, API SJ or higher, JASO MA'
 	},
-	{ id: 'oil2', label: 'Gearbox fill', unit: 'L', min: 0.8, max: 0.9, fluid: 'SAE 10W-40, JASO MA2' },
+	{
+		id: 'oil2',
+		label: 'Gearbox fill',
+		unit: 'L',
+		min: 0.8,
+		max: 0.9,
+		fluid: 'SAE 10W-40, JASO MA2'
+	},
 	{ id: 'brake', label: 'Front brake fluid', unit: 'mL', nominal: 100, fluid: 'DOT 4' },
 	{ id: 'silicone', label: 'Clutch fluid', unit: 'mL', nominal: 60, fluid: 'DOT 5' },
 	{ id: 'axle', label: 'Rear axle nut', unit: 'N.m', min: 80, max: 90 }
