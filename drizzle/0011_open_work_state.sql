@@ -81,7 +81,7 @@ BEGIN
 	INSERT INTO job_step_state (shop_id, job_step_id, job_id) VALUES (p_shop, p_step, v_job)
 		ON CONFLICT DO NOTHING;
 	PERFORM 1 FROM job_step_state WHERE shop_id = p_shop AND job_step_id = p_step FOR UPDATE;
-	SELECT e.id, e.seq, e.verdict INTO m FROM log_entry e
+	SELECT e.id, e.seq, e.verdict, e.fluid_verdict INTO m FROM log_entry e
 	WHERE e.job_step_id = p_step AND e.shop_id = p_shop AND e.kind = 'measure'
 		AND NOT EXISTS (SELECT 1 FROM log_entry r WHERE r.retracts = e.id)
 	ORDER BY e.seq DESC LIMIT 1;
@@ -94,7 +94,8 @@ BEGIN
 				WHERE d.job_step_id = p_step AND d.kind = 'redo' AND d.seq > l.seq
 					AND NOT EXISTS (SELECT 1 FROM log_entry r WHERE r.retracts = d.id))
 	) INTO v_done;
-	v_waiting := m.id IS NOT NULL AND m.verdict IN ('low', 'high') AND NOT EXISTS (
+	v_waiting := m.id IS NOT NULL
+		AND coalesce(m.verdict IN ('low', 'high') OR m.fluid_verdict = 'fails', false) AND NOT EXISTS (
 		SELECT 1 FROM log_entry a
 		WHERE a.responds_to = m.id AND a.kind IN ('accept', 'redo')
 			AND NOT EXISTS (SELECT 1 FROM log_entry r WHERE r.retracts = a.id));
@@ -160,12 +161,12 @@ BEGIN
 	INSERT INTO job_step_state (shop_id, job_step_id, job_id, done, latest_measure_id,
 		latest_measure_seq, latest_verdict, waiting)
 	WITH live AS (
-		SELECT e.id, e.seq, e.job_step_id, e.kind, e.verdict FROM log_entry e
+		SELECT e.id, e.seq, e.job_step_id, e.kind, e.verdict, e.fluid_verdict FROM log_entry e
 		WHERE e.shop_id = p_shop AND e.job_step_id IS NOT NULL AND e.kind <> 'retraction'
 			AND NOT EXISTS (SELECT 1 FROM log_entry r WHERE r.retracts = e.id)
 	),
 	latest AS (
-		SELECT DISTINCT ON (job_step_id) job_step_id, id, seq, verdict FROM live
+		SELECT DISTINCT ON (job_step_id) job_step_id, id, seq, verdict, fluid_verdict FROM live
 		WHERE kind = 'measure' ORDER BY job_step_id, seq DESC
 	),
 	work AS (
@@ -181,7 +182,7 @@ BEGIN
 	SELECT st.shop_id, st.id, st.job_id,
 		w.work_seq IS NOT NULL AND w.work_seq > coalesce(w.redo_seq, 0),
 		l.id, l.seq, l.verdict,
-		l.verdict IS NOT NULL AND l.verdict IN ('low', 'high') AND ans.id IS NULL
+		coalesce(l.verdict IN ('low', 'high') OR l.fluid_verdict = 'fails', false) AND ans.id IS NULL
 	FROM work w
 	JOIN job_step st ON st.id = w.job_step_id AND st.shop_id = p_shop
 	LEFT JOIN latest l ON l.job_step_id = w.job_step_id

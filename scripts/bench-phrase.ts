@@ -90,7 +90,17 @@ function vocabulary(n: number): StepSpec[] {
 	steps.push(
 		{ id: 'axle', label: 'Rear axle nut', unit: 'N.m', min: 80, max: 90 },
 		{ id: 'fork', label: 'Fork oil', aliases: ['fork fluid'], unit: 'mL', min: 115, max: 125 },
-		{ id: 'play', label: 'Brake pedal free play', unit: 'mm', min: 20, max: 30 }
+		{ id: 'play', label: 'Brake pedal free play', unit: 'mm', min: 20, max: 30 },
+		// demo fluid specs (issue 16)
+		{
+			id: 'sump',
+			label: 'Sump refill',
+			unit: 'L',
+			min: 1.1,
+			max: 1.3,
+			fluid: 'SAE 10W-40, JASO MA2'
+		},
+		{ id: 'reservoir', label: 'Front brake reservoir', unit: 'mL', nominal: 40, fluid: 'DOT 4' }
 	);
 	return steps;
 }
@@ -110,6 +120,8 @@ const PHRASES = [
 	'done test ride',
 	'cylinder two exhaust valve clearance zero point two',
 	'oil 1.1 L filled at 08:30',
+	'sump refill ten w forty jaso m a two 1.2 litres',
+	'front brake reservoir dot 5.1 40 ml',
 	'blorp snark wibble',
 	'x'.repeat(10_000)
 ];
@@ -126,7 +138,7 @@ const WARMUP = 300;
 const now = new Date('2026-12-02T09:00:00Z');
 
 for (const size of [500, 5000]) {
-	const steps = vocabulary(size - 3);
+	const steps = vocabulary(size - 5);
 	const t0 = performance.now();
 	const parser = createPhraseParser(steps);
 	const buildMs = performance.now() - t0;
@@ -154,7 +166,7 @@ for (const size of [500, 5000]) {
 			label.padEnd(56),
 			fmt(percentile(times, 50)).padStart(9),
 			fmt(p99).padStart(9),
-			`  ${result.intent} ${result.stepId ?? '-'} ${result.verdict ?? ''}`
+			`  ${result.intent} ${result.stepId ?? '-'} ${result.verdict ?? ''} ${result.fluidVerdict ?? ''}`
 		);
 	}
 	// cold: a fresh parser for each of a few phrases, so no word is cached yet

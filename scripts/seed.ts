@@ -43,6 +43,8 @@ type StepSeed = {
 	min?: number;
 	max?: number;
 	caution?: string;
+	/** Demo value: an invented fluid spec, written the way manuals write one. */
+	fluid?: string;
 	part?: string;
 	qty?: number;
 };
@@ -89,6 +91,7 @@ const procedures: {
 				nominal: 1.1,
 				min: 1.0,
 				max: 1.2,
+				fluid: 'SAE 10W-40, API SL or higher, JASO MA2', // demo value
 				part: 'OIL-1040',
 				qty: 1.1
 			},
@@ -261,6 +264,7 @@ const procedures: {
 				nominal: 1.3,
 				min: 1.25,
 				max: 1.35,
+				fluid: 'SAE 10W-40, API SJ or higher, JASO MA', // demo value
 				part: 'OIL-1040',
 				qty: 1.3
 			},
@@ -499,6 +503,7 @@ async function main() {
 						min: st.min ?? null,
 						max: st.max ?? null,
 						caution: st.caution ?? null,
+						fluid: st.fluid ?? null,
 						partId: partId(st.part),
 						partQuantity: st.qty ?? null
 					}))
@@ -683,6 +688,7 @@ async function main() {
 							min: st.min,
 							max: st.max,
 							caution: st.caution,
+							fluid: st.fluid,
 							partId: st.partId,
 							partQuantity: st.partQuantity
 						}))

@@ -2,7 +2,7 @@
  * Another step picked for a phrase (arrow keys in the call bar): the same value judged against
  * that step. Pure: the call bar's preview and the server's stored verdict use the same code.
  */
-import { judge, type ParsedPhrase, type StepSpec } from '../phrase/index';
+import { fluidJudgement, judge, type ParsedPhrase, type StepSpec } from '../phrase/index';
 
 /** Intents whose step the technician may pick from the candidates. */
 export const pickableIntents: readonly ParsedPhrase['intent'][] = [
@@ -18,12 +18,22 @@ export function withStep(
 	tolerancePct?: number
 ): ParsedPhrase {
 	if (!pickableIntents.includes(parsed.intent)) return parsed;
-	if (parsed.intent !== 'measure') return { ...parsed, stepId: step.id, problems: [] };
+	// the grade, judged again against the picked step's fluid spec
+	const fluid =
+		parsed.intent === 'measure' || parsed.intent === 'done'
+			? fluidJudgement(step, parsed.fluid)
+			: null;
+	const fluidVerdict = fluid?.verdict ?? null;
+	const fluidProblems = fluid?.problems ?? [];
+	if (parsed.intent !== 'measure') {
+		return { ...parsed, stepId: step.id, problems: fluidProblems, fluidVerdict };
+	}
 	if (!parsed.quantity) {
 		return {
 			...parsed,
 			stepId: step.id,
-			problems: [`No value heard for ${step.label}.`]
+			problems: [`No value heard for ${step.label}.`, ...fluidProblems],
+			fluidVerdict
 		};
 	}
 	// A unit that was assumed from the first match is the picked step's unit instead.
@@ -37,6 +47,7 @@ export function withStep(
 		specValue: judged.specValue,
 		verdict: judged.verdict,
 		band: judged.band,
-		problems: judged.problems
+		problems: [...judged.problems, ...fluidProblems],
+		fluidVerdict
 	};
 }

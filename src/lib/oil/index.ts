@@ -215,12 +215,6 @@ export function parseOilGrade(text: string): OilGrade {
 	return out;
 }
 
-/** True for a valid SAE J300 grade ('10W-30', '20W-50', 'SAE 40'); false for '25W-20'. */
-export function isJ300Grade(text: string): boolean {
-	const r = parseSaeGrade(text);
-	return r.grade !== null && r.problem === null;
-}
-
 /** Whether an oil's JASO class meets a required one: MA1 and MA2 both satisfy MA. */
 export function satisfiesJaso(required: string, oil: string): boolean {
 	const r = String(required).toUpperCase();
@@ -244,15 +238,4 @@ export function satisfiesApi(required: string, oil: string): boolean {
 			.replace(/\s*PLUS$/, '')
 	);
 	return r >= 0 && o >= 0 && o >= r;
-}
-
-/** Canonical text: 'SAE 10W-30, API SJ, JASO MA2'. */
-export function formatOilGrade(g: Pick<OilGrade, 'sae' | 'api' | 'jaso'>): string {
-	return [
-		g.sae ? `SAE ${g.sae.text}` : null,
-		g.api ? `API ${g.api}` : null,
-		g.jaso ? `JASO ${g.jaso}` : null
-	]
-		.filter(Boolean)
-		.join(', ');
 }

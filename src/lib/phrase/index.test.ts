@@ -497,7 +497,14 @@ describe('words for the screen and the read-back', () => {
 });
 
 describe('robustness', () => {
+	const FLUID_STEPS: StepSpec[] = [
+		{ id: 'oil', label: 'Engine oil', unit: 'L', min: 1, max: 1.2, fluid: 'SAE 10W-40, JASO MA2' },
+		{ id: 'brake', label: 'Brake fluid', unit: 'mL', nominal: 90, fluid: 'DOT 4' }
+	];
 	const isResult = (r: ParsedPhrase) => {
+		expect(
+			r.fluidVerdict === null || ['meets', 'fails', 'not_stated'].includes(r.fluidVerdict)
+		).toBe(true);
 		expect(['measure', 'part', 'note', 'next', 'spec', 'done', 'undo', 'unknown']).toContain(
 			r.intent
 		);
@@ -553,11 +560,30 @@ describe('robustness', () => {
 			'⁻¹',
 			'½',
 			'\u0000',
-			'𝟖𝟎'
+			'𝟖𝟎',
+			// fluid grades (issue 16)
+			'10w-30',
+			'15w-35',
+			'sae',
+			'w',
+			'ten',
+			'thirty',
+			'api',
+			's',
+			'sn',
+			'plus',
+			'jaso',
+			'ma',
+			'two',
+			'mb',
+			'dot',
+			'5.1',
+			'six'
 		);
 		fc.assert(
 			fc.property(fc.array(words, { maxLength: 30 }), (ws) => {
 				isResult(p(ws.join(' ')));
+				isResult(parsePhrase(ws.join(' '), { steps: FLUID_STEPS, timeZone: 'UTC' }));
 			}),
 			{ numRuns: 500 }
 		);

@@ -14,6 +14,7 @@ import {
 	unitInfo
 } from '../units/index';
 import { FILLER_WORDS, StepIndex, toMatchTokens, type ScoredStep } from './match';
+import { extractGrade, fluidJudgement } from './fluid';
 import { findNumbers, type NumberSpan } from './numbers';
 import { namesNumber, readPair } from './pairs';
 import { MAX_PHRASE_CHARS, normalizeText, tokenize } from './text';
@@ -21,6 +22,7 @@ import { defaultTimeZone, extractTime } from './time';
 
 export { wordsToNumber, findNumbers, readNumberAt } from './numbers';
 export { MAX_PHRASE_CHARS } from './text';
+export { fluidJudgement, stepFluidSpec } from './fluid';
 
 export interface StepSpec {
 	id: string;
@@ -31,6 +33,8 @@ export interface StepSpec {
 	min?: number;
 	max?: number;
 	done?: boolean;
+	/** The fluid spec as the manual writes it: "SAE 10W-30, API SJ or higher, JASO MA", "DOT 4". */
+	fluid?: string;
 }
 
 export interface PhraseContext {
@@ -44,6 +48,8 @@ export interface PhraseContext {
 
 export type Intent = 'measure' | 'part' | 'note' | 'next' | 'spec' | 'done' | 'undo' | 'unknown';
 export type Verdict = 'in' | 'low' | 'high' | 'no_spec';
+export type { FluidVerdict } from './fluid';
+import type { FluidVerdict } from './fluid';
 
 /** The limits a value was judged against, in the step's unit. */
 export interface SpecBand {
@@ -74,6 +80,13 @@ export interface ParsedPhrase {
 	unitAssumed: boolean;
 	/** The band behind the verdict, or null when there is no verdict or no spec. */
 	band: SpecBand | null;
+	/** The fluid grade as called out, normalised ("SAE 10W-30 · API SN · JASO MA2"), or null. */
+	fluid: string | null;
+	/**
+	 * The grade against the step's fluid spec: null when the step has none; 'not_stated' when
+	 * no grade was said; 'fails' when any stated part fails it; 'meets' when every one meets it.
+	 */
+	fluidVerdict: FluidVerdict | null;
 }
 
 export interface PhraseParser {
@@ -302,7 +315,9 @@ function empty(): ParsedPhrase {
 		note: null,
 		problems: [],
 		unitAssumed: false,
-		band: null
+		band: null,
+		fluid: null,
+		fluidVerdict: null
 	};
 }
 
@@ -365,7 +380,10 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 	const normalized = normalizeText(raw);
 	const time = extractTime(normalized, now, timeZone);
 	r.problems.push(...time.problems);
-	const tokens = tokenize(time.rest);
+	const said = extractGrade(tokenize(time.rest));
+	const tokens = said.rest;
+	r.fluid = said.text;
+	r.problems.push(...said.problems);
 	const joined = tokens.join(' ');
 
 	if (UNDO_PHRASES.has(joined)) {
@@ -436,6 +454,7 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 			return r;
 		}
 		pickStep(r, words, vocabulary, null, 'done');
+		judgeFluid(r, steps, said.problems.length);
 		return r;
 	}
 
@@ -459,7 +478,17 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		return r;
 	}
 	measure(r, body, value, vocabulary, ctx);
+	judgeFluid(r, steps, said.problems.length);
 	return r;
+}
+
+/** Sets fluidVerdict (and why it fails, its caution, or the prompt) for the matched step. */
+function judgeFluid(r: ParsedPhrase, steps: StepSpec[], saidProblems: number): void {
+	const step = r.stepId === null ? undefined : steps.find((s) => String(s.id) === r.stepId);
+	const j = step ? fluidJudgement(step, r.fluid) : null;
+	r.fluidVerdict = j ? j.verdict : null;
+	// an unknown grade's problem was said when it was read
+	if (j && saidProblems === 0) r.problems.push(...j.problems);
 }
 
 function exampleValue(step: StepSpec): string {

@@ -3,14 +3,16 @@ import { readSpecCsv, readUnit } from './csv';
 
 const header =
 	'procedure,applies_to,flat_rate_hours,step,aliases,unit,nominal,min,max,tolerance,caution,part_code,part_quantity';
+// the fluid column is optional: the first test has it, the rest read files without it
+const withFluid = header.replace('caution,', 'caution,fluid,');
 
 describe('spec table CSV', () => {
 	it('groups rows into procedures and turns a tolerance into min and max', () => {
 		const csv = [
-			header,
-			'Brake pads (demo),Demo scooters,0.8,Caliper bolts,caliper,N.m,30,,,3,,,',
-			'Brake pads (demo),,,Brake fluid level,,,,,,,,,',
-			'Coolant (demo),,0.5,Coolant fill,coolant,L,1.2,1.1,1.3,,Hot coolant scalds.,CL-1,1.2'
+			withFluid,
+			'Brake pads (demo),Demo scooters,0.8,Caliper bolts,caliper,N.m,30,,,3,,,,',
+			'Brake pads (demo),,,Brake fluid level,,,,,,,,DOT 4,,',
+			'Coolant (demo),,0.5,Coolant fill,coolant,L,1.2,1.1,1.3,,Hot coolant scalds.,,CL-1,1.2'
 		].join('\n');
 		const r = readSpecCsv(csv);
 		expect(r.ok).toBe(true);
@@ -27,6 +29,7 @@ describe('spec table CSV', () => {
 			aliases: ['caliper']
 		});
 		expect(r.procedures[1].steps[0].part).toEqual({ code: 'CL-1', quantity: 1.2 });
+		expect(r.procedures[0].steps[1].fluid).toBe('DOT 4');
 	});
 
 	it("lists every row's problems with row and column, and imports nothing", () => {

@@ -16,6 +16,7 @@ export const csvColumns = [
 	'max',
 	'tolerance',
 	'caution',
+	'fluid',
 	'part_code',
 	'part_quantity'
 ] as const;
@@ -147,6 +148,7 @@ export function readSpecCsv(text: string): CsvResult {
 			min,
 			max,
 			caution: get('caution') || null,
+			fluid: get('fluid') || null,
 			part: partCode ? { code: partCode, quantity: partQuantity ?? 0 } : null,
 			...(tolerance !== null ? { plusMinus: tolerance } : {})
 		};
@@ -202,6 +204,7 @@ export function readSpecCsv(text: string): CsvResult {
 			min: 'min',
 			max: 'max',
 			caution: 'caution',
+			fluid: 'fluid',
 			code: 'part_code',
 			quantity: 'part_quantity',
 			aliases: 'aliases',

@@ -35,8 +35,23 @@ describe('procedure file', () => {
 			min: null,
 			max: null,
 			caution: null,
+			fluid: null,
 			part: null
 		});
+	});
+
+	it('keeps a step fluid spec and names a spec that is not a grade (SAE J300, FMVSS 116)', () => {
+		const withFluid = structuredClone(good);
+		(withFluid.procedures[0].steps[1] as Record<string, unknown>).fluid = 'SAE 10W-40, JASO MA2';
+		const r = readProcedureFile(JSON.stringify(withFluid));
+		expect(r.ok && r.file.procedures[0].steps[1].fluid).toBe('SAE 10W-40, JASO MA2');
+		(withFluid.procedures[0].steps[1] as Record<string, unknown>).fluid = 'DOT 6';
+		const bad = readProcedureFile(JSON.stringify(withFluid));
+		expect(bad).toMatchObject({
+			ok: false,
+			problems: [{ where: 'procedures[0].steps[1].fluid' }]
+		});
+		expect(!bad.ok && bad.problems[0].message).toContain('DOT 6 is not a brake fluid class');
 	});
 
 	it('says where each problem is', () => {
@@ -70,6 +85,7 @@ describe('procedure file', () => {
 		const schema = procedureFileJsonSchema() as Record<string, unknown>;
 		expect(schema.title).toBe('Benchcall procedure file');
 		expect(JSON.stringify(schema)).toContain('"flatRateHours"');
+		expect(JSON.stringify(schema)).toContain('"fluid"');
 		expect((schema.required as string[]).sort()).toEqual(['format', 'procedures', 'version']);
 	});
 });

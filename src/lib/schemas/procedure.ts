@@ -3,6 +3,7 @@
 import { z } from 'zod';
 import { toStoredSpec } from '$lib/procedures/spec';
 import { isKnownUnit } from '$lib/units';
+import { parseFluidSpec } from '$lib/oil/fluid';
 
 export const PROCEDURE_FILE_FORMAT = 'benchcall.procedures';
 export const PROCEDURE_FILE_VERSION = 1;
@@ -25,6 +26,12 @@ const unitCode = z
 			`Benchcall does not know the unit '${String(issue.input)}': use a UCUM code such as N.m, L or mm.`
 	});
 
+/** A fluid spec as the manual writes it: "SAE 10W-30, API SJ or higher, JASO MA", "DOT 4". */
+const fluidSpec = text(300, 'The fluid spec').superRefine((v, ctx) => {
+	const problem = parseFluidSpec(v)?.problems[0];
+	if (problem) ctx.addIssue({ code: 'custom', message: problem });
+});
+
 /** One step of a procedure in the file. Values are in `unit`. */
 export const procedureFileStep = z
 	.object({
@@ -35,6 +42,14 @@ export const procedureFileStep = z
 		min: num('Min').nullable().default(null),
 		max: num('Max').nullable().default(null),
 		caution: text(2000, 'The caution').nullable().default(null),
+		fluid: fluidSpec
+			.nullable()
+			.default(null)
+			.transform((v) => v || null)
+			.meta({
+				description:
+					'The fluid spec as the manual writes it (SAE J300 grade, API category, JASO class; or the DOT class of brake fluid).'
+			}),
 		part: z
 			.object({
 				code: text(60, 'The part code').min(1, 'A part needs its price-list code.'),
@@ -192,6 +207,7 @@ export const stepFormSchema = z
 		max: optionalNumber('Max'),
 		plusMinus: optionalNumber('The ± tolerance'),
 		caution: text(2000, 'The caution').default(''),
+		fluid: fluidSpec.default(''),
 		partId: z.union([z.uuid('Pick a part from the price list.'), z.literal('')]).default(''),
 		partQuantity: optionalNumber('The quantity')
 	})

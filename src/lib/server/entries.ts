@@ -6,7 +6,13 @@ import type { Role } from '$lib/auth/roles';
 import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
 import { stateLabels, type JobState } from '$lib/jobs/states';
-import { parsePhrase, type ParsedPhrase, type StepSpec, type Verdict } from '$lib/phrase';
+import {
+	parsePhrase,
+	type FluidVerdict,
+	type ParsedPhrase,
+	type StepSpec,
+	type Verdict
+} from '$lib/phrase';
 import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
@@ -55,6 +61,8 @@ export interface StepDefinition {
 	min: number | null;
 	max: number | null;
 	caution: string | null;
+	/** The fluid spec as the manual writes it, or null. */
+	fluid: string | null;
 }
 
 export interface BenchStep extends StepDefinition {
@@ -82,6 +90,9 @@ export interface EntryView {
 	specMax: number | null;
 	specNominal: number | null;
 	verdict: Verdict | null;
+	/** The grade as called out, normalised, and its verdict against the step's fluid spec. */
+	fluid: string | null;
+	fluidVerdict: FluidVerdict | null;
 	note: string | null;
 	torqueToolId: string | null;
 	torqueTool: string | null;
@@ -175,7 +186,7 @@ export async function listSteps(shopId: string, jobId: string): Promise<BenchSte
 			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
 		)
 		select st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min, st.max, st.caution,
-			jp.id as procedure_id, jp.name as procedure_name,
+			st.fluid, jp.id as procedure_id, jp.name as procedure_name,
 			exists (select 1 from live where live.job_step_id = st.id) as done,
 			(select live.verdict from live where live.job_step_id = st.id and live.kind = 'measure'
 				order by live.seq desc limit 1) as last_verdict
@@ -203,7 +214,8 @@ function toStepDefinition(r: Record<string, unknown>): StepDefinition {
 		nominal: r.nominal as number | null,
 		min: r.min as number | null,
 		max: r.max as number | null,
-		caution: r.caution as string | null
+		caution: r.caution as string | null,
+		fluid: (r.fluid as string | null) ?? null
 	};
 }
 
@@ -217,6 +229,7 @@ export function toStepSpecs(steps: (StepDefinition & { done?: boolean })[]): Ste
 		nominal: st.nominal ?? undefined,
 		min: st.min ?? undefined,
 		max: st.max ?? undefined,
+		fluid: st.fluid ?? undefined,
 		done: st.done ?? false
 	}));
 }
@@ -244,7 +257,7 @@ const stepSets = new Map<string, { version: number; set: Promise<StepSet> }>();
 async function readStepSet(shopId: string, jobId: string): Promise<StepSet> {
 	const rows = await db.execute(sql`
 		select j.steps_version, st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min,
-			st.max, st.caution, jp.id as procedure_id, jp.name as procedure_name
+			st.max, st.caution, st.fluid, jp.id as procedure_id, jp.name as procedure_name
 		from job j
 		left join (job_step st join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id)
 			on st.job_id = j.id and st.shop_id = j.shop_id
@@ -357,6 +370,8 @@ function toEntry(r: Record<string, unknown>): EntryView {
 		specMax: r.spec_max as number | null,
 		specNominal: r.spec_nominal as number | null,
 		verdict: r.verdict as Verdict | null,
+		fluid: (r.fluid as string | null) ?? null,
+		fluidVerdict: (r.fluid_verdict as FluidVerdict | null) ?? null,
 		note: r.note as string | null,
 		torqueToolId: r.torque_tool_id as string | null,
 		torqueTool: r.torque_tool as string | null,
@@ -608,7 +623,8 @@ async function writeBatch(batch: Waiting[]) {
 				select * from json_to_recordset(${JSON.stringify(batch.map((w) => w.row))}::json) as r(
 					"id" uuid, "shopId" uuid, "jobId" uuid, "jobStepId" uuid, "authorId" uuid,
 					"kind" entry_kind, "rawText" text, "source" entry_source, "value" float8, "unit" text,
-					"specValue" float8, "specUnit" text, "verdict" verdict, "note" text,
+					"specValue" float8, "specUnit" text, "verdict" verdict, "fluid" text,
+					"fluidVerdict" text, "note" text,
 					"torqueToolId" uuid, "overdue" boolean, "occurredAt" timestamptz,
 					"stepsVersion" integer, "pct" float8, "anyJob" boolean)
 			), ok as (
@@ -620,11 +636,11 @@ async function writeBatch(batch: Waiting[]) {
 				join shop sh on sh.id = j.shop_id and sh.default_tolerance_pct = r.pct
 			), e as (
 				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
-					value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
+					value, unit, spec_value, spec_unit, verdict, fluid, fluid_verdict, note, torque_tool_id,
 					tool_calibration_overdue, occurred_at)
 				select "id", "shopId", "jobId", "jobStepId", "authorId", "kind", "rawText", "source",
-					"value", "unit", "specValue", "specUnit", "verdict", "note", "torqueToolId", "overdue",
-					"occurredAt"
+					"value", "unit", "specValue", "specUnit", "verdict", "fluid", "fluidVerdict", "note",
+					"torqueToolId", "overdue", "occurredAt"
 				from ok
 				-- Each entry locks its job's chain head (drizzle/0010): one order for all batches.
 				order by "jobId"
@@ -676,6 +692,8 @@ interface NewEntry {
 	specValue: number | null;
 	specUnit: string | null;
 	verdict: Verdict | null;
+	fluid: string | null;
+	fluidVerdict: FluidVerdict | null;
 	note: string | null;
 	torqueToolId: string | null;
 	overdue: boolean;
@@ -711,6 +729,8 @@ function newEntry(
 		specValue: measured ? (parsed.specValue?.value ?? null) : null,
 		specUnit: measured ? (parsed.specValue?.unit ?? null) : null,
 		verdict: measured ? parsed.verdict : null,
+		fluid: measured || parsed.intent === 'done' ? parsed.fluid : null,
+		fluidVerdict: measured || parsed.intent === 'done' ? parsed.fluidVerdict : null,
 		note: parsed.note,
 		torqueToolId: tool?.id ?? null,
 		overdue: tool?.overdue ?? false,
@@ -725,7 +745,7 @@ const readBack = client`
 	select e.id, e.seq, e.job_id, e.job_step_id, st.label as step_label, e.author_id,
 		a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value,
 		e.spec_unit, st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal, e.verdict,
-		e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
+		e.fluid, e.fluid_verdict, e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
 		e.retracts, e.occurred_at, e.recorded_at, null as retracted_by_id,
 		null as retracted_by_name, null as retracted_at, '[]'::json as photos`;
 const readBackFrom = client`
@@ -795,11 +815,12 @@ async function appendChecked(
 	const [row] = await client`
 		with e as (
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
-				value, unit, spec_value, spec_unit, verdict, note, torque_tool_id,
+				value, unit, spec_value, spec_unit, verdict, fluid, fluid_verdict, note, torque_tool_id,
 				tool_calibration_overdue, occurred_at)
 			values (${entry.id}, ${entry.shopId}, ${entry.jobId}, ${entry.jobStepId}, ${entry.authorId},
 				${entry.kind}, ${entry.rawText}, ${entry.source}, ${entry.value}, ${entry.unit},
-				${entry.specValue}, ${entry.specUnit}, ${entry.verdict}, ${entry.note},
+				${entry.specValue}, ${entry.specUnit}, ${entry.verdict}, ${entry.fluid},
+				${entry.fluidVerdict}, ${entry.note},
 				${entry.torqueToolId}, ${entry.overdue}, ${entry.occurredAt})
 			on conflict (id) do nothing
 			returning *

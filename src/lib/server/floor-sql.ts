@@ -60,7 +60,8 @@ export const openStates: JobState[] = [
 ];
 
 /**
- * Steps whose latest measurement (not retracted) is under or over and has no answer yet (an
+ * Steps whose latest measurement (not retracted) is under or over, or whose fluid grade fails the
+ * step's spec, and has no answer yet (an
  * accept or a redo responding to it), on jobs still open. A new in-spec measurement of the step
  * leaves the queue empty for it; a new out-of-spec one is a new item. Read from job_step_state
  * (kept at each append, drizzle/0011) starting from the shop's open jobs, so the cost follows
@@ -73,7 +74,7 @@ export function openOutOfSpecSql(
 	return sql`
 		select e.id, e.seq, e.job_id, j.number as job_number, j.bay, e.job_step_id,
 			st.label as step_label, u.name as author_name, e.raw_text, e.spec_value, e.spec_unit,
-			e.verdict, st.min, st.max, st.nominal, e.occurred_at
+			e.verdict, e.fluid, e.fluid_verdict, st.min, st.max, st.nominal, e.occurred_at
 		from job j
 		join job_step_state ss on ss.job_id = j.id and ss.shop_id = j.shop_id and ss.waiting
 		join log_entry e on e.id = ss.latest_measure_id

@@ -173,7 +173,12 @@ export interface QueueItem {
 	rawText: string;
 	specValue: number | null;
 	specUnit: string | null;
-	verdict: 'low' | 'high';
+	/** The quantity's verdict: under or over, or in spec when only the grade fails. */
+	verdict: Verdict;
+	/** Why it waits: the value is under or over, or the fluid grade fails the step's spec. */
+	reason: 'value' | 'grade';
+	/** The fluid grade as called out, when the entry has one. */
+	fluid: string | null;
 	min: number | null;
 	max: number | null;
 	nominal: number | null;
@@ -202,7 +207,9 @@ export async function listOutOfSpec(
 		rawText: r.raw_text as string,
 		specValue: r.spec_value === null ? null : Number(r.spec_value),
 		specUnit: (r.spec_unit as string | null) ?? null,
-		verdict: r.verdict as 'low' | 'high',
+		verdict: r.verdict as Verdict,
+		reason: r.verdict === 'low' || r.verdict === 'high' ? 'value' : 'grade',
+		fluid: (r.fluid as string | null) ?? null,
 		min: r.min === null ? null : Number(r.min),
 		max: r.max === null ? null : Number(r.max),
 		nominal: r.nominal === null ? null : Number(r.nominal),

@@ -67,6 +67,7 @@ export async function getProcedure(shopId: string, id: string) {
 			min: procedureStep.min,
 			max: procedureStep.max,
 			caution: procedureStep.caution,
+			fluid: procedureStep.fluid,
 			partId: procedureStep.partId,
 			partQuantity: procedureStep.partQuantity,
 			partCode: part.code,
@@ -211,6 +212,7 @@ export async function saveStep(
 			min: spec.min,
 			max: spec.max,
 			caution: input.caution || null,
+			fluid: input.fluid || null,
 			partId: input.partId || null,
 			partQuantity: input.partId ? input.partQuantity : null
 		};
@@ -343,6 +345,7 @@ export async function importProcedures(
 						min: s.min,
 						max: s.max,
 						caution: s.caution,
+						fluid: s.fluid,
 						partId: s.part ? byCode.get(s.part.code)! : null,
 						partQuantity: s.part?.quantity ?? null
 					}))
@@ -400,6 +403,7 @@ export async function exportProcedures(shopId: string, ids?: string[]): Promise<
 					min: s.min,
 					max: s.max,
 					caution: s.caution,
+					fluid: s.fluid,
 					part: code && s.partQuantity ? { code, quantity: s.partQuantity } : null
 				}))
 		}))

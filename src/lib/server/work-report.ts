@@ -18,6 +18,23 @@ export interface ReportEntry {
 	note: string | null;
 }
 
+const gradeWords: Record<string, string> = {
+	meets: 'grade meets spec',
+	fails: 'wrong grade',
+	not_stated: 'grade not stated'
+};
+
+/** The logged value with the fluid grade and its verdict: "1.1 L · SAE 10W-40 · JASO MA2 (grade meets spec)". */
+function withGrade(
+	value: string | null,
+	fluid: string | null,
+	verdict: string | null
+): string | null {
+	if (!verdict) return value;
+	const grade = `${fluid ?? ''} (${gradeWords[verdict] ?? verdict})`.trim();
+	return value ? `${value} · ${grade}` : grade;
+}
+
 export interface ReportStep {
 	label: string;
 	spec: string;
@@ -78,13 +95,16 @@ export async function workReport(shopId: string, jobId: string): Promise<WorkRep
 			kind: e.kind,
 			what,
 			// As called out, and in the spec's unit when that differs (1.1 qt = 1.04 L).
-			value:
+			value: withGrade(
 				e.value !== null && e.unit
 					? formatQuantity(e.value, e.unit) +
-						(e.specValue !== null && e.specUnit && e.specUnit !== e.unit
-							? ` = ${formatQuantity(e.specValue, e.specUnit)}`
-							: '')
+							(e.specValue !== null && e.specUnit && e.specUnit !== e.unit
+								? ` = ${formatQuantity(e.specValue, e.specUnit)}`
+								: '')
 					: null,
+				e.fluid,
+				e.fluidVerdict
+			),
 			verdict: e.verdict ? verdictWords[e.verdict] : null,
 			by: r.author ?? 'unknown',
 			at: e.occurredAt,
@@ -104,7 +124,11 @@ export async function workReport(shopId: string, jobId: string): Promise<WorkRep
 			name: p.name,
 			steps: steps
 				.filter((s) => s.jobProcedureId === p.id)
-				.map((s) => ({ label: s.label, spec: specText(s), entries: onStep.get(s.id) ?? [] }))
+				.map((s) => ({
+					label: s.label,
+					spec: specText(s) + (s.fluid ? ` · ${s.fluid}` : ''),
+					entries: onStep.get(s.id) ?? []
+				}))
 		})),
 		general,
 		signedOffBy: j?.signedOffBy ?? null,

@@ -34,6 +34,7 @@ async function shopWithProcedure() {
 					min: 22,
 					max: 26,
 					caution: null,
+					fluid: null,
 					part: { code: 'DPW-12', quantity: 1 }
 				},
 				{
@@ -44,6 +45,7 @@ async function shopWithProcedure() {
 					min: null,
 					max: null,
 					caution: null,
+					fluid: null,
 					part: null
 				}
 			]
@@ -93,6 +95,7 @@ describe('job cards', () => {
 			max: null,
 			plusMinus: 1,
 			caution: 'new caution',
+			fluid: '',
 			partId: '',
 			partQuantity: null
 		});
@@ -164,6 +167,7 @@ describe('job cards', () => {
 						min: null,
 						max: null,
 						caution: null,
+						fluid: null,
 						part: { code: 'NOPE', quantity: 1 }
 					}
 				]

@@ -210,6 +210,8 @@ const specColumns = () => ({
 	min: doublePrecision('min'),
 	max: doublePrecision('max'),
 	caution: text('caution'),
+	/** The fluid spec as the manual writes it ("SAE 10W-30, API SJ or higher, JASO MA", "DOT 4"). */
+	fluid: text('fluid'),
 	partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
 	partQuantity: doublePrecision('part_quantity')
 });
@@ -389,6 +391,10 @@ export const logEntry = pgTable(
 		specValue: doublePrecision('spec_value'),
 		specUnit: text('spec_unit'),
 		verdict: verdictEnum('verdict'),
+		/** The fluid grade as called out, normalised ("SAE 10W-30 · API SN · JASO MA2"). */
+		fluid: text('fluid'),
+		/** The grade against the step's fluid spec: 'meets', 'fails', 'not_stated'; null: no spec. */
+		fluidVerdict: text('fluid_verdict'),
 		note: text('note'),
 		partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
 		partQuantity: doublePrecision('part_quantity'),

@@ -3,7 +3,16 @@ import type { ProcedureStep } from './schema';
 /** The spec columns a library step shares with its copies (a duplicate, or a job's step). */
 export type SpecFields = Pick<
 	ProcedureStep,
-	'label' | 'aliases' | 'unit' | 'nominal' | 'min' | 'max' | 'caution' | 'partId' | 'partQuantity'
+	| 'label'
+	| 'aliases'
+	| 'unit'
+	| 'nominal'
+	| 'min'
+	| 'max'
+	| 'caution'
+	| 'fluid'
+	| 'partId'
+	| 'partQuantity'
 >;
 
 /** Just the spec of a step, to copy onto another row. */
@@ -16,6 +25,7 @@ export function specFields(s: SpecFields): SpecFields {
 		min: s.min,
 		max: s.max,
 		caution: s.caution,
+		fluid: s.fluid,
 		partId: s.partId,
 		partQuantity: s.partQuantity
 	};
