@@ -403,6 +403,7 @@ async function main() {
 		return;
 	}
 	const passwordHash = await hashPassword(demoPassword);
+	const serverTimeZone = Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC';
 
 	await db.transaction(async (tx) => {
 		const [shop] = await tx
@@ -412,7 +413,9 @@ async function main() {
 				currency: 'EUR',
 				labourRateMinor: 7200,
 				taxRateBp: 2000,
-				bays: ['Bay 1', 'Bay 2', 'Bay 3', 'Bay 4']
+				bays: ['Bay 1', 'Bay 2', 'Bay 3', 'Bay 4'],
+				// the shop keeps the server's clock; the owner changes it under Shop settings
+				timeZone: serverTimeZone
 			})
 			.returning();
 
@@ -974,7 +977,8 @@ async function main() {
 			currency: 'EUR',
 			labourRateMinor: 6500,
 			taxRateBp: 2000,
-			bays: ['Bay A']
+			bays: ['Bay A'],
+			timeZone: serverTimeZone
 		})
 		.returning();
 	await db
