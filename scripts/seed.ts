@@ -415,6 +415,7 @@ async function main() {
 		return;
 	}
 	const passwordHash = await hashPassword(demoPassword);
+	const serverTimeZone = Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC';
 
 	await db.transaction(async (tx) => {
 		const [shop] = await tx
@@ -424,7 +425,9 @@ async function main() {
 				currency: 'EUR',
 				labourRateMinor: 7200,
 				taxRateBp: 2000,
-				bays: ['Bay 1', 'Bay 2', 'Bay 3', 'Bay 4']
+				bays: ['Bay 1', 'Bay 2', 'Bay 3', 'Bay 4'],
+				// the shop keeps the server's clock; the owner changes it under Shop settings
+				timeZone: serverTimeZone
 			})
 			.returning();
 
@@ -995,7 +998,8 @@ async function main() {
 			currency: 'EUR',
 			labourRateMinor: 6500,
 			taxRateBp: 2000,
-			bays: ['Bay A']
+			bays: ['Bay A'],
+			timeZone: serverTimeZone
 		})
 		.returning();
 	await db

@@ -1,6 +1,7 @@
 // Forms of the Shop settings: rates and policies, the price list, torque tools.
 import { z } from 'zod';
 import { inWindow, outOfWindow } from './dates';
+import { canonicalLocale, canonicalTimeZone } from '$lib/format';
 import { isKnownCurrency } from '$lib/money';
 import { isKnownUnit, dimensionOf } from '$lib/units';
 
@@ -36,6 +37,25 @@ export const settingsSchema = z.object({
 	defaultTolerancePct: num('the default tolerance', 0.1, 50),
 	idleGapMinutes: num('the idle gap', 1, 480).pipe(z.number().int('Whole minutes.')),
 	calibrationMonths: num('the calibration interval', 1, 120).pipe(z.number().int('Whole months.')),
+	locale: z
+		.string()
+		.trim()
+		.transform((v, ctx) => {
+			const c = canonicalLocale(v);
+			if (!c)
+				ctx.addIssue({ code: 'custom', message: 'Use a language tag such as en-GB or de-DE.' });
+			return c ?? v;
+		})
+		.optional(),
+	timeZone: z
+		.string()
+		.trim()
+		.transform((v, ctx) => {
+			const c = canonicalTimeZone(v);
+			if (!c) ctx.addIssue({ code: 'custom', message: 'Use a time zone such as Europe/London.' });
+			return c ?? v;
+		})
+		.optional(),
 	bays: z
 		.string()
 		.default('')

@@ -14,6 +14,9 @@ export async function updateSettings(
 		idleGapMinutes: number;
 		calibrationMonths: number;
 		bays: string[];
+		/** left as it is when not given */
+		locale?: string;
+		timeZone?: string;
 	}
 ) {
 	await db.update(shop).set(input).where(eq(shop.id, shopId));

@@ -9,6 +9,8 @@ export const load: LayoutServerLoad = async () => {
 	return {
 		user,
 		shop: { name: shop?.name ?? '' },
+		/** read by currentFormat() ($lib/format/page.svelte) on every page of the app */
+		shopStyle: { locale: shop?.locale ?? 'en-GB', timeZone: shop?.timeZone ?? 'UTC' },
 		nav: navFor(user.role).map(({ href, label }) => ({ href, label }))
 	};
 };

@@ -46,6 +46,10 @@ export const shop = pgTable('shop', {
 		.array()
 		.notNull()
 		.default(sql`'{}'::text[]`),
+	/** BCP 47 tag: how every date, time and number is written on screen, in PDFs and CSVs. */
+	locale: text('locale').notNull().default('en-GB'),
+	/** IANA zone: the shop's clock for dates shown and for phrases such as "at 10:30". */
+	timeZone: text('time_zone').notNull().default('UTC'),
 	createdAt: createdAt()
 });
 export type Shop = typeof shop.$inferSelect;

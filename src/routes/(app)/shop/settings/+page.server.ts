@@ -68,7 +68,9 @@ export const actions = {
 			defaultTolerancePct: parsed.data.defaultTolerancePct,
 			idleGapMinutes: parsed.data.idleGapMinutes,
 			calibrationMonths: parsed.data.calibrationMonths,
-			bays: parsed.data.bays
+			bays: parsed.data.bays,
+			locale: parsed.data.locale,
+			timeZone: parsed.data.timeZone
 		});
 		return { action: 'settings', done: 'Settings saved.' };
 	},

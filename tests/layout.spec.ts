@@ -1,0 +1,55 @@
+import { expect, test, type Page } from '@playwright/test';
+import { demo, signIn } from './helpers/auth';
+import { layoutProblems } from './helpers/geometry';
+
+// The devices a workshop mounts at the bench or carries: tablets both ways round, a phone,
+// the office desktop.
+const sizes = [
+	{ width: 1024, height: 768 },
+	{ width: 768, height: 1024 },
+	{ width: 390, height: 844 },
+	{ width: 1440, height: 900 }
+];
+
+async function shoot(page: Page, name: string) {
+	const { width, height } = page.viewportSize()!;
+	await page.screenshot({
+		path: `test-results/layout/${name}-${width}x${height}.png`
+	});
+}
+
+for (const size of sizes) {
+	test(`Bench, Floor, Jobs and a job card fit ${size.width}×${size.height}`, async ({ page }) => {
+		// four pages measured element by element on a shared 2-core machine
+		test.setTimeout(180_000);
+		await page.setViewportSize(size);
+		await signIn(page, demo.owner);
+
+		// the phrase that broke the preview on tablets and phones
+		await page.goto('/bench?job=1043');
+		const bar = page.getByRole('combobox', { name: 'Call bar' });
+		await bar.fill('rear sprocket nuts 30 lbf ft');
+		const top = page.getByTestId('candidate').first();
+		await expect(top.getByTestId('preview-value')).toBeVisible();
+		expect(await page.getByTestId('candidate').count()).toBeGreaterThan(1);
+		// readable at arm's length: the value's font is at least 24 px
+		const px = await top
+			.getByTestId('preview-value')
+			.evaluate((el) => parseFloat(getComputedStyle(el).fontSize));
+		expect(px).toBeGreaterThanOrEqual(24);
+		await shoot(page, 'bench');
+		expect(await layoutProblems(page, page.getByTestId('call-bar'))).toEqual([]);
+		expect(await layoutProblems(page)).toEqual([]);
+
+		for (const [path, name] of [
+			['/floor', 'floor'],
+			['/jobs', 'jobs'],
+			['/jobs/1043', 'job-card']
+		] as const) {
+			await page.goto(path);
+			await expect(page.locator('main h1').first()).toBeVisible();
+			await shoot(page, name);
+			expect(await layoutProblems(page), `${name} at ${size.width}×${size.height}`).toEqual([]);
+		}
+	});
+}
