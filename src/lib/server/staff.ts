@@ -36,7 +36,19 @@ export async function createStaff(
 		.onConflictDoNothing({ target: user.email })
 		.returning({ id: user.id });
 	if (rows.length === 0) {
-		return { ok: false, field: 'email', message: 'An account with that e-mail already exists.' };
+		// E-mail addresses sign in across every shop, so they are unique across shops; the answer
+		// names a colleague already here, and says nothing of an account in another shop.
+		const [here] = await db
+			.select({ name: user.name })
+			.from(user)
+			.where(and(eq(user.shopId, shopId), eq(user.email, input.email)));
+		return {
+			ok: false,
+			field: 'email',
+			message: here
+				? `${here.name} already signs in with that e-mail in this shop.`
+				: 'That e-mail cannot be used for a new account. Use another address.'
+		};
 	}
 	return { ok: true };
 }
