@@ -16,6 +16,7 @@ import {
 import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
 import { dimensionOf, formatQuantity } from '$lib/units';
+import type { BenchStep, EntryView, StepDefinition } from '$lib/bench/types';
 import { announceEntry } from './announce';
 import { client, db } from './db';
 import { entrySelect, jobLogPageSql } from './entries-sql';
@@ -24,6 +25,8 @@ import { transitionJob } from './jobs';
 import * as s from './db/schema';
 import { storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
+
+export type { BenchStep, EntryView, StepDefinition };
 
 /** How far ahead of the server's clock a device's time may be before it is clamped. */
 export const CLOCK_SKEW_MS = 2 * 60_000;
@@ -46,62 +49,6 @@ export interface BenchJob {
 	vehicle: string | null;
 	registration: string | null;
 	customerName: string | null;
-}
-
-/** A step as written on the job card: what changes only when the job's steps are edited. */
-export interface StepDefinition {
-	id: string;
-	position: number;
-	procedureId: string;
-	procedureName: string;
-	label: string;
-	aliases: string[];
-	unit: string | null;
-	nominal: number | null;
-	min: number | null;
-	max: number | null;
-	caution: string | null;
-	/** The fluid spec as the manual writes it, or null. */
-	fluid: string | null;
-}
-
-export interface BenchStep extends StepDefinition {
-	done: boolean;
-	/** Verdict of the latest live measurement, if any. */
-	lastVerdict: Verdict | null;
-}
-
-export interface EntryView {
-	id: string;
-	seq: number;
-	jobId: string;
-	stepId: string | null;
-	stepLabel: string | null;
-	authorId: string;
-	authorName: string;
-	kind: (typeof s.entryKindEnum.enumValues)[number];
-	rawText: string;
-	source: (typeof s.entrySourceEnum.enumValues)[number];
-	value: number | null;
-	unit: string | null;
-	specValue: number | null;
-	specUnit: string | null;
-	specMin: number | null;
-	specMax: number | null;
-	specNominal: number | null;
-	verdict: Verdict | null;
-	/** The grade as called out, normalised, and its verdict against the step's fluid spec. */
-	fluid: string | null;
-	fluidVerdict: FluidVerdict | null;
-	note: string | null;
-	torqueToolId: string | null;
-	torqueTool: string | null;
-	toolCalibrationOverdue: boolean;
-	retracts: string | null;
-	retractedBy: { id: string; authorName: string; at: string } | null;
-	occurredAt: string;
-	recordedAt: string;
-	photos: { id: string; fileName: string }[];
 }
 
 export interface ToolView {

@@ -74,9 +74,9 @@ export interface TransitionOptions {
 
 /** The guard facts of one job, read in the transaction that changes it. */
 export async function transitionFacts(
-	tx: Tx | typeof db,
 	shopId: string,
-	jobId: string
+	jobId: string,
+	tx: Tx | typeof db = db
 ): Promise<TransitionFacts> {
 	const [row] = await tx.execute(sql`
 		with live as (
@@ -136,7 +136,7 @@ export async function transitionJob(
 				message: 'Someone else changed this job’s state meanwhile: look again and retry.'
 			};
 		}
-		const facts = { ...(await transitionFacts(tx, shopId, jobId)), ...opts.facts };
+		const facts = { ...(await transitionFacts(shopId, jobId, tx)), ...opts.facts };
 		const reason = opts.reason?.trim() || null;
 		const check = checkTransition(from, to, facts, reason);
 		if (!check.ok) return check;

@@ -4,7 +4,6 @@ import { assignSchema, extraWorkSchema, transitionSchema } from '$lib/schemas/jo
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
 import { readForm, tooLargeMessage } from '$lib/server/request';
-import { db } from '$lib/server/db';
 import {
 	addExtraWork,
 	assignJob,
@@ -35,7 +34,7 @@ export const load: PageServerLoad = async ({ params }) => {
 	const card = await cardOr404(user.shopId, params.number);
 	const [history, facts, technicians, bays, procedures, photos] = await Promise.all([
 		stateHistory(user.shopId, card.job.id),
-		transitionFacts(db, user.shopId, card.job.id),
+		transitionFacts(user.shopId, card.job.id),
 		listTechnicians(user.shopId),
 		listBays(user.shopId),
 		listProcedures(user.shopId),

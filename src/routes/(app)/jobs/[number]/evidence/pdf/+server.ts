@@ -1,14 +1,13 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
-import { client } from '$lib/server/db';
-import { loadEvidenceByNumber } from '$lib/server/evidence';
+import { evidenceForJob } from '$lib/server/evidence-for-job';
 import { evidencePdf } from '$lib/server/evidence-pdf';
 import { uploads } from '$lib/server/storage';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ params }) => {
 	const user = requireRole('owner', 'foreman', 'service_writer');
-	const pack = await loadEvidenceByNumber(client, user.shopId, params.number);
+	const pack = await evidenceForJob(user.shopId, params.number);
 	if (!pack) error(404, 'No such job card in this shop.');
 	const pdf = await evidencePdf(pack, uploads());
 	return new Response(new Uint8Array(pdf), {

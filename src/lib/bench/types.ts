@@ -1,0 +1,72 @@
+// View types the Bench page and its components share with the server (`$lib/server/entries`
+// fills them): client code reads them from here, never from server modules.
+import type { FluidVerdict, Verdict } from '$lib/phrase';
+
+/** log_entry.kind and log_entry.source (the pgEnums in db/schema.ts). */
+export type EntryKind =
+	| 'measure'
+	| 'part'
+	| 'note'
+	| 'done'
+	| 'retraction'
+	| 'accept'
+	| 'redo'
+	| 'inspection'
+	| 'sign_off';
+export type EntrySource = 'typed' | 'voice' | 'system';
+
+/** A step as written on the job card: what changes only when the job's steps are edited. */
+export interface StepDefinition {
+	id: string;
+	position: number;
+	procedureId: string;
+	procedureName: string;
+	label: string;
+	aliases: string[];
+	unit: string | null;
+	nominal: number | null;
+	min: number | null;
+	max: number | null;
+	caution: string | null;
+	/** The fluid spec as the manual writes it, or null. */
+	fluid: string | null;
+}
+
+export interface BenchStep extends StepDefinition {
+	done: boolean;
+	/** Verdict of the latest live measurement, if any. */
+	lastVerdict: Verdict | null;
+}
+
+export interface EntryView {
+	id: string;
+	seq: number;
+	jobId: string;
+	stepId: string | null;
+	stepLabel: string | null;
+	authorId: string;
+	authorName: string;
+	kind: EntryKind;
+	rawText: string;
+	source: EntrySource;
+	value: number | null;
+	unit: string | null;
+	specValue: number | null;
+	specUnit: string | null;
+	specMin: number | null;
+	specMax: number | null;
+	specNominal: number | null;
+	verdict: Verdict | null;
+	/** The grade as called out, normalised, and its verdict against the step's fluid spec. */
+	fluid: string | null;
+	fluidVerdict: FluidVerdict | null;
+	note: string | null;
+	torqueToolId: string | null;
+	torqueTool: string | null;
+	toolCalibrationOverdue: boolean;
+	retracts: string | null;
+	retractedBy: { id: string; authorName: string; at: string } | null;
+	occurredAt: string;
+	recordedAt: string;
+	photos: { id: string; fileName: string }[];
+}
