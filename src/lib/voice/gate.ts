@@ -10,8 +10,11 @@
  * not mishearings: they pass and are logged with their verdict.
  */
 import { z } from 'zod';
-import { convert, dimensionOf, type Dimension } from '../units/index';
+import { convert } from '../units/index';
 import { isCancel, type ParsedPhrase, type StepSpec } from '../phrase/index';
+import { isWrongScale } from './scale';
+
+export { isWrongScale };
 
 export type GateReason = 'low_confidence' | 'implausible_value' | 'wrong_scale' | 'not_understood';
 
@@ -39,21 +42,6 @@ export const MIN_CONFIDENCE = 0.75;
 /** A value more than this factor outside the step's band is taken as a mishearing. */
 export const PLAUSIBLE_FACTOR = 3;
 
-/**
- * Units that sound alike and differ by a metric prefix (or by centi/milli): a step in one of
- * them is never called out in another unless its kind of quantity mixes them in daily use.
- */
-const SCALE_FAMILIES: string[][] = [
-	['mm', 'cm', 'm'],
-	['N.m', 'N.cm', 'daN.m'],
-	['kgf.m', 'kgf.cm'],
-	['V', 'mV'],
-	['Ohm', 'kOhm'],
-	['kPa', 'Pa', 'MPa']
-];
-/** Kinds of quantity whose units of every scale are said at the bench (oil in litres or in ml). */
-const MIXED_SCALE_KINDS = new Set<Dimension>(['volume']);
-
 const NON_LOGGING = new Set(['next', 'spec']);
 
 const inputSchema = z.object({
@@ -69,14 +57,6 @@ function quote(heard: string): string {
 
 function refuse(reason: GateReason, heard: string, why: string): GateResult {
 	return { ok: false, reason, heard, message: `Say it again — heard ${quote(heard)}. ${why}` };
-}
-
-/** True when `said` and `stepUnit` are the same unit one prefix apart (mm vs cm, N·m vs N·cm). */
-export function isWrongScale(said: string, stepUnit: string): boolean {
-	if (said === stepUnit) return false;
-	const kind = dimensionOf(stepUnit);
-	if (kind && MIXED_SCALE_KINDS.has(kind)) return false;
-	return SCALE_FAMILIES.some((f) => f.includes(said) && f.includes(stepUnit));
 }
 
 /** The step's band in its own unit: min/max, else the band the phrase engine judged against. */

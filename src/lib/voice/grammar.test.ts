@@ -7,7 +7,7 @@ import {
 	numberWords,
 	pronounce,
 	spokenWords,
-	unitPhrases
+	stepUnitPhrases
 } from './grammar';
 
 // A few entries in the model dictionary's format (ARPAbet phones, as in CMUdict).
@@ -51,12 +51,22 @@ describe('spoken units', () => {
 			for (const p of phrases) expect(unitFromWords(p), p).toBe(code);
 		}
 	});
-	it('offers only the kinds of quantity the job measures', () => {
-		const phrases = unitPhrases([{ label: 'Rear axle nut', unit: 'N.m' }]);
+	it('offers a step its own kind of quantity, less the alike-sounding unit of another scale', () => {
+		const phrases = stepUnitPhrases({ label: 'Rear axle nut', unit: 'N.m' });
 		expect(phrases).toContain('newton metres');
 		expect(phrases).toContain('foot pounds');
+		expect(phrases).toContain('kilogram metres');
+		expect(phrases).not.toContain('newton centimetres');
 		expect(phrases).not.toContain('litres');
 		expect(phrases).not.toContain('volts');
+		const gap = stepUnitPhrases({ label: 'Chain slack', unit: 'mm' });
+		expect(gap).toContain('millimetres');
+		expect(gap).toContain('inches');
+		expect(gap).not.toContain('centimetres');
+		// oil is said in litres and in millilitres alike: both stay
+		const oil = stepUnitPhrases({ label: 'Oil', unit: 'L' });
+		expect(oil).toEqual(expect.arrayContaining(['litres', 'millilitres', 'quarts']));
+		expect(stepUnitPhrases({ label: 'Test ride' })).toEqual([]);
 	});
 });
 
@@ -96,23 +106,34 @@ describe('buildGrammar', () => {
 	const steps = [
 		{ label: 'Rear axle nut', aliases: ['axle nut', 'rear wheel spindle'], unit: 'N.m' },
 		{ label: 'Engine oil fill', aliases: ['oil'], unit: 'L' },
-		{ label: 'Idle speed', aliases: ['tickover'], unit: '/min' }
+		{ label: 'Idle speed', aliases: ['tickover'], unit: '/min' },
+		{ label: 'Leak check', aliases: [] }
 	];
 	it('holds the job’s steps, intents, numbers and units', () => {
 		const g = buildGrammar({ steps }, () => 'AH');
 		expect(g.jsgf).toMatch(/^#JSGF V1\.0;/);
 		expect(g.jsgf).toContain('<name> = (rear axle nut) | (axle nut) | (rear wheel spindle)');
-		expect(g.jsgf).toContain('(engine oil fill) | oil | (idle speed) | tickover;');
-		expect(g.jsgf).toMatch(/<unit> = .*\(newton metres\)/);
-		expect(g.jsgf).toMatch(/<unit> = .*litres/);
-		expect(g.jsgf).toMatch(/<unit> = .*\(r p m\)/);
+		expect(g.jsgf).toContain('(engine oil fill) | oil | (idle speed) | tickover | (leak check);');
+		// each step is followed by its own units only: no litres after the axle nut
+		expect(g.jsgf).toContain('<name0> = (rear axle nut) | (axle nut) | (rear wheel spindle);');
+		expect(g.jsgf).toMatch(/^<unit0> = \(newton metres\).*\(foot pounds\)/m);
+		expect(g.jsgf).not.toMatch(/^<unit0> = .*(litres|newton centimetres)/m);
+		expect(g.jsgf).toContain('<name1> = (engine oil fill) | oil;');
+		expect(g.jsgf).toMatch(/^<unit1> = litres.*millilitres/m);
+		expect(g.jsgf).not.toMatch(/^<unit1> = .*newton/m);
+		expect(g.jsgf).toMatch(/^<unit2> = \(r p m\)/m);
 		expect(g.jsgf).not.toMatch(/volts|kilopascals/);
+		// a check step is done, never given a value
+		expect(g.jsgf).toContain('<name3> (<donetail> | <parttail>)');
+		expect(g.jsgf).toContain('<name3> = (leak check);');
 		for (const rule of ['next', 'undo', 'cancel', 'prefix', 'donetail', 'parttail', 'noteword']) {
 			expect(g.jsgf).toContain(`<${rule}> =`);
 		}
 		expect(g.jsgf).toMatch(/<prefix> = .*spec.*\(mark done\).*\(fitted new\)/);
-		expect(g.jsgf).toContain('<call> = <name> <tail> | <prefix> <name> | note <noteword>+');
-		expect(g.jsgf).toContain('<tail> = <number> [<unit>] | <donetail> | <parttail>;');
+		expect(g.jsgf).toContain(
+			'<call> = <name0> (<number> [<unit0>] | <donetail> | <parttail>) | <name1> (<number> [<unit1>]'
+		);
+		expect(g.jsgf).toContain('| <prefix> <name> | note <noteword>+');
 		expect(g.jsgf).toContain('<number> = <whole> [<decimals>] | <decimals>;');
 		expect(g.jsgf).toContain('<decimals> = point <digit> [<digit> [<digit>]];');
 		expect(g.jsgf).toContain('(hundred | thousand [<one> hundred]) [[and] <below100>]');
@@ -124,7 +145,7 @@ describe('buildGrammar', () => {
 		expect(g.jsgf).toMatch(/^<garbage> = \(zz_aa \| zz_ae .* \| zz_zh\)\+;$/m);
 		expect(g.added).toContainEqual(['zz_ng', 'NG']);
 		const plain = buildGrammar({ steps, garbage: 0 }, lookup);
-		expect(plain.jsgf).toContain('public <call> = <name> <tail>');
+		expect(plain.jsgf).toContain('public <call> = <name0> (<number>');
 		expect(plain.jsgf).not.toContain('zz_');
 	});
 	it('leaves out phrases with unknown words and lists those words', () => {
@@ -140,7 +161,7 @@ describe('buildGrammar', () => {
 		const added = new Map(g.added);
 		const ruleWords = g.jsgf
 			.split('\n')
-			.filter((l) => /^<(name|unit|noteword)> =/.test(l))
+			.filter((l) => /^<(name|unit)\d* =|^<noteword> =/.test(l))
 			.flatMap((l) => l.replace(/<[^>]+>/g, ' ').match(/[a-z']+/g) ?? []);
 		expect(ruleWords.length).toBeGreaterThan(5);
 		expect(ruleWords.filter((w) => !lookup(w) && !added.has(w))).toEqual([]);
@@ -156,7 +177,6 @@ describe('buildGrammar', () => {
 		const g = buildGrammar({ steps: [] }, () => 'AH');
 		expect(g.jsgf).not.toContain('<VOID>');
 		expect(g.jsgf).not.toContain('<name>');
-		expect(g.jsgf).toContain('<tail> = <number> | <donetail> | <parttail>;');
 		expect(g.jsgf).toMatch(/<call> = note <noteword>\+ \| <next> \| <undo> \| <cancel>;/);
 	});
 });

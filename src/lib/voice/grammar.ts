@@ -7,6 +7,7 @@
  * so the same code runs against the model's dictionary in Node and in the browser.
  */
 import { dimensionOf } from '../units/index';
+import { isWrongScale } from './scale';
 
 export interface GrammarStep {
 	label: string;
@@ -112,14 +113,19 @@ export const SPOKEN_UNITS: Record<string, string[]> = {
 	'[degF]': ['degrees fahrenheit']
 };
 
-/** Spoken unit phrases for the kinds of quantity the steps measure. */
-export function unitPhrases(steps: GrammarStep[]): string[] {
-	const dims = new Set(steps.map((s) => (s.unit ? dimensionOf(s.unit) : null)).filter(Boolean));
+/**
+ * The unit phrases a step may be called out in: its own kind of quantity, less the units one
+ * metric prefix away from its own that sound alike ("newton centimetres" for a step in newton
+ * metres, "millimetres" for one in centimetres). The decoder cannot hear what the grammar does
+ * not hold, so a mishearing of "metres" as "millimetres" becomes a near miss of the step's own
+ * unit instead of a value 1000× off. A step without a unit takes none.
+ */
+export function stepUnitPhrases(step: GrammarStep): string[] {
+	const kind = step.unit ? dimensionOf(step.unit) : null;
+	if (!step.unit || !kind) return [];
 	const out: string[] = [];
-	for (const [code, phrases] of Object.entries(SPOKEN_UNITS)) {
-		const d = dimensionOf(code);
-		if (d && dims.has(d)) out.push(...phrases);
-	}
+	for (const [code, phrases] of Object.entries(SPOKEN_UNITS))
+		if (dimensionOf(code) === kind && !isWrongScale(code, step.unit)) out.push(...phrases);
 	return out;
 }
 
@@ -241,12 +247,22 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		return out;
 	};
 
-	const steps = keep(input.steps.flatMap((s) => [s.label, ...(s.aliases ?? [])]));
-	// Step and part names make one list: the decoder's work per frame grows with the size of the
-	// whole grammar, not only with what is being heard, so each list appears as few times as
-	// possible (the phrase engine, not the grammar, tells a step from a part).
+	// Steps grouped by the unit words they may be called out in: each group's names are followed
+	// by its own units only. Step and part names still make one list for "spec …", "done …" and
+	// "new …": the decoder's work per frame grows with the size of the whole grammar, so each
+	// name appears as few times as possible (the phrase engine, not the grammar, tells a step from
+	// a part).
+	const groups = new Map<string, { names: Set<string>; units: Set<string>; value: boolean }>();
+	for (const s of input.steps) {
+		const units = keep(stepUnitPhrases(s));
+		const key = s.unit ? 'value:' + [...units].sort().join('|') : 'check';
+		const g = groups.get(key) ?? { names: new Set<string>(), units, value: !!s.unit };
+		for (const n of keep([s.label, ...(s.aliases ?? [])])) g.names.add(n);
+		if (g.names.size) groups.set(key, g);
+	}
+	const steps = new Set([...groups.values()].flatMap((g) => [...g.names]));
 	const names = keep([...steps, ...(input.parts ?? [])]);
-	const units = keep(unitPhrases(input.steps));
+	const partsOnly = [...keep(input.parts ?? [])].filter((p) => !steps.has(p));
 	const noteWords = new Set<string>();
 	for (const p of [...names, ...NOTE_WORDS]) {
 		for (const w of p.split(' ')) if (pron(w)) noteWords.add(w);
@@ -263,16 +279,22 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		return body ? `<${name}> = ${body};` : null;
 	};
 
-	const tail = [units.size ? '<number> [<unit>]' : '<number>', '<donetail>', '<parttail>'].join(
-		' | '
-	);
-	const calls = [
-		...(names.size ? ['<name> <tail>', '<prefix> <name>'] : []),
-		'note <noteword>+',
-		'<next>',
-		'<undo>',
-		'<cancel>'
-	];
+	const groupRules: string[] = [];
+	const calls: string[] = [];
+	[...groups.values()].forEach((g, i) => {
+		// a step with no unit is a check: it is done, never given a value
+		const unit = g.units.size ? ` [<unit${i}>]` : '';
+		const value = g.value ? `<number>${unit} | ` : '';
+		calls.push(`<name${i}> (${value}<donetail> | <parttail>)`);
+		groupRules.push(`<name${i}> = ${alternatives(g.names)};`);
+		if (g.units.size) groupRules.push(`<unit${i}> = ${alternatives(g.units)};`);
+	});
+	if (partsOnly.length) {
+		calls.push('<partname> <parttail>');
+		groupRules.push(`<partname> = ${alternatives(partsOnly)};`);
+	}
+	if (names.size) calls.push('<prefix> <name>');
+	calls.push('note <noteword>+', '<next>', '<undo>', '<cancel>');
 	const garbage = input.garbage ?? GARBAGE_WEIGHT;
 	if (garbage > 0) for (const ph of PHONES) added.push([GARBAGE_PREFIX + ph.toLowerCase(), ph]);
 	const lines = [
@@ -285,7 +307,6 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 					`<garbage> = (${PHONES.map((p) => GARBAGE_PREFIX + p.toLowerCase()).join(' | ')})+;`
 				]
 			: [`public <call> = ${calls.join(' | ')};`]),
-		`<tail> = ${tail};`,
 		rule('prefix', keep([...SPEC_PREFIX, ...DONE_PREFIX, ...PART_PREFIX])),
 		rule('next', keep(NEXT)),
 		rule('undo', keep(UNDO)),
@@ -304,7 +325,7 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		`<teen> = ${TEENS.join(' | ')};`,
 		`<tens> = ${TENS.filter(Boolean).join(' | ')};`,
 		rule('name', names),
-		rule('unit', units)
+		...groupRules
 	].filter((l): l is string => l !== null);
 
 	const words = [...prons.entries()].filter(([, p]) => p !== null).map(([w]) => w);
