@@ -152,6 +152,21 @@ describe('decideHeard', () => {
 		}
 	});
 
+	it('a note heard offline goes to the call bar to be checked, never to the confirm window', () => {
+		const offline = { text: 'note chain worn on the rear', confidence: 0.9, offline: true };
+		expect(decideHeard(offline, okAs('note'), push)).toEqual({
+			kind: 'check',
+			text: 'note chain worn on the rear'
+		});
+		// a value heard offline, and a note dictated through the browser, are confirmed as before
+		expect(decideHeard({ ...offline, text: 'chain 30' }, okAs('measure'), push).kind).toBe(
+			'confirm'
+		);
+		expect(decideHeard(h('note chain worn'), okAs('note'), push).kind).toBe('confirm');
+		// hands-free still ignores it
+		expect(decideHeard(offline, okAs('note'), free).kind).toBe('ignored');
+	});
+
 	it('reads the refusal aloud with what it heard', () => {
 		expect(sayAgainWords({ heard: 'rear axle 800 N·m', message: 'Too high.' })).toBe(
 			'Say it again. I heard: rear axle 800 N·m. Too high.'

@@ -50,6 +50,12 @@ export type HeardOutcome =
 	/** Goes to the confirm window (and is logged unless cancelled). */
 	| { kind: 'confirm'; text: string }
 	| { kind: 'cancel' }
+	/**
+	 * Put in the call bar to be checked and sent by hand, never logged by itself: a note heard
+	 * by offline voice, whose grammar knows only a few dozen words besides the job's own, so a
+	 * note it hears is often not what was said (voice corpus: most of its wrong entries).
+	 */
+	| { kind: 'check'; text: string }
 	/** Not logged: the Bench shows and says "say it again" with what it heard. */
 	| { kind: 'say_again'; heard: string; message: string; reason: GateReason }
 	/** Hands-free only: not a command it acts on, or not heard well enough. Shown faintly. */
@@ -100,6 +106,7 @@ export function decideHeard(
 	if (answer.ok && opts.handsFree && !HANDS_FREE_INTENTS.has(answer.intent)) {
 		return { kind: 'ignored', heard: text, reason: 'not_hands_free' };
 	}
+	if (answer.ok && heard.offline && answer.intent === 'note') return { kind: 'check', text };
 	if (answer.ok) return { kind: 'confirm', text };
 	if (
 		opts.handsFree &&
