@@ -5,7 +5,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
 import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
-import { stateLabels, type JobState } from '$lib/jobs/states';
+import { closedStates, stateLabels, type JobState } from '$lib/jobs/states';
 import {
 	parsePhrase,
 	type FluidVerdict,
@@ -20,10 +20,15 @@ import type { BenchStep, EntryView, StepDefinition } from '$lib/bench/types';
 import { announceEntry } from './announce';
 import { client, db } from './db';
 import { entrySelect, jobLogPageSql } from './entries-sql';
-import { isDatabaseUnavailable } from './db/errors';
+import { isClosedRecord, isDatabaseUnavailable } from './db/errors';
+import {
+	BACKDATE_BEFORE_OPENING_MS,
+	beforeOpening,
+	beforeOpeningMessage
+} from '$lib/schemas/dates';
 import { transitionJob } from './jobs';
 import * as s from './db/schema';
-import { storePhoto } from './photos';
+import { closedPhotoMessage, storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
 
 export type { BenchStep, EntryView, StepDefinition };
@@ -72,6 +77,12 @@ export type AppendResult =
 	| { status: 403 | 404 | 409 | 422; message: string };
 
 const NOT_FOUND = 'No such job.';
+/** A close that won a race with the write (drizzle/0013 refused it in the inserting statement). */
+const CLOSED_MEANWHILE = {
+	status: 409 as const,
+	message:
+		'This job was closed meanwhile: its record takes no more entries. Open a new job card for new work.'
+};
 
 // --- jobs and steps ---------------------------------------------------------------------------
 
@@ -405,6 +416,7 @@ const appendContextQuery = db
 		state: s.job.state,
 		technicianId: s.job.technicianId,
 		stepsVersion: s.job.stepsVersion,
+		openedAt: s.job.createdAt,
 		pct: s.shop.defaultTolerancePct
 	})
 	.from(s.job)
@@ -418,6 +430,7 @@ async function appendContext(shopId: string, jobId: string) {
 	if (!row) return null;
 	return {
 		job: { id: row.id, state: row.state, technicianId: row.technicianId },
+		openedAt: row.openedAt,
 		stepsVersion: row.stepsVersion,
 		pct: row.pct
 	};
@@ -580,6 +593,7 @@ async function writeBatch(batch: Waiting[]) {
 				join job j on j.id = r."jobId" and j.shop_id = r."shopId"
 					and j.state in ('open', 'in_work', 'final_inspection', 'on_hold')
 					and j.steps_version = r."stepsVersion" and (r."anyJob" or j.technician_id = r."authorId")
+					and r."occurredAt" >= j.created_at - ${BACKDATE_BEFORE_OPENING_MS} * interval '1 millisecond'
 				join shop sh on sh.id = j.shop_id and sh.default_tolerance_pct = r.pct
 			), e as (
 				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
@@ -648,6 +662,13 @@ interface NewEntry {
 	occurredAt: string;
 }
 
+/** The time an entry is stored with: the phrase's back-date, else the device's time. */
+function entryTime(read: { parsed: ParsedPhrase; deviceTime: Date }, now: Date): Date {
+	return read.parsed.occurredAt
+		? clampTime(new Date(read.parsed.occurredAt), now)
+		: clampTime(read.deviceTime, now);
+}
+
 function newEntry(
 	actor: Actor,
 	jobId: string,
@@ -659,9 +680,7 @@ function newEntry(
 ): NewEntry {
 	const { parsed } = read;
 	const measured = parsed.intent === 'measure';
-	const occurredAt = parsed.occurredAt
-		? clampTime(new Date(parsed.occurredAt), now)
-		: clampTime(read.deviceTime, now);
+	const occurredAt = entryTime(read, now);
 	return {
 		id: input.id,
 		shopId: actor.shopId,
@@ -741,6 +760,9 @@ async function appendChecked(
 			? answer(again.parsed, live)
 			: { status: 422, message: 'That step is not on this job.' };
 	}
+	if (beforeOpening(entryTime(read, now), ctx.openedAt)) {
+		return { status: 422, message: beforeOpeningMessage };
+	}
 	if (parsed.intent === 'undo' || input.retracts) {
 		return retract(actor, job, input, deviceTime);
 	}
@@ -759,7 +781,27 @@ async function appendChecked(
 
 	const entry = newEntry(actor, jobId, input, read, step, tool, now);
 	// One round trip, prepared (postgres.js keeps it per connection): the insert, and the row.
-	const [row] = await client`
+	const [row] = await insertOne(entry);
+	if (row === CLOSED) return CLOSED_MEANWHILE;
+	if (!row) {
+		return (
+			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
+				status: 409,
+				message: 'That entry id is already used.'
+			}
+		);
+	}
+	return stored(actor, jobId, row, job.state);
+}
+
+const CLOSED = Symbol('closed');
+
+/** The full path's insert; CLOSED when drizzle/0013 refused it (a close won the race). */
+async function insertOne(
+	entry: NewEntry
+): Promise<[Record<string, unknown> | undefined] | [typeof CLOSED]> {
+	try {
+		return (await client`
 		with e as (
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
 				value, unit, spec_value, spec_unit, verdict, fluid, fluid_verdict, note, torque_tool_id,
@@ -772,16 +814,11 @@ async function appendChecked(
 			on conflict (id) do nothing
 			returning *
 		)
-		${readBack} ${readBackFrom}`;
-	if (!row) {
-		return (
-			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
-				status: 409,
-				message: 'That entry id is already used.'
-			}
-		);
+		${readBack} ${readBackFrom}`) as unknown as [Record<string, unknown> | undefined];
+	} catch (err) {
+		if (isClosedRecord(err)) return [CLOSED];
+		throw err;
 	}
-	return stored(actor, jobId, row, job.state);
 }
 
 /** The answer to "next" or "spec …": the step with its spec and caution; nothing is written. */
@@ -794,9 +831,6 @@ function answer(parsed: ParsedPhrase, steps: BenchStep[]): AppendResult {
 	}
 	return { status: 200, answer: { intent, step: shown, message: describeStep(shown, intent) } };
 }
-
-/** States whose record is closed: nothing more is written to the job's log. */
-const closedStates: readonly JobState[] = ['invoiced', 'paid', 'cancelled'];
 
 /**
  * The state machine at the append: a closed job refuses entries with a 409 (a device's retry of
@@ -900,54 +934,59 @@ async function retract(
 	input: AppendInput,
 	occurredAt: Date
 ): Promise<AppendResult> {
-	const outcome = await db.transaction(async (tx) => {
-		await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
-		const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
+	const outcome = await db
+		.transaction(async (tx) => {
+			await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
+			const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
 			and e.kind <> 'retraction'
 			and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${actor.shopId})`;
-		let targetRows;
-		if (input.retracts) {
-			targetRows = await tx.execute(sql`
+			let targetRows;
+			if (input.retracts) {
+				targetRows = await tx.execute(sql`
 				select e.id, e.author_id, (${live}) as live from log_entry e
 				where e.shop_id = ${actor.shopId} and e.job_id = ${job.id} and e.id = ${input.retracts}`);
-			const t = targetRows[0];
-			if (!t) return { status: 422 as const, message: 'There is no such entry on this job.' };
-			const mine = t.author_id === actor.id;
-			if (!mine && actor.role !== 'foreman' && actor.role !== 'owner') {
-				return {
-					status: 403 as const,
-					message: 'Only its author or a foreman may retract an entry.'
-				};
-			}
-			if (!t.live) {
-				return { status: 422 as const, message: 'That entry is already retracted.' };
-			}
-		} else {
-			targetRows = await tx.execute(sql`
+				const t = targetRows[0];
+				if (!t) return { status: 422 as const, message: 'There is no such entry on this job.' };
+				const mine = t.author_id === actor.id;
+				if (!mine && actor.role !== 'foreman' && actor.role !== 'owner') {
+					return {
+						status: 403 as const,
+						message: 'Only its author or a foreman may retract an entry.'
+					};
+				}
+				if (!t.live) {
+					return { status: 422 as const, message: 'That entry is already retracted.' };
+				}
+			} else {
+				targetRows = await tx.execute(sql`
 				select e.id from log_entry e where ${live} and e.author_id = ${actor.id}
 				order by e.seq desc limit 1`);
-			if (!targetRows[0]) {
-				return { status: 422 as const, message: 'You have no entry on this job left to undo.' };
+				if (!targetRows[0]) {
+					return { status: 422 as const, message: 'You have no entry on this job left to undo.' };
+				}
 			}
-		}
-		const target = targetRows[0].id as string;
-		const inserted = await tx
-			.insert(s.logEntry)
-			.values({
-				id: input.id,
-				shopId: actor.shopId,
-				jobId: job.id,
-				authorId: actor.id,
-				kind: 'retraction',
-				rawText: input.text,
-				source: input.source,
-				retracts: target,
-				occurredAt
-			})
-			.onConflictDoNothing({ target: s.logEntry.id })
-			.returning({ seq: s.logEntry.seq });
-		return inserted.length ? { status: 201 as const, seq: inserted[0].seq } : null;
-	});
+			const target = targetRows[0].id as string;
+			const inserted = await tx
+				.insert(s.logEntry)
+				.values({
+					id: input.id,
+					shopId: actor.shopId,
+					jobId: job.id,
+					authorId: actor.id,
+					kind: 'retraction',
+					rawText: input.text,
+					source: input.source,
+					retracts: target,
+					occurredAt
+				})
+				.onConflictDoNothing({ target: s.logEntry.id })
+				.returning({ seq: s.logEntry.seq });
+			return inserted.length ? { status: 201 as const, seq: inserted[0].seq } : null;
+		})
+		.catch((err) => {
+			if (isClosedRecord(err)) return CLOSED_MEANWHILE;
+			throw err;
+		});
 	if (outcome === null) {
 		return (
 			(await existingEntry(actor.shopId, job.id, input.id)) ?? {
@@ -1039,7 +1078,7 @@ export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 // --- photos -----------------------------------------------------------------------------------
 
 export type PhotoResult =
-	{ status: 201; entry: EntryView } | { status: 400 | 403 | 404; message: string };
+	{ status: 201; entry: EntryView } | { status: 400 | 403 | 404 | 409; message: string };
 
 /** Attaches a photo to an entry of the job: type checked from the bytes, at most 10 MB. */
 export async function attachPhoto(
@@ -1052,6 +1091,7 @@ export async function attachPhoto(
 	const job = await getJob(actor.shopId, jobId);
 	if (!job) return { status: 404, message: NOT_FOUND };
 	if (!mayWrite(actor, job)) return { status: 403, message: 'This job is not assigned to you.' };
+	if (closedStates.includes(job.state)) return { status: 409, message: closedPhotoMessage };
 	if (!isUuid(entryId)) return { status: 404, message: 'No such entry on this job.' };
 	const [entry] = await db
 		.select({ id: s.logEntry.id })
@@ -1069,7 +1109,7 @@ export async function attachPhoto(
 		file,
 		storage
 	);
-	if (!stored.ok) return { status: 400, message: stored.message };
+	if (!stored.ok) return { status: stored.closed ? 409 : 400, message: stored.message };
 	return { status: 201, entry: (await readEntry(actor.shopId, entryId))! };
 }
 
