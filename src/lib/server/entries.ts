@@ -889,6 +889,8 @@ function refusal(parsed: ParsedPhrase, step: StepDefinition | null): string | nu
 			return parsed.note ? null : (parsed.problems[0] ?? 'Say which part was fitted.');
 		case 'done':
 			return step ? null : (parsed.problems[0] ?? 'Say which step is done.');
+		case 'history':
+			return '"history …" shows a step\'s past readings on the Bench; it logs nothing.';
 		case 'measure':
 			if (!step) return parsed.problems[0] ?? 'No step of this job matches that phrase.';
 			if (!parsed.quantity || parsed.verdict === null) {
