@@ -136,20 +136,15 @@ export function mayWrite(actor: Actor, job: Pick<BenchJob, 'technicianId'>): boo
 
 /** The job's steps in order, each done once it has a live (not retracted) entry. */
 export async function listSteps(shopId: string, jobId: string): Promise<BenchStep[]> {
+	// Done and the latest verdict as job_step_state holds them (drizzle/0011): one definition for
+	// the Bench, the state machine, the Jobs list and the Floor (a redo makes a step not done).
 	const rows = await db.execute(sql`
-		with live as (
-			select e.job_step_id, e.kind, e.verdict, e.seq from log_entry e
-			where e.shop_id = ${shopId} and e.job_id = ${jobId}
-			  and e.kind in ('measure', 'done', 'part') and e.job_step_id is not null
-			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
-		)
 		select st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min, st.max, st.caution,
 			st.fluid, jp.id as procedure_id, jp.name as procedure_name,
-			exists (select 1 from live where live.job_step_id = st.id) as done,
-			(select live.verdict from live where live.job_step_id = st.id and live.kind = 'measure'
-				order by live.seq desc limit 1) as last_verdict
+			coalesce(ss.done, false) as done, ss.latest_verdict as last_verdict
 		from job_step st
 		join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id
+		left join job_step_state ss on ss.shop_id = st.shop_id and ss.job_step_id = st.id
 		where st.shop_id = ${shopId} and st.job_id = ${jobId}
 		order by jp.position, st.position
 	`);
