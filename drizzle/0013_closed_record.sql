@@ -16,39 +16,26 @@
 -- not queue behind each other here (the chain head already orders them). The foreign key's
 -- own lock (FOR KEY SHARE) does not block a state change, so it is not enough.
 -- SQLSTATE BC409 lets the app answer 409 with words (src/lib/server/db/errors.ts).
-CREATE OR REPLACE FUNCTION log_entry_job_open() RETURNS trigger
+CREATE OR REPLACE FUNCTION job_record_open() RETURNS trigger
 LANGUAGE plpgsql AS $$
 DECLARE
 	st job_state;
 BEGIN
 	SELECT j.state INTO st FROM job j
 		WHERE j.id = NEW.job_id AND j.shop_id = NEW.shop_id FOR SHARE;
-	-- No such job of this shop: the foreign key answers. A repeated id writes nothing
-	-- (`on conflict (id) do nothing`), so it is no new entry on a closed job either.
-	IF st IS NULL OR st IN ('open', 'in_work', 'final_inspection', 'on_hold') THEN
+	-- No such job of this shop: the foreign key answers.
+	IF st IS NULL THEN
 		RETURN NEW;
 	END IF;
-	IF EXISTS (SELECT 1 FROM log_entry x WHERE x.id = NEW.id) THEN
-		RETURN NEW;
+	IF TG_TABLE_NAME = 'log_entry' THEN
+		-- A repeated id writes nothing (`on conflict (id) do nothing`): no new entry either.
+		IF st IN ('open', 'in_work', 'final_inspection', 'on_hold')
+			OR EXISTS (SELECT 1 FROM log_entry x WHERE x.id = NEW.id) THEN
+			RETURN NEW;
+		END IF;
+		RAISE EXCEPTION 'job % is %: its record is closed and takes no more entries', NEW.job_id, st
+			USING ERRCODE = 'BC409';
 	END IF;
-	RAISE EXCEPTION 'job % is %: its record is closed and takes no more entries', NEW.job_id, st
-		USING ERRCODE = 'BC409';
-END;
-$$;
---> statement-breakpoint
--- Named to fire before log_entry_zz_chain (BEFORE triggers fire in name order): a refused
--- entry never moves the chain head.
-CREATE TRIGGER log_entry_job_open
-	BEFORE INSERT ON log_entry
-	FOR EACH ROW EXECUTE FUNCTION log_entry_job_open();
---> statement-breakpoint
-CREATE OR REPLACE FUNCTION attachment_job_open() RETURNS trigger
-LANGUAGE plpgsql AS $$
-DECLARE
-	st job_state;
-BEGIN
-	SELECT j.state INTO st FROM job j
-		WHERE j.id = NEW.job_id AND j.shop_id = NEW.shop_id FOR SHARE;
 	IF st IN ('invoiced', 'paid', 'cancelled') THEN
 		RAISE EXCEPTION 'job % is %: its record is closed and takes no more photos', NEW.job_id, st
 			USING ERRCODE = 'BC409';
@@ -57,9 +44,15 @@ BEGIN
 END;
 $$;
 --> statement-breakpoint
+-- Named to fire before log_entry_zz_chain (BEFORE triggers fire in name order): a refused
+-- entry never moves the chain head.
+CREATE TRIGGER log_entry_job_open
+	BEFORE INSERT ON log_entry
+	FOR EACH ROW EXECUTE FUNCTION job_record_open();
+--> statement-breakpoint
 CREATE TRIGGER attachment_job_open
 	BEFORE INSERT ON attachment
-	FOR EACH ROW EXECUTE FUNCTION attachment_job_open();
+	FOR EACH ROW EXECUTE FUNCTION job_record_open();
 --> statement-breakpoint
 -- Rows already stored are kept as they are (the log is append-only); this reports any that
 -- the rule above would have refused, so the shop knows of them.
