@@ -759,7 +759,7 @@ async function appendChecked(
 		return { status: 422, message: beforeOpeningMessage };
 	}
 	if (parsed.intent === 'undo' || input.retracts) {
-		return retract(actor, job, input, deviceTime);
+		return refusedIfClosed(retract(actor, job, input, deviceTime));
 	}
 
 	const step = stepOf(steps, parsed);
@@ -776,27 +776,7 @@ async function appendChecked(
 
 	const entry = newEntry(actor, jobId, input, read, step, tool, now);
 	// One round trip, prepared (postgres.js keeps it per connection): the insert, and the row.
-	const [row] = await insertOne(entry);
-	if (row === CLOSED) return CLOSED_MEANWHILE;
-	if (!row) {
-		return (
-			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
-				status: 409,
-				message: 'That entry id is already used.'
-			}
-		);
-	}
-	return stored(actor, jobId, row, job.state);
-}
-
-const CLOSED = Symbol('closed');
-
-/** The full path's insert; CLOSED when drizzle/0013 refused it (a close won the race). */
-async function insertOne(
-	entry: NewEntry
-): Promise<[Record<string, unknown> | undefined] | [typeof CLOSED]> {
-	try {
-		return (await client`
+	const inserted = await refusedIfClosed(client`
 		with e as (
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
 				value, unit, spec_value, spec_unit, verdict, fluid, fluid_verdict, note, torque_tool_id,
@@ -809,9 +789,26 @@ async function insertOne(
 			on conflict (id) do nothing
 			returning *
 		)
-		${readBack} ${readBackFrom}`) as unknown as [Record<string, unknown> | undefined];
+		${readBack} ${readBackFrom}`);
+	if (!Array.isArray(inserted)) return inserted; // refused: the job closed meanwhile
+	const [row] = inserted;
+	if (!row) {
+		return (
+			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
+				status: 409,
+				message: 'That entry id is already used.'
+			}
+		);
+	}
+	return stored(actor, jobId, row, job.state);
+}
+
+/** A write refused by drizzle/0013 (a close won the race) answers 409 with words. */
+async function refusedIfClosed<T>(write: PromiseLike<T>): Promise<T | typeof CLOSED_MEANWHILE> {
+	try {
+		return await write;
 	} catch (err) {
-		if (isClosedRecord(err)) return [CLOSED];
+		if (isClosedRecord(err)) return CLOSED_MEANWHILE;
 		throw err;
 	}
 }
@@ -931,59 +928,54 @@ async function retract(
 	input: AppendInput,
 	occurredAt: Date
 ): Promise<AppendResult> {
-	const outcome = await db
-		.transaction(async (tx) => {
-			await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
-			const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
+	const outcome = await db.transaction(async (tx) => {
+		await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
+		const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
 			and e.kind <> 'retraction'
 			and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${actor.shopId})`;
-			let targetRows;
-			if (input.retracts) {
-				targetRows = await tx.execute(sql`
+		let targetRows;
+		if (input.retracts) {
+			targetRows = await tx.execute(sql`
 				select e.id, e.author_id, (${live}) as live from log_entry e
 				where e.shop_id = ${actor.shopId} and e.job_id = ${job.id} and e.id = ${input.retracts}`);
-				const t = targetRows[0];
-				if (!t) return { status: 422 as const, message: 'There is no such entry on this job.' };
-				const mine = t.author_id === actor.id;
-				if (!mine && actor.role !== 'foreman' && actor.role !== 'owner') {
-					return {
-						status: 403 as const,
-						message: 'Only its author or a foreman may retract an entry.'
-					};
-				}
-				if (!t.live) {
-					return { status: 422 as const, message: 'That entry is already retracted.' };
-				}
-			} else {
-				targetRows = await tx.execute(sql`
+			const t = targetRows[0];
+			if (!t) return { status: 422 as const, message: 'There is no such entry on this job.' };
+			const mine = t.author_id === actor.id;
+			if (!mine && actor.role !== 'foreman' && actor.role !== 'owner') {
+				return {
+					status: 403 as const,
+					message: 'Only its author or a foreman may retract an entry.'
+				};
+			}
+			if (!t.live) {
+				return { status: 422 as const, message: 'That entry is already retracted.' };
+			}
+		} else {
+			targetRows = await tx.execute(sql`
 				select e.id from log_entry e where ${live} and e.author_id = ${actor.id}
 				order by e.seq desc limit 1`);
-				if (!targetRows[0]) {
-					return { status: 422 as const, message: 'You have no entry on this job left to undo.' };
-				}
+			if (!targetRows[0]) {
+				return { status: 422 as const, message: 'You have no entry on this job left to undo.' };
 			}
-			const target = targetRows[0].id as string;
-			const inserted = await tx
-				.insert(s.logEntry)
-				.values({
-					id: input.id,
-					shopId: actor.shopId,
-					jobId: job.id,
-					authorId: actor.id,
-					kind: 'retraction',
-					rawText: input.text,
-					source: input.source,
-					retracts: target,
-					occurredAt
-				})
-				.onConflictDoNothing({ target: s.logEntry.id })
-				.returning({ seq: s.logEntry.seq });
-			return inserted.length ? { status: 201 as const, seq: inserted[0].seq } : null;
-		})
-		.catch((err) => {
-			if (isClosedRecord(err)) return CLOSED_MEANWHILE;
-			throw err;
-		});
+		}
+		const target = targetRows[0].id as string;
+		const inserted = await tx
+			.insert(s.logEntry)
+			.values({
+				id: input.id,
+				shopId: actor.shopId,
+				jobId: job.id,
+				authorId: actor.id,
+				kind: 'retraction',
+				rawText: input.text,
+				source: input.source,
+				retracts: target,
+				occurredAt
+			})
+			.onConflictDoNothing({ target: s.logEntry.id })
+			.returning({ seq: s.logEntry.seq });
+		return inserted.length ? { status: 201 as const, seq: inserted[0].seq } : null;
+	});
 	if (outcome === null) {
 		return (
 			(await existingEntry(actor.shopId, job.id, input.id)) ?? {
