@@ -127,23 +127,14 @@ describe('photos on a closed record', () => {
 		const stored = await appendEntry(tech(f), f.job.id, post('rear axle 88 nm'));
 		if (!('entry' in stored)) throw new Error('no entry');
 		const bytes = await jpeg();
-		const ok = await attachPhoto(
-			tech(f),
-			f.job.id,
-			stored.entry.id,
-			{ bytes, name: 'a.jpg' },
-			storage
-		);
-		expect(ok.status).toBe(201);
+		const attach = (name: string) =>
+			attachPhoto(tech(f), f.job.id, stored.entry.id, { bytes, name }, storage);
+		expect((await attach('a.jpg')).status).toBe(201);
 		await db.update(s.job).set({ state: 'invoiced' }).where(eq(s.job.id, f.job.id));
-		const refused = await attachPhoto(
-			tech(f),
-			f.job.id,
-			stored.entry.id,
-			{ bytes, name: 'b.jpg' },
-			storage
-		);
-		expect(refused).toEqual({ status: 409, message: expect.stringMatching(/record is closed/) });
+		expect(await attach('b.jpg')).toEqual({
+			status: 409,
+			message: expect.stringMatching(/record is closed/)
+		});
 		// the database refuses too, for a writer that did not look (intake photos, a race)
 		const raced = await storePhoto(
 			{ shopId: f.shop.id, jobId: f.job.id, entryId: null, uploadedBy: f.owner.id },
