@@ -64,6 +64,11 @@ test('a closed record takes no more photos: the job card says so and the API ans
 
 	const foreman = await browser.newPage();
 	await signIn(foreman, demo.foreman);
+	// the Bench says so and offers no camera button on the job's entries
+	await foreman.goto('/bench?job=1001');
+	await expect(foreman.getByTestId('log-closed')).toContainText('record is closed');
+	await expect(foreman.getByTestId('log-entry').first()).toBeVisible();
+	await expect(foreman.getByTestId('photo-input')).toHaveCount(0);
 	const id = await jobId(1001);
 	const [first] = await db()`select id from log_entry where job_id = ${id} limit 1`;
 	const res = await foreman.request.post(`/api/jobs/${id}/entries/${first.id}/photos`, {
