@@ -5,6 +5,7 @@ import { and, eq } from 'drizzle-orm';
 import { drizzle } from 'drizzle-orm/postgres-js';
 import postgres from 'postgres';
 import * as s from '../src/lib/server/db/schema.ts';
+import { activeStates } from '../src/lib/jobs/states.ts';
 import { hashPassword } from '../src/lib/server/password.ts';
 import {
 	demoAccounts,
@@ -610,6 +611,10 @@ async function main() {
 		const now = Date.now();
 		const ago = (minutes: number) => new Date(now - minutes * 60_000);
 
+		// Only a job on the floor takes entries (drizzle/0013): a job whose demo history ends ready
+		// to invoice, invoiced, paid or cancelled is written in work, its log filled, then moved.
+		const closeAtEnd: { id: string; state: (typeof s.jobStateEnum.enumValues)[number] }[] = [];
+
 		/** Creates a job card with procedures copied onto it, like intake does. */
 		async function makeJob(opts: {
 			number: number;
@@ -636,12 +641,13 @@ async function main() {
 					concern: opts.concern,
 					technicianId: opts.tech?.id ?? null,
 					bay: opts.bay,
-					state: opts.state,
+					state: activeStates.includes(opts.state) ? opts.state : 'in_work',
 					stateReason: opts.reason ?? null,
 					createdBy: writer.id,
 					createdAt: ago(opts.createdMinutesAgo)
 				})
 				.returning();
+			if (!activeStates.includes(opts.state)) closeAtEnd.push({ id: j.id, state: opts.state });
 			await tx.insert(s.jobStateChange).values({
 				shopId: shop.id,
 				jobId: j.id,
@@ -988,6 +994,9 @@ async function main() {
 			.update(s.job)
 			.set({ signedOffBy: foreman.id, signedOffAt: ago(190) })
 			.where(eq(s.job.id, billable.job.id));
+		for (const c of closeAtEnd) {
+			await tx.update(s.job).set({ state: c.state }).where(eq(s.job.id, c.id));
+		}
 	});
 
 	// A second shop, so that shop scoping is visible in the demo and testable.

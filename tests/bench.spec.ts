@@ -84,6 +84,27 @@ test.describe('the Bench', () => {
 		await expect(page.getByTestId('answer')).toHaveCount(0);
 	});
 
+	test('"history <step>" shows its past readings on this vehicle without logging', async ({
+		page
+	}) => {
+		// Job 1041's motorcycle has six past paid services with the rear axle nut torqued (seed).
+		await openJob(page, 1041);
+		const before = await rows(page).count();
+		await call(page, 'history rear axle');
+		await expect(page.getByTestId('candidate').first()).toContainText('Show past readings');
+		await page.keyboard.press('Enter');
+		const panel = page.getByTestId('step-history');
+		await expect(panel).toContainText('Rear axle nut');
+		expect(await panel.getByTestId('history-reading').count()).toBeGreaterThanOrEqual(6);
+		// newest first: the last past service (job 1021) comes before the first one (job 1001)
+		const text = await panel.innerText();
+		expect(text.indexOf('1021')).toBeGreaterThan(-1);
+		expect(text.indexOf('1021')).toBeLessThan(text.indexOf('1001'));
+		await expect(rows(page)).toHaveCount(before);
+		await panel.getByRole('button', { name: 'Close' }).click();
+		await expect(panel).toHaveCount(0);
+	});
+
 	test('undo strikes through your last entry and keeps both in the log', async ({ page }) => {
 		await openJob(page, 1041);
 		const t = tag();

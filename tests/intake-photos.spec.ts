@@ -1,5 +1,6 @@
 import { expect, test } from '@playwright/test';
 import { demo, signIn } from './helpers/auth';
+import { db, jobId } from './helpers/bench-db';
 
 // A 1×1 PNG: the 8-byte PNG signature, IHDR, IDAT and IEND chunks.
 const png = Buffer.from(
@@ -49,4 +50,35 @@ test("another shop cannot read a shop's intake photo", async ({ browser }) => {
 	expect(res.status()).toBe(404);
 	await writer.close();
 	await other.close();
+});
+
+test('a closed record takes no more photos: the job card says so and the API answers 409', async ({
+	page,
+	browser
+}) => {
+	// Job 1001 is a paid past service with one entry (seed).
+	await signIn(page, demo.writer);
+	await page.goto('/jobs/1001');
+	await expect(page.getByTestId('photos-closed')).toContainText('record is closed');
+	await expect(page.getByRole('button', { name: 'Add photos' })).toHaveCount(0);
+
+	const foreman = await browser.newPage();
+	await signIn(foreman, demo.foreman);
+	// the Bench says so and offers no camera button on the job's entries
+	await foreman.goto('/bench?job=1001');
+	await expect(foreman.getByTestId('log-closed')).toContainText('record is closed');
+	await expect(foreman.getByTestId('log-entry').first()).toBeVisible();
+	await expect(foreman.getByTestId('photo-input')).toHaveCount(0);
+	const id = await jobId(1001);
+	const [first] = await db()`select id from log_entry where job_id = ${id} limit 1`;
+	const res = await foreman.request.post(`/api/jobs/${id}/entries/${first.id}/photos`, {
+		// what the Bench's own upload sends: the app's origin (form posts from elsewhere are refused)
+		headers: { origin: new URL(foreman.url()).origin },
+		multipart: { photo: { name: 'late.png', mimeType: 'image/png', buffer: png } }
+	});
+	expect(res.status()).toBe(409);
+	expect((await res.json()).message).toMatch(/record is closed/);
+	const [{ n }] = await db()`select count(*)::int as n from attachment where job_id = ${id}`;
+	expect(n).toBe(0);
+	await foreman.close();
 });

@@ -243,6 +243,8 @@ export const rules: Record<string, Rule> = {
 	'POST /api/jobs/[jobId]/final-inspection': r(401, 400, 403, 400, 400, 404, {
 		foreignBody: json({ reason: 'Security check' })
 	}),
+	// No ?step= in the matrix: let in, query refused (tests/bench.spec.ts reads a real history).
+	'GET /api/jobs/[jobId]/history': r(401, 400, 403, 400, 400, 404),
 	'GET /api/jobs/[jobId]/steps': r(401, 200, 200, 200, 200, 404),
 	'GET /api/jobs/[jobId]/stream': r(401, 200, 200, 200, 200, 404),
 	'GET /api/photos/[photoId]': r(401, 200, 200, 200, 200, 404),

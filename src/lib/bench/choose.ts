@@ -9,7 +9,8 @@ export const pickableIntents: readonly ParsedPhrase['intent'][] = [
 	'measure',
 	'done',
 	'part',
-	'spec'
+	'spec',
+	'history'
 ];
 
 export function withStep(

@@ -70,3 +70,21 @@ export interface EntryView {
 	recordedAt: string;
 	photos: { id: string; fileName: string }[];
 }
+
+/** "history <step>" on the Bench: a step's past readings on the job's vehicle, newest first. */
+export interface StepHistoryView {
+	stepLabel: string;
+	unit: string | null;
+	registration: string | null;
+	/** Readings across the vehicle's jobs (this one included), at most `limit`, newest first. */
+	readings: {
+		entryId: string;
+		jobNumber: number;
+		thisJob: boolean;
+		occurredAt: string;
+		value: number;
+		verdict: Verdict | null;
+	}[];
+	/** All readings of the step on the vehicle (more than shown when over the limit). */
+	total: number;
+}

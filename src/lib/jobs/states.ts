@@ -25,3 +25,16 @@ export const stateLabels: Record<JobState, string> = {
 	on_hold: 'On hold',
 	cancelled: 'Cancelled'
 };
+
+/**
+ * States whose record is closed: the job log and its photos take nothing more (the database
+ * holds the same list: drizzle/0013). New work on the vehicle goes on a new job card.
+ */
+export const closedStates: readonly JobState[] = ['invoiced', 'paid', 'cancelled'];
+
+/** The words for a closed record, for the Bench and the job card (null while it is open). */
+export function closedRecordNote(state: JobState): string | null {
+	return closedStates.includes(state)
+		? `This job is ${stateLabels[state].toLowerCase()}: its record is closed and takes no more entries or photos.`
+		: null;
+}

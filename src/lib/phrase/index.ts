@@ -18,6 +18,7 @@ import { extractGrade, fluidJudgement } from './fluid';
 import { findNumbers, type NumberSpan } from './numbers';
 import { namesNumber, readPair } from './pairs';
 import { MAX_PHRASE_CHARS, normalizeText, tokenize } from './text';
+import { historyWords } from './history';
 import { defaultTimeZone, extractTime } from './time';
 
 export { wordsToNumber, findNumbers, readNumberAt } from './numbers';
@@ -46,7 +47,8 @@ export interface PhraseContext {
 	tolerancePct?: number;
 }
 
-export type Intent = 'measure' | 'part' | 'note' | 'next' | 'spec' | 'done' | 'undo' | 'unknown';
+export type Intent =
+	'measure' | 'part' | 'note' | 'next' | 'spec' | 'history' | 'done' | 'undo' | 'unknown';
 export type Verdict = 'in' | 'low' | 'high' | 'no_spec';
 export type { FluidVerdict } from './fluid';
 import type { FluidVerdict } from './fluid';
@@ -414,6 +416,19 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		return r;
 	}
 
+	// history: "history rear axle", "rear axle history", "past readings for the chain slack"
+	// (never a phrase with a value in it, nor one that starts as a part or a step done)
+	const historyOf =
+		startsWith(tokens, PART_PREFIXES) || startsWith(tokens, DONE_PREFIXES)
+			? null
+			: historyWords(tokens);
+	if (historyOf && findNumbers(historyOf).length === 0) {
+		r.intent = 'history';
+		r.occurredAt = null;
+		pickStep(r, historyOf, vocabulary, null, 'history');
+		return r;
+	}
+
 	// part: "new drain plug washer", "replaced the air filter", "spark plugs replaced"
 	const partPre = startsWith(tokens, PART_PREFIXES);
 	const partSuf = partPre ? 0 : endsWith(tokens, PART_SUFFIXES);
@@ -510,7 +525,7 @@ function pickStep(
 	tokens: string[],
 	vocabulary: Vocabulary,
 	accept: ((step: StepSpec) => boolean) | null,
-	purpose: 'spec' | 'part' | 'done' | 'measure'
+	purpose: 'spec' | 'history' | 'part' | 'done' | 'measure'
 ): StepSpec | null {
 	const { steps, index } = vocabulary;
 	const words = toMatchTokens(tokens);
@@ -547,8 +562,9 @@ function pickStep(
 	return step;
 }
 
-function whichStep(purpose: 'spec' | 'done' | 'measure' | 'part'): string {
+function whichStep(purpose: 'spec' | 'history' | 'done' | 'measure' | 'part'): string {
 	if (purpose === 'spec') return 'Which step? e.g. "spec rear axle".';
+	if (purpose === 'history') return 'Which step? e.g. "history rear axle".';
 	if (purpose === 'done') return 'Which step is done? e.g. "done test ride".';
 	return 'Which step? Say its name with the value, e.g. "rear axle 80 Nm".';
 }
@@ -892,6 +908,8 @@ export function readBack(parsed: ParsedPhrase, steps: StepSpec[]): string {
 				return label && step
 					? `${label}: spec ${formatSpec(step, { spoken: true })}`
 					: (problem ?? 'Which step?');
+			case 'history':
+				return label ? `${label}: past readings on this vehicle` : (problem ?? 'Which step?');
 			case 'next':
 				return label ? `Next: ${label}` : (problem ?? 'Nothing next.');
 			case 'undo':

@@ -24,3 +24,18 @@ export function readDate(text: string): Date | null {
 	const d = new Date(text);
 	return Number.isNaN(d.getTime()) ? null : d;
 }
+
+/**
+ * How far before its job card was opened an entry may be dated: work begun the evening before
+ * the card was typed up the next morning (our rule, not a standard). Earlier is a slip of the
+ * tongue ("yesterday at …" meant today) or a device clock gone wrong.
+ */
+export const BACKDATE_BEFORE_OPENING_MS = 24 * 60 * 60_000;
+
+export const beforeOpeningMessage =
+	'That time is more than a day before this job card was opened: nothing was logged. Say the time again, or log it without one.';
+
+/** True when an entry dated `at` lies further before the job's opening than allowed. */
+export function beforeOpening(at: Date, openedAt: Date): boolean {
+	return at.getTime() < openedAt.getTime() - BACKDATE_BEFORE_OPENING_MS;
+}

@@ -143,7 +143,7 @@ describe('appendEntry', () => {
 	});
 
 	it('keeps a phrase time and never stores a time ahead of the server beyond clock skew', async () => {
-		const f = await makeShop('Bench');
+		const f = await makeShop('Bench', { jobOpenedAt: new Date('2026-12-02T08:00:00Z') });
 		const now = new Date('2026-12-02T10:00:00Z');
 		const future = await appendEntry(
 			as(f.tech),
@@ -169,7 +169,7 @@ describe('appendEntry', () => {
 	});
 
 	it('records the torque tool and whether its calibration was overdue', async () => {
-		const f = await makeShop('Bench');
+		const f = await makeShop('Bench', { jobOpenedAt: new Date('2026-12-02T08:00:00Z') });
 		const [tool] = await db
 			.insert(s.torqueTool)
 			.values({
@@ -584,5 +584,48 @@ describe('a closed record takes no entries (issue 21)', () => {
 			toState: 'in_work',
 			reason: expect.stringMatching(/Work found/)
 		});
+	});
+});
+
+describe('an entry dated before its job was opened', () => {
+	const opened = new Date('2026-12-02T08:00:00Z');
+	const now = new Date('2026-12-02T10:00:00Z');
+
+	it('is refused with words beyond a day before the opening, on either append path', async () => {
+		const f = await makeShop('Opened', { jobOpenedAt: opened });
+		// 23 hours before the opening is still allowed (the card typed up the morning after)
+		const early = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('rear axle 88 nm', { occurredAt: '2026-12-01T09:00:00Z' }),
+			now
+		);
+		expect(entryOf(early).occurredAt).toBe('2026-12-01T09:00:00.000Z');
+		// the job's steps are now in memory: this one would go through the group-commit path
+		for (const body of [
+			post('rear axle 90 nm', { occurredAt: '2026-12-01T07:59:00Z' }),
+			post('rear axle 90 nm', { occurredAt: '2026-11-02T10:00:00Z' }),
+			post('rear axle 90 nm yesterday at 07:30')
+		]) {
+			const r = await appendEntry(as(f.tech), f.job.id, body, now);
+			expect(r, body.text).toEqual({
+				status: 422,
+				message: expect.stringMatching(/more than a day before this job card was opened/)
+			});
+		}
+		expect(await rowsOf(f)).toHaveLength(1);
+	});
+
+	it('is refused on the first append too (the full path), and for an undo', async () => {
+		const f = await makeShop('Opened first', { jobOpenedAt: opened });
+		const old = { occurredAt: '2026-11-30T10:00:00Z' };
+		expect(
+			(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm', old), now)).status
+		).toBe(422);
+		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'), now)).status).toBe(
+			201
+		);
+		expect((await appendEntry(as(f.tech), f.job.id, post('undo', old), now)).status).toBe(422);
+		expect(await rowsOf(f)).toHaveLength(1);
 	});
 });

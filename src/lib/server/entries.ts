@@ -5,7 +5,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
 import { withStep } from '$lib/bench/choose';
 import { checkTransition } from '$lib/jobs/machine';
-import { stateLabels, type JobState } from '$lib/jobs/states';
+import { closedStates, stateLabels, type JobState } from '$lib/jobs/states';
 import {
 	parsePhrase,
 	type FluidVerdict,
@@ -20,10 +20,15 @@ import type { BenchStep, EntryView, StepDefinition } from '$lib/bench/types';
 import { announceEntry } from './announce';
 import { client, db } from './db';
 import { entrySelect, jobLogPageSql } from './entries-sql';
-import { isDatabaseUnavailable } from './db/errors';
+import { isClosedRecord, isDatabaseUnavailable } from './db/errors';
+import {
+	BACKDATE_BEFORE_OPENING_MS,
+	beforeOpening,
+	beforeOpeningMessage
+} from '$lib/schemas/dates';
 import { transitionJob } from './jobs';
 import * as s from './db/schema';
-import { storePhoto } from './photos';
+import { closedPhotoMessage, storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
 
 export type { BenchStep, EntryView, StepDefinition };
@@ -72,6 +77,12 @@ export type AppendResult =
 	| { status: 403 | 404 | 409 | 422; message: string };
 
 const NOT_FOUND = 'No such job.';
+/** A close that won a race with the write (drizzle/0013 refused it in the inserting statement). */
+const CLOSED_MEANWHILE = {
+	status: 409 as const,
+	message:
+		'This job was closed meanwhile: its record takes no more entries. Open a new job card for new work.'
+};
 
 // --- jobs and steps ---------------------------------------------------------------------------
 
@@ -125,20 +136,15 @@ export function mayWrite(actor: Actor, job: Pick<BenchJob, 'technicianId'>): boo
 
 /** The job's steps in order, each done once it has a live (not retracted) entry. */
 export async function listSteps(shopId: string, jobId: string): Promise<BenchStep[]> {
+	// Done and the latest verdict as job_step_state holds them (drizzle/0011): one definition for
+	// the Bench, the state machine, the Jobs list and the Floor (a redo makes a step not done).
 	const rows = await db.execute(sql`
-		with live as (
-			select e.job_step_id, e.kind, e.verdict, e.seq from log_entry e
-			where e.shop_id = ${shopId} and e.job_id = ${jobId}
-			  and e.kind in ('measure', 'done', 'part') and e.job_step_id is not null
-			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
-		)
 		select st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min, st.max, st.caution,
 			st.fluid, jp.id as procedure_id, jp.name as procedure_name,
-			exists (select 1 from live where live.job_step_id = st.id) as done,
-			(select live.verdict from live where live.job_step_id = st.id and live.kind = 'measure'
-				order by live.seq desc limit 1) as last_verdict
+			coalesce(ss.done, false) as done, ss.latest_verdict as last_verdict
 		from job_step st
 		join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id
+		left join job_step_state ss on ss.shop_id = st.shop_id and ss.job_step_id = st.id
 		where st.shop_id = ${shopId} and st.job_id = ${jobId}
 		order by jp.position, st.position
 	`);
@@ -405,6 +411,7 @@ const appendContextQuery = db
 		state: s.job.state,
 		technicianId: s.job.technicianId,
 		stepsVersion: s.job.stepsVersion,
+		openedAt: s.job.createdAt,
 		pct: s.shop.defaultTolerancePct
 	})
 	.from(s.job)
@@ -418,6 +425,7 @@ async function appendContext(shopId: string, jobId: string) {
 	if (!row) return null;
 	return {
 		job: { id: row.id, state: row.state, technicianId: row.technicianId },
+		openedAt: row.openedAt,
 		stepsVersion: row.stepsVersion,
 		pct: row.pct
 	};
@@ -580,6 +588,7 @@ async function writeBatch(batch: Waiting[]) {
 				join job j on j.id = r."jobId" and j.shop_id = r."shopId"
 					and j.state in ('open', 'in_work', 'final_inspection', 'on_hold')
 					and j.steps_version = r."stepsVersion" and (r."anyJob" or j.technician_id = r."authorId")
+					and r."occurredAt" >= j.created_at - ${BACKDATE_BEFORE_OPENING_MS} * interval '1 millisecond'
 				join shop sh on sh.id = j.shop_id and sh.default_tolerance_pct = r.pct
 			), e as (
 				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
@@ -648,6 +657,13 @@ interface NewEntry {
 	occurredAt: string;
 }
 
+/** The time an entry is stored with: the phrase's back-date, else the device's time. */
+function entryTime(read: { parsed: ParsedPhrase; deviceTime: Date }, now: Date): Date {
+	return read.parsed.occurredAt
+		? clampTime(new Date(read.parsed.occurredAt), now)
+		: clampTime(read.deviceTime, now);
+}
+
 function newEntry(
 	actor: Actor,
 	jobId: string,
@@ -659,9 +675,7 @@ function newEntry(
 ): NewEntry {
 	const { parsed } = read;
 	const measured = parsed.intent === 'measure';
-	const occurredAt = parsed.occurredAt
-		? clampTime(new Date(parsed.occurredAt), now)
-		: clampTime(read.deviceTime, now);
+	const occurredAt = entryTime(read, now);
 	return {
 		id: input.id,
 		shopId: actor.shopId,
@@ -741,8 +755,11 @@ async function appendChecked(
 			? answer(again.parsed, live)
 			: { status: 422, message: 'That step is not on this job.' };
 	}
+	if (beforeOpening(entryTime(read, now), ctx.openedAt)) {
+		return { status: 422, message: beforeOpeningMessage };
+	}
 	if (parsed.intent === 'undo' || input.retracts) {
-		return retract(actor, job, input, deviceTime);
+		return refusedIfClosed(retract(actor, job, input, deviceTime));
 	}
 
 	const step = stepOf(steps, parsed);
@@ -759,7 +776,7 @@ async function appendChecked(
 
 	const entry = newEntry(actor, jobId, input, read, step, tool, now);
 	// One round trip, prepared (postgres.js keeps it per connection): the insert, and the row.
-	const [row] = await client`
+	const inserted = await refusedIfClosed(client`
 		with e as (
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
 				value, unit, spec_value, spec_unit, verdict, fluid, fluid_verdict, note, torque_tool_id,
@@ -772,7 +789,9 @@ async function appendChecked(
 			on conflict (id) do nothing
 			returning *
 		)
-		${readBack} ${readBackFrom}`;
+		${readBack} ${readBackFrom}`);
+	if (!Array.isArray(inserted)) return inserted; // refused: the job closed meanwhile
+	const [row] = inserted;
 	if (!row) {
 		return (
 			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
@@ -782,6 +801,16 @@ async function appendChecked(
 		);
 	}
 	return stored(actor, jobId, row, job.state);
+}
+
+/** A write refused by drizzle/0013 (a close won the race) answers 409 with words. */
+async function refusedIfClosed<T>(write: PromiseLike<T>): Promise<T | typeof CLOSED_MEANWHILE> {
+	try {
+		return await write;
+	} catch (err) {
+		if (isClosedRecord(err)) return CLOSED_MEANWHILE;
+		throw err;
+	}
 }
 
 /** The answer to "next" or "spec …": the step with its spec and caution; nothing is written. */
@@ -794,9 +823,6 @@ function answer(parsed: ParsedPhrase, steps: BenchStep[]): AppendResult {
 	}
 	return { status: 200, answer: { intent, step: shown, message: describeStep(shown, intent) } };
 }
-
-/** States whose record is closed: nothing more is written to the job's log. */
-const closedStates: readonly JobState[] = ['invoiced', 'paid', 'cancelled'];
 
 /**
  * The state machine at the append: a closed job refuses entries with a 409 (a device's retry of
@@ -855,6 +881,8 @@ function refusal(parsed: ParsedPhrase, step: StepDefinition | null): string | nu
 			return parsed.note ? null : (parsed.problems[0] ?? 'Say which part was fitted.');
 		case 'done':
 			return step ? null : (parsed.problems[0] ?? 'Say which step is done.');
+		case 'history':
+			return '"history …" shows a step\'s past readings on the Bench; it logs nothing.';
 		case 'measure':
 			if (!step) return parsed.problems[0] ?? 'No step of this job matches that phrase.';
 			if (!parsed.quantity || parsed.verdict === null) {
@@ -1039,7 +1067,7 @@ export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 // --- photos -----------------------------------------------------------------------------------
 
 export type PhotoResult =
-	{ status: 201; entry: EntryView } | { status: 400 | 403 | 404; message: string };
+	{ status: 201; entry: EntryView } | { status: 400 | 403 | 404 | 409; message: string };
 
 /** Attaches a photo to an entry of the job: type checked from the bytes, at most 10 MB. */
 export async function attachPhoto(
@@ -1052,6 +1080,7 @@ export async function attachPhoto(
 	const job = await getJob(actor.shopId, jobId);
 	if (!job) return { status: 404, message: NOT_FOUND };
 	if (!mayWrite(actor, job)) return { status: 403, message: 'This job is not assigned to you.' };
+	if (closedStates.includes(job.state)) return { status: 409, message: closedPhotoMessage };
 	if (!isUuid(entryId)) return { status: 404, message: 'No such entry on this job.' };
 	const [entry] = await db
 		.select({ id: s.logEntry.id })
@@ -1069,7 +1098,7 @@ export async function attachPhoto(
 		file,
 		storage
 	);
-	if (!stored.ok) return { status: 400, message: stored.message };
+	if (!stored.ok) return { status: stored.closed ? 409 : 400, message: stored.message };
 	return { status: 201, entry: (await readEntry(actor.shopId, entryId))! };
 }
 

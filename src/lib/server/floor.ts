@@ -10,6 +10,7 @@ export type { OpenRedo };
 import { activeStates, type JobState } from '$lib/jobs/states';
 import { announceEntry } from './announce';
 import { db } from './db';
+import { isClosedRecord } from './db/errors';
 import { readJson } from './request';
 import * as s from './db/schema';
 import {
@@ -247,11 +248,18 @@ async function requireOpenItem(shopId: string, entryId: string): Promise<QueueIt
 	return item;
 }
 
+/** drizzle/0013 refused the entry: the job's record closed before it was written. */
+function refuseClosed(err: unknown): never {
+	if (isClosedRecord(err)) error(409, 'This job’s record is closed: it takes no more entries.');
+	throw err;
+}
+
 async function appendEntry(values: typeof s.logEntry.$inferInsert) {
 	const [row] = await db
 		.insert(s.logEntry)
 		.values(values)
-		.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
+		.returning({ id: s.logEntry.id, seq: s.logEntry.seq })
+		.catch(refuseClosed);
 	void announceEntry({
 		seq: row.seq,
 		id: row.id,
@@ -487,7 +495,8 @@ export async function signOff(actor: Actor, jobId: string) {
 				source: 'typed',
 				occurredAt: now
 			})
-			.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
+			.returning({ id: s.logEntry.id, seq: s.logEntry.seq })
+			.catch(refuseClosed);
 		return row;
 	});
 	void announceEntry({ ...entry, shopId: actor.shopId, jobId, kind: 'sign_off' });

@@ -78,25 +78,16 @@ export async function transitionFacts(
 	jobId: string,
 	tx: Tx | typeof db = db
 ): Promise<TransitionFacts> {
+	// Done steps and out-of-spec entries waiting for an answer as job_step_state holds them
+	// (drizzle/0011, kept in the appending transaction): the same definition the Bench, the Jobs
+	// list and the Floor read.
 	const [row] = await tx.execute(sql`
-		with live as (
-			select e.* from log_entry e
-			where e.shop_id = ${shopId} and e.job_id = ${jobId}
-			  and e.kind <> 'retraction'
-			  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
-		),
-		latest as (
-			select distinct on (job_step_id) id, job_step_id, verdict
-			from live where kind = 'measure' and job_step_id is not null
-			order by job_step_id, seq desc
-		)
 		select
 			(select count(*) from job_step s where s.shop_id = ${shopId} and s.job_id = ${jobId})::int as steps_total,
-			(select count(distinct job_step_id) from live
-				where kind in ('measure', 'done', 'part') and job_step_id is not null)::int as steps_done,
-			(select count(*) from latest where verdict in ('low', 'high')
-				and not exists (select 1 from live a where a.kind = 'accept' and a.responds_to = latest.id)
-			)::int as open_out_of_spec,
+			(select count(*) from job_step_state x
+				where x.shop_id = ${shopId} and x.job_id = ${jobId} and x.done)::int as steps_done,
+			(select count(*) from job_step_state x
+				where x.shop_id = ${shopId} and x.job_id = ${jobId} and x.waiting)::int as open_out_of_spec,
 			(select signed_off_at is not null from job where id = ${jobId} and shop_id = ${shopId}) as signed_off,
 			(select from_state from job_state_change c
 				where c.job_id = ${jobId} and c.shop_id = ${shopId} and c.to_state = 'on_hold'

@@ -3,11 +3,18 @@
 import { and, asc, eq, isNull } from 'drizzle-orm';
 import { checkFileName, checkPhoto } from '$lib/uploads/check';
 import { db } from './db';
+import { isClosedRecord } from './db/errors';
 import * as s from './db/schema';
 import { uploads, type FileStorage } from './storage';
 import { keepThumb } from './thumbs';
 
-export type StoreResult = { ok: true; id: string } | { ok: false; message: string };
+export type StoreResult =
+	| { ok: true; id: string }
+	/** `closed`: the job's record is closed (invoiced, paid or cancelled): a 409, not a 400. */
+	| { ok: false; message: string; closed?: true };
+
+export const closedPhotoMessage =
+	'This job’s record is closed (invoiced, paid or cancelled): it takes no more photos.';
 
 /**
  * Checks and stores one photo for a job of the shop (the caller has checked the job and the
@@ -39,6 +46,7 @@ export async function storePhoto(
 		});
 	} catch (e) {
 		await storage.remove(key).catch(() => {});
+		if (isClosedRecord(e)) return { ok: false, message: closedPhotoMessage, closed: true };
 		throw e;
 	}
 	await keepThumb(storage, key);

@@ -5,23 +5,11 @@ import { mailFrom, sendMail } from './mail';
 import { normalizeRegistration, normalizeVin, toDate } from '$lib/vehicles/vin';
 import type { JobState } from '$lib/jobs/states';
 import { serviceDue, type DueItem, type LastDone, type Reading } from '$lib/vehicles/due';
+import type { StepPoint, StepSeries, VehicleRow } from '$lib/vehicles/types';
+
+export type { StepPoint, StepSeries, VehicleRow };
 
 const SEARCH_LIMIT = 50;
-
-export interface VehicleRow {
-	id: string;
-	registration: string;
-	vin: string | null;
-	make: string;
-	model: string;
-	year: number | null;
-	customerId: string | null;
-	customerName: string | null;
-	customerPhone: string | null;
-	jobs: number;
-	lastJobAt: Date | null;
-	lastOdometer: number | null;
-}
 
 const vehicleColumns = client`
 	v.id, v.registration, v.frame_number as vin, v.make, v.model, v.year, v.colour,
@@ -113,22 +101,6 @@ export async function vehicleJobs(shopId: string, vehicleId: string): Promise<Ve
 		concern: r.concern,
 		procedures: r.procedures
 	}));
-}
-
-export interface StepPoint {
-	entryId: string;
-	jobNumber: number;
-	on: Date;
-	value: number;
-	verdict: string | null;
-	min: number | null;
-	max: number | null;
-}
-
-export interface StepSeries {
-	label: string;
-	unit: string;
-	points: StepPoint[];
 }
 
 /**

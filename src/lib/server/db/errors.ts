@@ -47,3 +47,12 @@ export function isDatabaseUnavailable(e: unknown, depth = 0): boolean {
 		return true;
 	return isDatabaseUnavailable(err.cause, depth + 1);
 }
+
+/**
+ * True for drizzle/0013's refusal of an entry or photo on a job whose record is closed
+ * (SQLSTATE BC409), raw or wrapped by Drizzle: a close won a race with the write.
+ */
+export function isClosedRecord(e: unknown): boolean {
+	const err = e as { code?: string; cause?: { code?: string } } | null;
+	return err?.code === 'BC409' || err?.cause?.code === 'BC409';
+}

@@ -3,7 +3,12 @@
 import { db } from './index';
 import * as s from './schema';
 
-export async function makeShop(name: string) {
+/**
+ * A shop with an owner, a technician, a customer, a vehicle and one job in work with one step.
+ * `jobOpenedAt` dates the job card: a test that appends at a fixed `now` opens the job before
+ * it (entries may be dated at most a day before the job's opening).
+ */
+export async function makeShop(name: string, opts: { jobOpenedAt?: Date } = {}) {
 	const tag = crypto.randomUUID().slice(0, 8);
 	const [shop] = await db
 		.insert(s.shop)
@@ -54,7 +59,8 @@ export async function makeShop(name: string) {
 			customerId: customer.id,
 			vehicleId: vehicle.id,
 			technicianId: users[1].id,
-			state: 'in_work'
+			state: 'in_work',
+			...(opts.jobOpenedAt ? { createdAt: opts.jobOpenedAt } : {})
 		})
 		.returning();
 	const [jobProcedure] = await db

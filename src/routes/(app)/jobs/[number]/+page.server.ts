@@ -1,5 +1,6 @@
 import { error, fail } from '@sveltejs/kit';
 import { checkTransition } from '$lib/jobs/machine';
+import { closedStates } from '$lib/jobs/states';
 import { assignSchema, extraWorkSchema, transitionSchema } from '$lib/schemas/job';
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
@@ -12,7 +13,7 @@ import {
 	listTechnicians
 } from '$lib/server/job-cards';
 import { stateHistory, transitionFacts, transitionJob } from '$lib/server/jobs';
-import { listIntakePhotos, storePhoto } from '$lib/server/photos';
+import { closedPhotoMessage, listIntakePhotos, storePhoto } from '$lib/server/photos';
 import { listProcedures } from '$lib/server/procedures';
 import { MAX_PHOTO_BYTES, isTooLarge } from '$lib/uploads/check';
 import type { Actions, PageServerLoad } from './$types';
@@ -62,6 +63,9 @@ export const actions = {
 	photo: async ({ request, params }) => {
 		const user = requireRole('service_writer', 'owner');
 		const card = await cardOr404(user.shopId, params.number);
+		if (closedStates.includes(card.job.state)) {
+			return fail(409, { action: 'photo', errors: formError(closedPhotoMessage) });
+		}
 		let form: FormData;
 		try {
 			form = await request.formData();

@@ -1,10 +1,9 @@
 import { requireRole } from '$lib/server/auth';
-import { client } from '$lib/server/db';
-import { verifyChains } from '$lib/server/chain-verify';
+import { verifyShopChains } from '$lib/server/evidence-for-job';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
 	const user = requireRole('owner');
-	const report = await verifyChains(client, user.shopId);
+	const report = await verifyShopChains(user.shopId);
 	return { report, checkedAt: new Date() };
 };
