@@ -1,4 +1,5 @@
 // Forms of the Shop settings: rates and policies, the price list, torque tools.
+import { formatGrade, parseFluidSpec } from '$lib/oil/fluid';
 import { z } from 'zod';
 import { inWindow, outOfWindow } from './dates';
 import { canonicalLocale, canonicalTimeZone } from '$lib/format';
@@ -74,19 +75,46 @@ export const settingsSchema = z.object({
 		)
 });
 
-export const partSchema = z.object({
-	partId: z.union([z.uuid(), z.literal('')]).default(''),
-	code: z.string().trim().min(1, 'Give a code.').max(60, 'At most 60 characters.'),
-	description: z
-		.string()
-		.trim()
-		.min(1, 'Describe the part or fluid.')
-		.max(200, 'At most 200 characters.'),
-	unit: z.enum(['each', 'L', 'mL'], { error: 'Pick each, L or mL.' }),
-	priceMinor: num('the price', 0, 100_000_000).pipe(
-		z.number().int('The price is in minor units (whole cents).')
-	)
-});
+export const partSchema = z
+	.object({
+		partId: z.union([z.uuid(), z.literal('')]).default(''),
+		code: z.string().trim().min(1, 'Give a code.').max(60, 'At most 60 characters.'),
+		description: z
+			.string()
+			.trim()
+			.min(1, 'Describe the part or fluid.')
+			.max(200, 'At most 200 characters.'),
+		unit: z.enum(['each', 'L', 'mL'], { error: 'Pick each, L or mL.' }),
+		priceMinor: num('the price', 0, 100_000_000).pipe(
+			z.number().int('The price is in minor units (whole cents).')
+		),
+		/** A fluid's grade, stored normalised ("SAE 10W-40 · JASO MA2"); empty: none. */
+		fluid: z
+			.string()
+			.trim()
+			.max(120, 'At most 120 characters.')
+			.default('')
+			.transform((v, ctx) => {
+				if (!v) return null;
+				const g = parseFluidSpec(v);
+				if (!g || g.problems.length) {
+					ctx.addIssue({
+						code: 'custom',
+						message: g?.problems[0] ?? 'Write the grade as the label does.'
+					});
+					return z.NEVER;
+				}
+				if (g.sae.length > 1) {
+					ctx.addIssue({ code: 'custom', message: 'One fluid has one SAE grade.' });
+					return z.NEVER;
+				}
+				return formatGrade(g);
+			})
+	})
+	.refine((p) => p.fluid === null || p.unit !== 'each', {
+		path: ['fluid'],
+		message: 'Only fluids sold by the litre or millilitre carry a grade.'
+	});
 
 export const toolSchema = z
 	.object({
@@ -121,6 +149,20 @@ export const toolSchema = z
 				const n = Number(v);
 				if (!Number.isInteger(n) || n < 1 || n > 120) {
 					ctx.addIssue({ code: 'custom', message: 'Whole months from 1 to 120.' });
+					return z.NEVER;
+				}
+				return n;
+			}),
+		/** Centre of the drive to the handle's load mark, for settings with an adapter. */
+		effectiveLengthMm: z
+			.string()
+			.trim()
+			.default('')
+			.transform((v, ctx) => {
+				if (!v) return null;
+				const n = Number(v.replace(',', '.'));
+				if (!Number.isFinite(n) || n <= 0 || n > 3000) {
+					ctx.addIssue({ code: 'custom', message: 'A length in mm, above 0 and at most 3000.' });
 					return z.NEVER;
 				}
 				return n;

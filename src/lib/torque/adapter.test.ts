@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { inToolUnit, signedLength, wrenchSetting } from './adapter';
+import {
+	adapterFromMm,
+	adapterLine,
+	adapterPreview,
+	inToolUnit,
+	signedLength,
+	wrenchSetting
+} from './adapter';
 
 // Length units cancel in L / (L + E), so the published examples in inches and feet check the
 // formula as they stand; Benchcall itself keeps lengths in mm.
@@ -54,5 +61,58 @@ describe('wrench setting with an adapter (T × L / (L + E))', () => {
 		expect(inToolUnit(nm, 'N.m', '[lbf_av].[ft_i]')).toBeCloseTo((40 * 300) / 350, 4);
 		expect(inToolUnit(10, 'N.m', 'N.m')).toBe(10);
 		expect(inToolUnit(10, 'N.m', 'mm')).toBeNull();
+	});
+});
+
+describe('the adapter on screen', () => {
+	const step = { unit: 'N.m', nominal: null, min: 80, max: 90 };
+	const tool = { effectiveLengthMm: 300, unit: 'N.m' };
+
+	it('the setting for the torque said, else for the middle of the spec', () => {
+		const said = adapterPreview(
+			{ lengthMm: 50, direction: 'out' },
+			{ value: 88, unit: 'N.m' },
+			step,
+			tool
+		);
+		expect(said).toMatchObject({ words: 'adapter 50 mm', target: 88, from: 'said', problem: null });
+		expect(said.setting).toBeCloseTo((88 * 300) / 350, 10);
+		const spec = adapterPreview({ lengthMm: 50, direction: 'back' }, null, step, tool);
+		expect(spec).toMatchObject({ target: 85, from: 'spec', words: 'adapter 50 mm pointing back' });
+		expect(spec.setting).toBeCloseTo((85 * 300) / 250, 10);
+	});
+
+	it('in the wrench’s unit when it differs', () => {
+		// 2.6 kgf·m = 25.49729 N·m (common practice, exact via g_n = 9.80665 m/s²)
+		const r = adapterPreview(
+			{ lengthMm: 0, direction: 'square' },
+			{ value: 25.49729, unit: 'N.m' },
+			{ unit: 'N.m', nominal: 25.5, min: null, max: null },
+			{ effectiveLengthMm: null, unit: 'kgf.m' }
+		);
+		expect(r.setting).toBe(25.49729);
+		expect(r.inTool?.unit).toBe('kgf.m');
+		expect(r.inTool?.value).toBeCloseTo(2.6, 5);
+	});
+
+	it('asks for what is missing', () => {
+		const noTorque = adapterPreview(
+			{ lengthMm: 50, direction: 'out' },
+			null,
+			{ unit: 'N.m', nominal: null, min: 80, max: null },
+			tool
+		);
+		expect(noTorque.problem).toMatch(/Say the torque/);
+		expect(adapterPreview({ lengthMm: 50, direction: 'out' }, null, step, null).problem).toMatch(
+			/Pick the torque tool/
+		);
+	});
+
+	it('the job log’s line for a stored entry', () => {
+		expect(adapterLine(50, 75.428571, 'N.m')).toBe('adapter 50 mm · set 75.4 N·m');
+		expect(adapterLine(-50, 102, 'N.m')).toBe('adapter 50 mm pointing back · set 102 N·m');
+		expect(adapterLine(0, 22, 'N.m')).toBe('crowfoot at 90° · no correction');
+		expect(adapterLine(50, null, null)).toMatch(/not worked out/);
+		expect(adapterFromMm(-12)).toEqual({ lengthMm: 12, direction: 'back' });
 	});
 });

@@ -11,7 +11,7 @@
  * crowfoot turned at 90° to the wrench, which adds no length along the lever and needs no
  * correction. Pure; never throws (see `wrenchSetting`).
  */
-import { canConvert, convert } from '../units';
+import { canConvert, convert, formatNumber, formatQuantity } from '../units';
 
 /** An adapter as stated: its length in mm and how it sits on the wrench. */
 export interface Adapter {
@@ -77,4 +77,94 @@ export function wrenchSetting(
 export function inToolUnit(setting: number, unit: string, toolUnit: string): number | null {
 	if (unit === toolUnit) return setting;
 	return canConvert(unit, toolUnit) ? convert(setting, unit, toolUnit) : null;
+}
+
+/** The adapter from its stored signed length (mm along the lever). */
+export function adapterFromMm(mm: number): Adapter {
+	if (mm === 0) return { lengthMm: 0, direction: 'square' };
+	return { lengthMm: Math.abs(mm), direction: mm < 0 ? 'back' : 'out' };
+}
+
+/** The adapter in words: "adapter 50 mm", "adapter 50 mm pointing back", "crowfoot at 90°". */
+export function adapterWords(a: Adapter): string {
+	if (a.direction === 'square') return 'crowfoot at 90°';
+	const len = `${formatNumber(a.lengthMm, { maxDecimals: 1 })} mm`;
+	return a.direction === 'back' ? `adapter ${len} pointing back` : `adapter ${len}`;
+}
+
+/** A logged entry's adapter and setting, for the job log: "adapter 50 mm · set 73.3 N·m". */
+export function adapterLine(
+	adapterMm: number,
+	setting: number | null,
+	settingUnit: string | null
+): string {
+	const a = adapterFromMm(adapterMm);
+	if (a.direction === 'square') return `${adapterWords(a)} · no correction`;
+	const set =
+		setting !== null && settingUnit
+			? `set ${formatQuantity(setting, settingUnit, { maxDecimals: 1 })}`
+			: 'setting not worked out (no tool length)';
+	return `${adapterWords(a)} · ${set}`;
+}
+
+export interface AdapterPreview {
+	/** "adapter 50 mm", "crowfoot at 90°". */
+	words: string;
+	/** The torque wanted at the fastener, in the step's unit (said, else the spec's). */
+	target: number | null;
+	/** Where the target came from. */
+	from: 'said' | 'spec' | null;
+	setting: number | null;
+	/** The setting in the tool's unit when it differs from the step's. */
+	inTool: { value: number; unit: string } | null;
+	problem: string | null;
+}
+
+/**
+ * What the call bar shows for an adapter: the setting for the torque said, or for the step's
+ * spec (its nominal, else the middle of its band) when no torque was said yet.
+ */
+export function adapterPreview(
+	adapter: Adapter,
+	said: { value: number; unit: string } | null,
+	step: { unit: string | null; nominal: number | null; min: number | null; max: number | null },
+	tool: { effectiveLengthMm: number | null; unit: string } | null
+): AdapterPreview {
+	const words = adapterWords(adapter);
+	const unit = step.unit;
+	let target: number | null = null;
+	let from: AdapterPreview['from'] = null;
+	if (said && said.unit === unit) {
+		target = said.value;
+		from = 'said';
+	} else if (step.nominal !== null) {
+		target = step.nominal;
+		from = 'spec';
+	} else if (step.min !== null && step.max !== null) {
+		target = (step.min + step.max) / 2;
+		from = 'spec';
+	}
+	if (target === null || !unit) {
+		return {
+			words,
+			target,
+			from,
+			setting: null,
+			inTool: null,
+			problem: 'Say the torque to work out the setting.'
+		};
+	}
+	const r = wrenchSetting(target, tool?.effectiveLengthMm, adapter);
+	const other =
+		r.setting !== null && tool && tool.unit !== unit
+			? inToolUnit(r.setting, unit, tool.unit)
+			: null;
+	return {
+		words,
+		target,
+		from,
+		setting: r.setting,
+		inTool: other === null || !tool ? null : { value: other, unit: tool.unit },
+		problem: r.problem
+	};
 }
