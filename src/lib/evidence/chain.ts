@@ -34,45 +34,25 @@ export const CANONICAL_KEYS_V1 = [
 	'verdict'
 ] as const;
 
-/**
- * Version 2 (drizzle/0012): version 1 plus the fluid grade and its verdict, and the torque
- * adapter with the wrench's length and setting; every entry written since carries it.
- */
-export const CANONICAL_KEYS = [
+/** The keys version 2 (drizzle/0012) adds: the fluid grade and its verdict, the torque adapter. */
+const ADDED_IN_V2 = [
 	'adapter_mm',
-	'author_id',
 	'fluid',
 	'fluid_verdict',
-	'id',
-	'inspection_item_id',
-	'job_id',
-	'job_step_id',
-	'kind',
-	'note',
-	'occurred_at',
-	'part_id',
-	'part_quantity',
-	'pos',
-	'prev',
-	'raw_text',
-	'recorded_at',
-	'responds_to',
-	'retracts',
-	'shop_id',
-	'source',
-	'spec_unit',
-	'spec_value',
-	'tool_calibration_overdue',
 	'tool_length_mm',
-	'torque_tool_id',
-	'unit',
-	'v',
-	'value',
-	'verdict',
 	'wrench_setting',
 	'wrench_setting_unit'
 ] as const;
-export type CanonicalKey = (typeof CANONICAL_KEYS)[number];
+export type CanonicalKey = (typeof CANONICAL_KEYS_V1)[number] | (typeof ADDED_IN_V2)[number];
+
+/**
+ * Keys of version 2, every entry written since drizzle/0012, in code point order (a plain sort
+ * orders these ASCII keys the same way).
+ */
+export const CANONICAL_KEYS: readonly CanonicalKey[] = [
+	...CANONICAL_KEYS_V1,
+	...ADDED_IN_V2
+].sort();
 
 /** An entry's fields in their text form (null stays null); `v` is the entry's chain version. */
 export type ChainFields = Record<CanonicalKey, string | null>;

@@ -2,6 +2,7 @@
 import { formatGrade, parseFluidSpec } from '$lib/oil/fluid';
 import { z } from 'zod';
 import { inWindow, outOfWindow } from './dates';
+import { optionalNumber } from './form';
 import { canonicalLocale, canonicalTimeZone } from '$lib/format';
 import { isKnownCurrency } from '$lib/money';
 import { isKnownUnit, dimensionOf } from '$lib/units';
@@ -140,33 +141,15 @@ export const toolSchema = z
 				z.literal('')
 			])
 			.default(''),
-		intervalMonths: z
-			.string()
-			.trim()
-			.default('')
-			.transform((v, ctx) => {
-				if (!v) return null;
-				const n = Number(v);
-				if (!Number.isInteger(n) || n < 1 || n > 120) {
-					ctx.addIssue({ code: 'custom', message: 'Whole months from 1 to 120.' });
-					return z.NEVER;
-				}
-				return n;
-			}),
+		intervalMonths: optionalNumber(
+			(n) => Number.isInteger(n) && n >= 1 && n <= 120,
+			'Whole months from 1 to 120.'
+		),
 		/** Centre of the drive to the handle's load mark, for settings with an adapter. */
-		effectiveLengthMm: z
-			.string()
-			.trim()
-			.default('')
-			.transform((v, ctx) => {
-				if (!v) return null;
-				const n = Number(v.replace(',', '.'));
-				if (!Number.isFinite(n) || n <= 0 || n > 3000) {
-					ctx.addIssue({ code: 'custom', message: 'A length in mm, above 0 and at most 3000.' });
-					return z.NEVER;
-				}
-				return n;
-			})
+		effectiveLengthMm: optionalNumber(
+			(n) => n > 0 && n <= 3000,
+			'A length in mm, above 0 and at most 3000.'
+		)
 	})
 	.refine((t) => t.rangeMin < t.rangeMax, {
 		path: ['rangeMax'],

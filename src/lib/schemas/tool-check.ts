@@ -2,6 +2,7 @@
 // test point (fields set_<i> and r_<i>_<k>, i the point, k the reading).
 import { z } from 'zod';
 import { inWindow, outOfWindow } from './dates';
+import { optionalNumber } from './form';
 
 /** At most this many test points and readings a point (ISO 6789-2 asks for 3 and 5). */
 export const MAX_POINTS = 6;
@@ -27,19 +28,7 @@ export const toolCheckSchema = z.object({
 		.min(1, 'Say who checked the tool (a person or a laboratory).')
 		.max(120, 'At most 120 characters.'),
 	tester: z.string().trim().max(120, 'At most 120 characters.').default(''),
-	permissiblePct: z
-		.string()
-		.trim()
-		.default('')
-		.transform((v, ctx) => {
-			if (!v) return null;
-			const n = Number(v.replace(',', '.').replace('%', ''));
-			if (!Number.isFinite(n) || n <= 0 || n > 50) {
-				ctx.addIssue({ code: 'custom', message: 'A percentage above 0 and at most 50.' });
-				return z.NEVER;
-			}
-			return n;
-		}),
+	permissiblePct: optionalNumber((n) => n > 0 && n <= 50, 'A percentage above 0 and at most 50.'),
 	note: z
 		.string()
 		.trim()
