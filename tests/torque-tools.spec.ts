@@ -36,6 +36,14 @@ test('the Bench works out the wrench setting for an adapter and keeps it with th
 	await expect(page.getByTestId('candidate').first().getByTestId('preview-setting')).toHaveText(
 		'55 N·m'
 	);
+	// picked once beside the tool instead of said: the preview works it out the same way
+	await page.getByTestId('adapter-direction').selectOption('out');
+	await page.getByTestId('adapter-length').fill('50');
+	await bar(page).fill('lower mount 55 nm');
+	await expect(page.getByTestId('candidate').first().getByTestId('preview-setting')).toHaveText(
+		'47.4 N·m'
+	);
+	await page.getByTestId('adapter-direction').selectOption('none');
 	// leave the demo job's log as it was seen by the other tests
 	await bar(page).fill('undo');
 	await page.keyboard.press('Enter');

@@ -15,7 +15,7 @@ import {
 } from '$lib/phrase';
 import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
-import { signedLength, wrenchSetting } from '$lib/torque/adapter';
+import { adapterFromMm, signedLength, wrenchSetting } from '$lib/torque/adapter';
 import { dimensionOf, formatQuantity } from '$lib/units';
 import type { BenchStep, EntryView, StepDefinition } from '$lib/bench/types';
 import { announceEntry } from './announce';
@@ -390,6 +390,8 @@ export interface AppendInput {
 	source: 'typed' | 'voice';
 	occurredAt?: string;
 	torqueToolId?: string | null;
+	/** An adapter picked on the Bench (signed mm); one said in the text wins. */
+	adapterMm?: number | null;
 	stepId?: string;
 	retracts?: string;
 }
@@ -511,6 +513,7 @@ async function appendToKnownJob(
 	const read = readPhrase(set.specs, pct, input, now);
 	// an adapter's setting needs the tool: the full path works it out and stores it
 	if (!read || !isLogged(read.parsed.intent) || read.parsed.adapter) return null;
+	if (input.adapterMm !== undefined && input.adapterMm !== null) return null;
 	const step = stepOf(set.steps, read.parsed);
 	if (refusal(read.parsed, step)) return null;
 	const entry = newEntry(actor, jobId, input, read, step, null, now);
@@ -694,7 +697,11 @@ function newEntry(
 	const { parsed } = read;
 	const measured = parsed.intent === 'measure';
 	const torque = measured && step?.unit ? dimensionOf(step.unit) === 'torque' : false;
-	const adapter = torque ? parsed.adapter : null;
+	const picked =
+		input.adapterMm !== undefined && input.adapterMm !== null
+			? adapterFromMm(input.adapterMm)
+			: null;
+	const adapter = torque ? (parsed.adapter ?? picked) : null;
 	const setting =
 		adapter && parsed.specValue
 			? wrenchSetting(parsed.specValue.value, tool?.lengthMm, adapter).setting

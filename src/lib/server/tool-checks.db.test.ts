@@ -159,6 +159,31 @@ describe('torque through an adapter at the Bench', () => {
 		expect(square).toMatchObject({ adapterMm: 0, wrenchSetting: 85 });
 	});
 
+	it('takes an adapter picked on the Bench when the phrase says none; a said one wins', async () => {
+		const f = await makeShop('Adapter');
+		const tool = await addTool(f);
+		const picked = entryOf(
+			await appendEntry(tech(f), f.job.id, { ...post('rear axle 88 nm', tool.id), adapterMm: -50 })
+		);
+		expect(picked).toMatchObject({ adapterMm: -50, toolLengthMm: 300 });
+		expect(picked.wrenchSetting).toBeCloseTo((88 * 300) / 250, 10);
+		const said = entryOf(
+			await appendEntry(tech(f), f.job.id, {
+				...post('rear axle 88 nm crowfoot at 90', tool.id),
+				adapterMm: -50
+			})
+		);
+		expect(said).toMatchObject({ adapterMm: 0, wrenchSetting: 88 });
+		// a step that is not a torque keeps no adapter
+		const note = entryOf(
+			await appendEntry(tech(f), f.job.id, {
+				...post('note adapter left on', tool.id),
+				adapterMm: 50
+			})
+		);
+		expect(note.adapterMm).toBeNull();
+	});
+
 	it('keeps the adapter without a setting when no tool length is known', async () => {
 		const f = await makeShop('Adapter');
 		const tool = await addTool(f, { effectiveLengthMm: null });
