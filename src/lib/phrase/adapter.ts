@@ -55,7 +55,9 @@ const MAX_MM = 1000;
 export function extractAdapter(tokens: string[]): SaidAdapter {
 	const out: SaidAdapter = { adapter: null, problems: [], rest: tokens };
 	// "crow foot" said as two words
-	const t = tokens.findIndex((w, i) => TRIGGERS.has(w) || (w === 'crow' && tokens[i + 1] === 'foot'));
+	const t = tokens.findIndex(
+		(w, i) => TRIGGERS.has(w) || (w === 'crow' && tokens[i + 1] === 'foot')
+	);
 	if (t < 0) return out;
 	const used = new Set<number>([t]);
 	if (tokens[t] === 'crow') used.add(t + 1);
