@@ -58,9 +58,9 @@ test('a torque tool’s check: the failed tool names the jobs to revisit; a new 
 }) => {
 	await signIn(page, demo.owner);
 	await page.goto('/shop/settings');
-	// tools are listed by identifier: TW-01, TW-02, TW-03
 	await expect(page.getByTestId('tool-check-failed')).toContainText('Failed its check');
-	await page.getByTestId('tool-checks-link').nth(1).click();
+	// other tests add tools of their own: follow TW-02's own link
+	await page.locator(`a[href="/shop/tools/${await toolId('TW-02')}"]`).click();
 	await expect(page.getByRole('heading', { name: 'Torque tool TW-02' })).toBeVisible();
 	await expect(page.getByTestId('tool-state')).toContainText('Failed its last check');
 	await expect(page.getByTestId('revisit-job').first()).toBeVisible();
