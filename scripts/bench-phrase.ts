@@ -122,6 +122,7 @@ const PHRASES = [
 	'oil 1.1 L filled at 08:30',
 	'sump refill ten w forty jaso m a two 1.2 litres',
 	'front brake reservoir dot 5.1 40 ml',
+	'rear axle nut 88 nm with a 50 mm crowfoot back',
 	'blorp snark wibble',
 	'x'.repeat(10_000)
 ];

@@ -358,7 +358,8 @@ const parts = [
 		code: 'OIL-1040',
 		description: 'Engine oil SAE 10W-40, API SL, JASO MA2 (bulk)',
 		unit: 'L' as const,
-		priceMinor: 1490
+		priceMinor: 1490,
+		fluid: 'SAE 10W-40 · API SL · JASO MA2'
 	},
 	{
 		code: 'DPW-12',
@@ -405,7 +406,8 @@ const parts = [
 		code: 'BRK-DOT4',
 		description: 'Brake fluid DOT 4 (bulk)',
 		unit: 'L' as const,
-		priceMinor: 1800
+		priceMinor: 1800,
+		fluid: 'DOT 4'
 	}
 ];
 
@@ -457,7 +459,8 @@ async function main() {
 					rangeMin: 5,
 					rangeMax: 60,
 					unit: 'N.m',
-					calibratedOn: '2026-03-10'
+					calibratedOn: '2026-03-10',
+					effectiveLengthMm: 310 // demo value
 				},
 				{
 					shopId: shop.id,
@@ -466,7 +469,8 @@ async function main() {
 					rangeMin: 40,
 					rangeMax: 200,
 					unit: 'N.m',
-					calibratedOn: '2025-10-01'
+					calibratedOn: '2025-10-01',
+					effectiveLengthMm: 480 // demo value
 				},
 				{
 					shopId: shop.id,
@@ -479,6 +483,48 @@ async function main() {
 				}
 			])
 			.returning();
+		// Demo checks against the shop's tester (invented readings): TW-01 passed at its last
+		// calibration; TW-02 failed two days ago, so its recent work shows as work to look at again.
+		const owner = byRole('owner');
+		const day = (daysAgo: number) =>
+			new Date(Date.now() - daysAgo * 86_400_000).toISOString().slice(0, 10);
+		await tx.insert(s.torqueToolCheck).values([
+			{
+				shopId: shop.id,
+				torqueToolId: tools[0].id,
+				checkedOn: '2026-03-10',
+				checkedBy: 'Calibration service (demo)',
+				tester: 'Certificate DEMO-0310',
+				points: [
+					{ set: 12, readings: [12.2, 11.9, 12.1, 12.3, 12] },
+					{ set: 36, readings: [36.5, 35.8, 36.9, 36.2, 35.6] },
+					{ set: 60, readings: [61.1, 59.4, 60.8, 61.5, 60.2] }
+				],
+				unit: 'N.m',
+				permissiblePct: 4,
+				worstPct: 2.5,
+				passed: true,
+				recordedBy: owner.id
+			},
+			{
+				shopId: shop.id,
+				torqueToolId: tools[1].id,
+				checkedOn: day(2),
+				checkedBy: owner.name,
+				tester: 'Bench tester (demo)',
+				points: [
+					{ set: 40, readings: [41.1, 40.6, 41.4, 40.9, 41.2] },
+					{ set: 120, readings: [123.1, 122.6, 123.9, 122.2, 123.4] },
+					{ set: 200, readings: [207.4, 209.6, 206.8, 208.9, 207.7] }
+				],
+				unit: 'N.m',
+				permissiblePct: 4,
+				worstPct: 4.8,
+				passed: false,
+				note: 'Reads high at the top of its range; sent for adjustment (demo).',
+				recordedBy: owner.id
+			}
+		]);
 
 		const procRows = [];
 		for (const p of procedures) {

@@ -89,6 +89,7 @@ export const rules: Record<string, Rule> = {
 	'GET /(app)/shop/settings': r(S, 200, 403, 403, 403, 200),
 	'GET /(app)/shop/outbox': r(S, 200, 200, 403, 403, 200),
 	'GET /(app)/shop/log-check': r(S, 200, 403, 403, 403, 200),
+	'GET /(app)/shop/tools/[toolId]': r(S, 200, 403, 200, 403, 404),
 	'GET /(app)/shop/outbox/[id]': r(S, 200, 200, 403, 403, 404),
 	'GET /(app)/shop/outbox/[id]/attachments/[index]': r(S, 200, 200, 403, 403, 404),
 	// The customer's private page: no sign-in, the token is the key.
@@ -214,6 +215,15 @@ export const rules: Record<string, Rule> = {
 		})
 	}),
 
+	'POST /(app)/shop/tools/[toolId]?/check': r(S, 400, 403, 400, 403, 404, {
+		foreignBody: form({
+			checkedOn: '2026-12-01',
+			checkedBy: 'Security check',
+			set_0: '20',
+			r_0_0: '20.1'
+		})
+	}),
+
 	// ——— endpoints ———
 	'GET /api/floor/board': r(401, 200, 403, 200, 403, 200),
 	'GET /api/floor/log': r(401, 200, 403, 200, 403, 200),
@@ -268,6 +278,7 @@ export function paramsFor(routeId: string, t: Target): Record<string, string> {
 		token: t.token,
 		entryId: t.entryId,
 		photoId: t.photoId,
+		toolId: t.toolId,
 		...(routeId.includes('/procedures/[id]') ? { id: t.procedureId } : {}),
 		...(routeId.includes('/outbox/[id]') ? { id: t.outboxId } : {}),
 		...(routeId.includes('/vehicles/[id]') ? { id: t.vehicleId } : {}),

@@ -28,6 +28,7 @@ export async function sendEntry(e: QueuedEntry) {
 				source: e.source,
 				occurredAt: e.occurredAt,
 				torqueToolId: e.torqueToolId ?? undefined,
+				adapterMm: e.adapterMm ?? undefined,
 				stepId: e.stepId,
 				retracts: e.retracts
 			})

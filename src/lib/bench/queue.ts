@@ -13,6 +13,8 @@ export interface QueuedEntry {
 	/** When it was called out, kept while the entry waits (ISO 8601). */
 	occurredAt: string;
 	torqueToolId?: string | null;
+	/** An adapter picked on the Bench: signed mm along the lever (0: crowfoot at 90°). */
+	adapterMm?: number | null;
 	stepId?: string;
 	retracts?: string;
 	attempts: number;

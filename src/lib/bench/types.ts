@@ -64,6 +64,12 @@ export interface EntryView {
 	torqueToolId: string | null;
 	torqueTool: string | null;
 	toolCalibrationOverdue: boolean;
+	/** Adapter on the wrench: signed mm along the lever (negative: back; 0: crowfoot at 90°). */
+	adapterMm: number | null;
+	/** The tool's effective length then, and the wrench setting worked out (spec unit). */
+	toolLengthMm: number | null;
+	wrenchSetting: number | null;
+	wrenchSettingUnit: string | null;
 	retracts: string | null;
 	retractedBy: { id: string; authorName: string; at: string } | null;
 	occurredAt: string;

@@ -5,7 +5,7 @@
 import { createHash } from 'node:crypto';
 
 /** Keys of the canonical JSON, version 1, in code point order (the order they are written). */
-export const CANONICAL_KEYS = [
+export const CANONICAL_KEYS_V1 = [
 	'author_id',
 	'id',
 	'inspection_item_id',
@@ -33,19 +33,42 @@ export const CANONICAL_KEYS = [
 	'value',
 	'verdict'
 ] as const;
-export type CanonicalKey = (typeof CANONICAL_KEYS)[number];
 
-/** An entry's fields in their text form (null stays null); `v` is filled in here. */
-export type ChainFields = Record<Exclude<CanonicalKey, 'v'>, string | null>;
+/** The keys version 2 (drizzle/0012) adds: the fluid grade and its verdict, the torque adapter. */
+const ADDED_IN_V2 = [
+	'adapter_mm',
+	'fluid',
+	'fluid_verdict',
+	'tool_length_mm',
+	'wrench_setting',
+	'wrench_setting_unit'
+] as const;
+export type CanonicalKey = (typeof CANONICAL_KEYS_V1)[number] | (typeof ADDED_IN_V2)[number];
 
 /**
- * The canonical JSON: the keys above in that order, no spaces, each value null or a JSON string.
- * JSON.stringify escapes a string exactly as PostgreSQL's to_json(text) does (", \, and control
- * characters; everything else as it is), so both sides produce the same bytes.
+ * Keys of version 2, every entry written since drizzle/0012, in code point order (a plain sort
+ * orders these ASCII keys the same way).
+ */
+export const CANONICAL_KEYS: readonly CanonicalKey[] = [
+	...CANONICAL_KEYS_V1,
+	...ADDED_IN_V2
+].sort();
+
+/** An entry's fields in their text form (null stays null); `v` is the entry's chain version. */
+export type ChainFields = Record<CanonicalKey, string | null>;
+
+/**
+ * The canonical JSON: the version's keys in order, no spaces, each value null or a JSON string.
+ * An entry of version 1 (written before drizzle/0012) is rebuilt with version 1's keys, so old
+ * entries keep their hashes. JSON.stringify escapes a string exactly as PostgreSQL's
+ * to_json(text) does (", \, and control characters; everything else as it is), so both sides
+ * produce the same bytes.
  */
 export function canonicalJson(fields: ChainFields): string {
-	const parts = CANONICAL_KEYS.map((key) => {
-		const value = key === 'v' ? '1' : fields[key];
+	const v1 = fields.v === '1';
+	const keys: readonly CanonicalKey[] = v1 ? CANONICAL_KEYS_V1 : CANONICAL_KEYS;
+	const parts = keys.map((key) => {
+		const value = fields[key];
 		return `${JSON.stringify(key)}:${value === null ? 'null' : JSON.stringify(value)}`;
 	});
 	return `{${parts.join(',')}}`;

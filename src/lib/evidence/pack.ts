@@ -38,6 +38,15 @@ export const evidenceEntrySchema = z.object({
 	/** The step's spec as copied onto the job: what the verdict was judged against. */
 	spec: spec.nullable(),
 	tool: tool.nullable(),
+	/** An adapter on the wrench: signed mm along the lever, the tool's length, the setting. */
+	adapter: z
+		.object({
+			mm: z.number(),
+			toolLengthMm: z.number().nullable(),
+			setting: z.number().nullable(),
+			settingUnit: z.string().nullable()
+		})
+		.nullable(),
 	retracts: z.uuid().nullable(),
 	respondsTo: z.uuid().nullable(),
 	hash: z.string().regex(/^[0-9a-f]{64}$/),

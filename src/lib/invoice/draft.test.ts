@@ -183,4 +183,89 @@ describe('draft lines from the log', () => {
 		const b = entry({});
 		expect(liveEntries([a, r, b]).map((e) => e.id)).toEqual([b.id]);
 	});
+
+	describe('fluids by the grade that was logged', () => {
+		// Invented demo price list with grades; "SAE 10W-30, API SJ, JASO MA" is a valid
+		// J300/API/JASO triple (common practice, TRADE.md §6).
+		const graded: PriceListPart[] = [
+			...parts,
+			{
+				id: 'oil-1030',
+				code: 'OIL-1030',
+				description: 'Engine oil (bulk)',
+				unit: 'L',
+				priceMinor: 1290,
+				active: true,
+				fluid: 'SAE 10W-30 · API SJ · JASO MA'
+			},
+			{
+				id: 'oil-1040',
+				code: 'OIL-1040-MA2',
+				description: 'Engine oil (bulk)',
+				unit: 'L',
+				priceMinor: 1690,
+				active: true,
+				fluid: 'SAE 10W-40 · API SN · JASO MA2'
+			}
+		];
+
+		it('bills the item of the logged grade, and its line names the grade', () => {
+			const oil = entry({
+				jobStepId: 's-oil',
+				value: 1.2,
+				unit: 'L',
+				fluid: 'SAE 10W-40 · JASO MA2'
+			});
+			const lines = buildDraftLines({
+				...base,
+				parts: graded,
+				entries: [oil],
+				labourMode: 'flat_rate'
+			});
+			expect(lines[0]).toMatchObject({
+				kind: 'fluid',
+				partId: 'oil-1040',
+				quantity: 1.2,
+				unitPriceMinor: 1690,
+				unmatched: false,
+				description: 'Engine oil (bulk) (OIL-1040-MA2) · SAE 10W-40 · JASO MA2'
+			});
+		});
+
+		it('says so when no item has the logged grade, instead of billing another', () => {
+			// JASO T 903: MB is a different oil from MA2; nothing on the list is MB
+			const oil = entry({
+				jobStepId: 's-oil',
+				value: 1.2,
+				unit: 'L',
+				fluid: 'SAE 10W-40 · JASO MB'
+			});
+			const lines = buildDraftLines({
+				...base,
+				parts: graded,
+				entries: [oil],
+				labourMode: 'flat_rate'
+			});
+			expect(lines[0]).toMatchObject({
+				kind: 'fluid',
+				partId: null,
+				unmatched: true,
+				unitPriceMinor: 0,
+				quantity: 1.2,
+				suggestions: ['oil-1040']
+			});
+			expect(lines[0]?.description).toMatch(/Oil fill, SAE 10W-40 · JASO MB: No price-list fluid/);
+		});
+
+		it('a fill with no grade logged bills the step’s own item as before', () => {
+			const oil = entry({ jobStepId: 's-oil', value: 1.1, unit: 'L' });
+			const lines = buildDraftLines({
+				...base,
+				parts: graded,
+				entries: [oil],
+				labourMode: 'flat_rate'
+			});
+			expect(lines[0]).toMatchObject({ partId: 'oil', quantity: 1.1, unmatched: false });
+		});
+	});
 });

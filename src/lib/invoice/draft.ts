@@ -2,6 +2,7 @@
 import Fuse from 'fuse.js';
 import { canConvert, convert } from '$lib/units';
 import { clockTime } from './labour';
+import { pickByGrade } from './fluid';
 
 export type LineKind = 'part' | 'fluid' | 'labour' | 'sundry' | 'discount';
 export type LabourMode = 'flat_rate' | 'clock';
@@ -13,6 +14,8 @@ export interface PriceListPart {
 	unit: 'each' | 'L' | 'mL';
 	priceMinor: number;
 	active: boolean;
+	/** A fluid's grade as the price list writes it ("SAE 10W-40, JASO MA2", "DOT 4"). */
+	fluid?: string | null;
 }
 
 export interface JobStepRow {
@@ -36,6 +39,8 @@ export interface LogRow {
 	note: string | null;
 	retracts: string | null;
 	occurredAt: Date;
+	/** The grade as logged, normalised ("SAE 10W-30 · API SN · JASO MA2"). */
+	fluid?: string | null;
 }
 
 export interface JobProcedureRow {
@@ -185,6 +190,36 @@ export function buildDraftLines(input: DraftInput): DraftLine[] {
 		return fallback ?? 1;
 	}
 
+	/**
+	 * A fluid step whose grade was logged: the price-list fluid of that grade, its line naming
+	 * the grade; when none (or several) match, an unmatched line that says so.
+	 */
+	function gradedLine(p: PriceListPart, step: JobStepRow, e: LogRow, grade: string): DraftLine {
+		const pick = pickByGrade(
+			grade,
+			active.filter((x) => x.unit !== 'each')
+		);
+		if (pick.item) {
+			const line = partLine(pick.item, quantityFor(pick.item, e, step.partQuantity), {
+				entry: e.id,
+				step: step.id
+			});
+			return { ...line, description: `${line.description} · ${grade}` };
+		}
+		return {
+			kind: 'fluid',
+			description: `${step.label}, ${grade}: ${pick.problem}`,
+			partId: null,
+			quantity: quantityFor(p, e, step.partQuantity),
+			unit: p.unit,
+			unitPriceMinor: 0,
+			unmatched: true,
+			sourceEntryId: e.id,
+			sourceStepId: step.id,
+			suggestions: pick.near.map((x) => x.id).slice(0, 3)
+		};
+	}
+
 	// Steps with a billable part, done on this job (an entry that still counts).
 	const steps = [...input.steps].sort((a, b) => a.position - b.position);
 	for (const step of steps) {
@@ -196,6 +231,10 @@ export function buildDraftLines(input: DraftInput): DraftLine[] {
 		// A part entry for this very part on the step is billed as that entry, not twice.
 		if (onStep.some((e) => e.kind === 'part' && e.partId === step.partId)) continue;
 		const measured = onStep.filter((e) => e.kind === 'measure').at(-1);
+		if (p.unit !== 'each' && measured?.fluid) {
+			lines.push(gradedLine(p, step, measured, measured.fluid));
+			continue;
+		}
 		lines.push(partLine(p, quantityFor(p, measured, step.partQuantity), { step: step.id }));
 	}
 

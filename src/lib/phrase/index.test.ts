@@ -552,6 +552,13 @@ describe('robustness', () => {
 			'ago',
 			'minutes',
 			'10:30',
+			// the adapter's words (phrase/adapter.ts)
+			'adapter',
+			'crowfoot',
+			'back',
+			'90',
+			'degrees',
+			'mm',
 			'spec',
 			'new',
 			'done',

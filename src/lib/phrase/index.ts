@@ -15,6 +15,8 @@ import {
 } from '../units/index';
 import { FILLER_WORDS, StepIndex, toMatchTokens, type ScoredStep } from './match';
 import { extractGrade, fluidJudgement } from './fluid';
+import { extractAdapter } from './adapter';
+import type { Adapter } from '../torque/adapter';
 import { findNumbers, type NumberSpan } from './numbers';
 import { namesNumber, readPair } from './pairs';
 import { MAX_PHRASE_CHARS, normalizeText, tokenize } from './text';
@@ -89,6 +91,8 @@ export interface ParsedPhrase {
 	 * no grade was said; 'fails' when any stated part fails it; 'meets' when every one meets it.
 	 */
 	fluidVerdict: FluidVerdict | null;
+	/** An adapter on the torque wrench, as said ("adapter 50 mm", "crowfoot at 90"), or null. */
+	adapter: Adapter | null;
 }
 
 export interface PhraseParser {
@@ -319,7 +323,8 @@ function empty(): ParsedPhrase {
 		unitAssumed: false,
 		band: null,
 		fluid: null,
-		fluidVerdict: null
+		fluidVerdict: null,
+		adapter: null
 	};
 }
 
@@ -383,9 +388,12 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 	const time = extractTime(normalized, now, timeZone);
 	r.problems.push(...time.problems);
 	const said = extractGrade(tokenize(time.rest));
-	const tokens = said.rest;
 	r.fluid = said.text;
 	r.problems.push(...said.problems);
+	const fitted = extractAdapter(said.rest);
+	const tokens = fitted.rest;
+	r.adapter = fitted.adapter;
+	r.problems.push(...fitted.problems);
 	const joined = tokens.join(' ');
 
 	if (UNDO_PHRASES.has(joined)) {

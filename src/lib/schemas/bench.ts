@@ -18,6 +18,15 @@ export const entryPostSchema = z.object({
 		.refine((v) => inWindow(new Date(v)), `occurredAt: ${outOfWindow}`)
 		.optional(),
 	torqueToolId: z.uuid({ error: 'torqueToolId must be a UUID.' }).nullish(),
+	/**
+	 * An adapter picked on the Bench (not said): signed mm along the lever, negative pointing
+	 * back, 0 a crowfoot at 90°. An adapter said in the text wins.
+	 */
+	adapterMm: z
+		.number({ error: 'adapterMm must be a number of millimetres.' })
+		.min(-1000, 'adapterMm is at most 1000 mm either way.')
+		.max(1000, 'adapterMm is at most 1000 mm either way.')
+		.nullish(),
 	/** A step picked from the candidates instead of the best match. */
 	stepId: z.uuid({ error: 'stepId must be the id of a step of this job.' }).optional(),
 	/** A foreman retracting a named entry (an undo without it retracts the author's last one). */

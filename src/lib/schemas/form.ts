@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import { z } from 'zod';
 
 /** Field errors keyed by field, first message each: what a form shows beside its fields. */
 export function fieldErrors(error: z.ZodError): Record<string, string> {
@@ -26,4 +26,24 @@ export function echoValues(form: FormData, omit: string[] = ['password']): Recor
 /** A message for the whole form, in the same shape as field errors. */
 export function formError(message: string, field = 'form'): Record<string, string> {
 	return { [field]: message };
+}
+
+/**
+ * An optional number field: empty is null; otherwise a number (a decimal comma and a trailing
+ * "%" accepted) that `ok` accepts, or `message` on the field.
+ */
+export function optionalNumber(ok: (n: number) => boolean, message: string) {
+	return z
+		.string()
+		.trim()
+		.default('')
+		.transform((v, ctx) => {
+			if (!v) return null;
+			const n = Number(v.replace(',', '.').replace(/\s*%$/, ''));
+			if (!Number.isFinite(n) || !ok(n)) {
+				ctx.addIssue({ code: 'custom', message });
+				return z.NEVER;
+			}
+			return n;
+		});
 }

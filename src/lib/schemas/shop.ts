@@ -1,6 +1,8 @@
 // Forms of the Shop settings: rates and policies, the price list, torque tools.
+import { formatGrade, parseFluidSpec } from '$lib/oil/fluid';
 import { z } from 'zod';
 import { inWindow, outOfWindow } from './dates';
+import { optionalNumber } from './form';
 import { canonicalLocale, canonicalTimeZone } from '$lib/format';
 import { isKnownCurrency } from '$lib/money';
 import { isKnownUnit, dimensionOf } from '$lib/units';
@@ -74,19 +76,46 @@ export const settingsSchema = z.object({
 		)
 });
 
-export const partSchema = z.object({
-	partId: z.union([z.uuid(), z.literal('')]).default(''),
-	code: z.string().trim().min(1, 'Give a code.').max(60, 'At most 60 characters.'),
-	description: z
-		.string()
-		.trim()
-		.min(1, 'Describe the part or fluid.')
-		.max(200, 'At most 200 characters.'),
-	unit: z.enum(['each', 'L', 'mL'], { error: 'Pick each, L or mL.' }),
-	priceMinor: num('the price', 0, 100_000_000).pipe(
-		z.number().int('The price is in minor units (whole cents).')
-	)
-});
+export const partSchema = z
+	.object({
+		partId: z.union([z.uuid(), z.literal('')]).default(''),
+		code: z.string().trim().min(1, 'Give a code.').max(60, 'At most 60 characters.'),
+		description: z
+			.string()
+			.trim()
+			.min(1, 'Describe the part or fluid.')
+			.max(200, 'At most 200 characters.'),
+		unit: z.enum(['each', 'L', 'mL'], { error: 'Pick each, L or mL.' }),
+		priceMinor: num('the price', 0, 100_000_000).pipe(
+			z.number().int('The price is in minor units (whole cents).')
+		),
+		/** A fluid's grade, stored normalised ("SAE 10W-40 · JASO MA2"); empty: none. */
+		fluid: z
+			.string()
+			.trim()
+			.max(120, 'At most 120 characters.')
+			.default('')
+			.transform((v, ctx) => {
+				if (!v) return null;
+				const g = parseFluidSpec(v);
+				if (!g || g.problems.length) {
+					ctx.addIssue({
+						code: 'custom',
+						message: g?.problems[0] ?? 'Write the grade as the label does.'
+					});
+					return z.NEVER;
+				}
+				if (g.sae.length > 1) {
+					ctx.addIssue({ code: 'custom', message: 'One fluid has one SAE grade.' });
+					return z.NEVER;
+				}
+				return formatGrade(g);
+			})
+	})
+	.refine((p) => p.fluid === null || p.unit !== 'each', {
+		path: ['fluid'],
+		message: 'Only fluids sold by the litre or millilitre carry a grade.'
+	});
 
 export const toolSchema = z
 	.object({
@@ -112,19 +141,15 @@ export const toolSchema = z
 				z.literal('')
 			])
 			.default(''),
-		intervalMonths: z
-			.string()
-			.trim()
-			.default('')
-			.transform((v, ctx) => {
-				if (!v) return null;
-				const n = Number(v);
-				if (!Number.isInteger(n) || n < 1 || n > 120) {
-					ctx.addIssue({ code: 'custom', message: 'Whole months from 1 to 120.' });
-					return z.NEVER;
-				}
-				return n;
-			})
+		intervalMonths: optionalNumber(
+			(n) => Number.isInteger(n) && n >= 1 && n <= 120,
+			'Whole months from 1 to 120.'
+		),
+		/** Centre of the drive to the handle's load mark, for settings with an adapter. */
+		effectiveLengthMm: optionalNumber(
+			(n) => n > 0 && n <= 3000,
+			'A length in mm, above 0 and at most 3000.'
+		)
 	})
 	.refine((t) => t.rangeMin < t.rangeMax, {
 		path: ['rangeMax'],

@@ -32,12 +32,18 @@ const ENTRY_COLUMNS = `e.shop_id::text as shop_id, e.author_id::text as author_i
 	e.retracts::text as retracts, e.source::text as source, e.spec_unit,
 	e.spec_value::text as spec_value, e.tool_calibration_overdue::text as tool_calibration_overdue,
 	e.torque_tool_id::text as torque_tool_id, e.unit, e.value::text as value,
-	e.verdict::text as verdict, e.entry_hash`;
+	e.verdict::text as verdict, e.entry_hash, e.chain_v::text as v,
+	e.adapter_mm::text as adapter_mm, e.fluid, e.fluid_verdict,
+	e.tool_length_mm::text as tool_length_mm, e.wrench_setting::text as wrench_setting,
+	e.wrench_setting_unit`;
 
 export function chainFields(row: Record<string, unknown>): ChainFields {
 	const t = (k: string) => (row[k] === null || row[k] === undefined ? null : String(row[k]));
 	return {
+		adapter_mm: t('adapter_mm'),
 		author_id: t('author_id'),
+		fluid: t('fluid'),
+		fluid_verdict: t('fluid_verdict'),
 		id: t('id'),
 		inspection_item_id: t('inspection_item_id'),
 		job_id: t('job_id'),
@@ -58,10 +64,14 @@ export function chainFields(row: Record<string, unknown>): ChainFields {
 		spec_unit: t('spec_unit'),
 		spec_value: t('spec_value'),
 		tool_calibration_overdue: t('tool_calibration_overdue'),
+		tool_length_mm: t('tool_length_mm'),
 		torque_tool_id: t('torque_tool_id'),
 		unit: t('unit'),
+		v: t('v'),
 		value: t('value'),
-		verdict: t('verdict')
+		verdict: t('verdict'),
+		wrench_setting: t('wrench_setting'),
+		wrench_setting_unit: t('wrench_setting_unit')
 	};
 }
 

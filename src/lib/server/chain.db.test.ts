@@ -140,9 +140,16 @@ describe('the job log hash chain', () => {
 						note: t,
 						source: 'typed',
 						value: v,
+						// version 2's columns (drizzle/0012), with the same text and numbers
+						fluid: t,
+						adapterMm: Math.max(-1000, Math.min(1000, v)),
+						toolLengthMm: Math.abs(v) || 1,
+						wrenchSetting: Math.abs(v) || 1,
+						wrenchSettingUnit: t,
 						occurredAt: new Date()
 					})
 					.returning();
+				expect(row.chainV).toBe(2);
 				const [db1] = await client`
 					select log_entry_canonical(e) as c from log_entry e where id = ${row.id}`;
 				let mine = '';
@@ -156,5 +163,43 @@ describe('the job log hash chain', () => {
 		);
 		const report = await verifyChains(client, f.shop.id);
 		expect(report).toMatchObject({ entries: 40, breaks: [] });
+	});
+
+	it('keeps verifying entries hashed as version 1 before the adapter and grade joined the hash', async () => {
+		const f = await makeShop('Chain');
+		const [row] = await fourEntries(f);
+		// An entry as drizzle/0010 wrote it: version 1, hashed without the new keys. A job with
+		// one entry, so its head is the entry itself.
+		const g = await makeShop('Chain');
+		const [old] = await fourEntries(g).then((r) => r.slice(0, 1));
+		await behindTheAppsBack(async (sql) => {
+			await sql`delete from log_entry where job_id = ${g.job.id} and chain_pos > 1`;
+			await sql`update log_entry set chain_v = 1 where id = ${old.id}`;
+			await sql`update log_entry e set entry_hash = log_entry_hash(e) where id = ${old.id}`;
+			await sql`update log_chain_head h set pos = 1, hash = e.entry_hash
+				from log_entry e where e.id = ${old.id} and h.job_id = e.job_id`;
+		});
+		const [c] =
+			await client`select log_entry_canonical(e) as c from log_entry e where id = ${old.id}`;
+		expect(c.c).toContain('"v":"1"');
+		expect(c.c).not.toContain('adapter_mm');
+		let mine = '';
+		await eachChainRow(client, { jobId: g.job.id }, (rows) => {
+			mine = canonicalJson(chainFields(rows[0]));
+		});
+		expect(mine).toBe(c.c);
+		expect(await verifyChains(client, g.shop.id)).toMatchObject({ entries: 1, breaks: [] });
+		// a version 2 entry carries the new keys
+		const [c2] =
+			await client`select log_entry_canonical(e) as c from log_entry e where id = ${row.id}`;
+		expect(c2.c).toContain('"adapter_mm":null');
+		expect(c2.c).toContain('"v":"2"');
+		// and a version 1 entry whose grade is changed is not noticed by version 1 (it never held
+		// it), while a change to what version 1 did hold is
+		await behindTheAppsBack((sql) => sql`update log_entry set value = 70 where id = ${old.id}`);
+		expect((await verifyChains(client, g.shop.id)).breaks[0]).toMatchObject({
+			entryId: old.id,
+			reason: 'changed'
+		});
 	});
 });

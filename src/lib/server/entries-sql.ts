@@ -7,6 +7,7 @@ export const entrySelect = sql`
 		a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value, e.spec_unit,
 		st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal,
 		e.verdict, e.fluid, e.fluid_verdict, e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
+		e.adapter_mm, e.tool_length_mm, e.wrench_setting, e.wrench_setting_unit,
 		e.retracts, e.occurred_at, e.recorded_at,
 		rb.id as retracted_by_id, rba.name as retracted_by_name, rb.recorded_at as retracted_at,
 		coalesce((select json_agg(json_build_object('id', at.id, 'fileName', at.file_name) order by at.created_at)

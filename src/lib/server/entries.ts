@@ -15,6 +15,7 @@ import {
 } from '$lib/phrase';
 import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
+import { adapterFromMm, signedLength, wrenchSetting } from '$lib/torque/adapter';
 import { dimensionOf, formatQuantity } from '$lib/units';
 import type { BenchStep, EntryView, StepDefinition } from '$lib/bench/types';
 import { announceEntry } from './announce';
@@ -30,6 +31,7 @@ import { transitionJob } from './jobs';
 import * as s from './db/schema';
 import { closedPhotoMessage, storePhoto } from './photos';
 import { uploads, type FileStorage } from './storage';
+import { lastChecks } from './tool-checks';
 
 export type { BenchStep, EntryView, StepDefinition };
 
@@ -64,7 +66,12 @@ export interface ToolView {
 	rangeMax: number;
 	unit: string;
 	dueDate: string | null;
+	/** 'overdue' also when the tool's last check failed (`checkFailed`). */
 	state: 'ok' | 'due_soon' | 'overdue';
+	/** The date of the tool's last check when it failed; null otherwise. */
+	checkFailed: string | null;
+	/** For adapter settings; null when the owner has not given it. */
+	effectiveLengthMm: number | null;
 }
 
 export type AppendResult =
@@ -281,6 +288,7 @@ function toolStatus(
 /** The shop's active torque tools with their calibration state. */
 export async function listTools(shopId: string, today = new Date()): Promise<ToolView[]> {
 	const { months } = await shopTolerance(shopId);
+	const checks = await lastChecks(shopId);
 	const rows = await db
 		.select()
 		.from(s.torqueTool)
@@ -293,8 +301,18 @@ export async function listTools(shopId: string, today = new Date()): Promise<Too
 		rangeMin: t.rangeMin,
 		rangeMax: t.rangeMax,
 		unit: t.unit,
-		...toolStatus(t.calibratedOn, t.intervalMonths ?? months, today)
+		effectiveLengthMm: t.effectiveLengthMm,
+		...failedOr(checks.get(t.id), toolStatus(t.calibratedOn, t.intervalMonths ?? months, today))
 	}));
+}
+
+/** A failed last check marks the tool as an overdue calibration does (ISO 6789-2). */
+function failedOr(
+	last: { checkedOn: string; passed: boolean } | undefined,
+	status: { dueDate: string | null; state: ToolView['state'] }
+): Pick<ToolView, 'dueDate' | 'state' | 'checkFailed'> {
+	if (last && !last.passed) return { ...status, state: 'overdue', checkFailed: last.checkedOn };
+	return { ...status, checkFailed: null };
 }
 
 // --- the log ----------------------------------------------------------------------------------
@@ -329,6 +347,10 @@ function toEntry(r: Record<string, unknown>): EntryView {
 		torqueToolId: r.torque_tool_id as string | null,
 		torqueTool: r.torque_tool as string | null,
 		toolCalibrationOverdue: Boolean(r.tool_calibration_overdue),
+		adapterMm: (r.adapter_mm as number | null) ?? null,
+		toolLengthMm: (r.tool_length_mm as number | null) ?? null,
+		wrenchSetting: (r.wrench_setting as number | null) ?? null,
+		wrenchSettingUnit: (r.wrench_setting_unit as string | null) ?? null,
 		retracts: r.retracts as string | null,
 		retractedBy: r.retracted_by_id
 			? {
@@ -374,6 +396,8 @@ export interface AppendInput {
 	source: 'typed' | 'voice';
 	occurredAt?: string;
 	torqueToolId?: string | null;
+	/** An adapter picked on the Bench (signed mm); one said in the text wins. */
+	adapterMm?: number | null;
 	stepId?: string;
 	retracts?: string;
 }
@@ -495,7 +519,9 @@ async function appendToKnownJob(
 		return null;
 	}
 	const read = readPhrase(set.specs, pct, input, now);
-	if (!read || !isLogged(read.parsed.intent)) return null;
+	// an adapter's setting needs the tool: the full path works it out and stores it
+	if (!read || !isLogged(read.parsed.intent) || read.parsed.adapter) return null;
+	if (input.adapterMm !== undefined && input.adapterMm !== null) return null;
 	const step = stepOf(set.steps, read.parsed);
 	if (refusal(read.parsed, step)) return null;
 	const entry = newEntry(actor, jobId, input, read, step, null, now);
@@ -653,6 +679,10 @@ interface NewEntry {
 	note: string | null;
 	torqueToolId: string | null;
 	overdue: boolean;
+	adapterMm: number | null;
+	toolLengthMm: number | null;
+	wrenchSetting: number | null;
+	wrenchSettingUnit: string | null;
 	/** ISO 8601 (drizzle's client passes timestamps through as text). */
 	occurredAt: string;
 }
@@ -664,17 +694,34 @@ function entryTime(read: { parsed: ParsedPhrase; deviceTime: Date }, now: Date):
 		: clampTime(read.deviceTime, now);
 }
 
+/** The torque tool an entry is made with, as the append sees it. */
+interface BenchTool {
+	id: string;
+	overdue: boolean;
+	lengthMm: number | null;
+}
+
 function newEntry(
 	actor: Actor,
 	jobId: string,
 	input: AppendInput,
 	read: { parsed: ParsedPhrase; deviceTime: Date },
 	step: StepDefinition | null,
-	tool: { id: string; overdue: boolean } | null,
+	tool: BenchTool | null,
 	now: Date
 ): NewEntry {
 	const { parsed } = read;
 	const measured = parsed.intent === 'measure';
+	const torque = measured && step?.unit ? dimensionOf(step.unit) === 'torque' : false;
+	const picked =
+		input.adapterMm !== undefined && input.adapterMm !== null
+			? adapterFromMm(input.adapterMm)
+			: null;
+	const adapter = torque ? (parsed.adapter ?? picked) : null;
+	const setting =
+		adapter && parsed.specValue
+			? wrenchSetting(parsed.specValue.value, tool?.lengthMm, adapter).setting
+			: null;
 	const occurredAt = entryTime(read, now);
 	return {
 		id: input.id,
@@ -695,6 +742,10 @@ function newEntry(
 		note: parsed.note,
 		torqueToolId: tool?.id ?? null,
 		overdue: tool?.overdue ?? false,
+		adapterMm: adapter ? signedLength(adapter) : null,
+		toolLengthMm: adapter ? (tool?.lengthMm ?? null) : null,
+		wrenchSetting: setting,
+		wrenchSettingUnit: setting !== null ? (parsed.specValue?.unit ?? null) : null,
 		occurredAt: occurredAt.toISOString()
 	};
 }
@@ -707,6 +758,7 @@ const readBack = client`
 		a.name as author_name, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value,
 		e.spec_unit, st.min as spec_min, st.max as spec_max, st.nominal as spec_nominal, e.verdict,
 		e.fluid, e.fluid_verdict, e.note, e.torque_tool_id, tt.identifier as torque_tool, e.tool_calibration_overdue,
+		e.adapter_mm, e.tool_length_mm, e.wrench_setting, e.wrench_setting_unit,
 		e.retracts, e.occurred_at, e.recorded_at, null as retracted_by_id,
 		null as retracted_by_name, null as retracted_at, '[]'::json as photos`;
 const readBackFrom = client`
@@ -766,12 +818,12 @@ async function appendChecked(
 	const refused = refusal(parsed, step);
 	if (refused) return { status: 422, message: refused };
 
-	let tool: { id: string; overdue: boolean } | null = null;
+	let tool: BenchTool | null = null;
 	const isTorque = step?.unit ? dimensionOf(step.unit) === 'torque' : false;
 	if (input.torqueToolId && isTorque && parsed.intent === 'measure') {
 		const found = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
 		if (!found) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
-		tool = { id: found.id, overdue: found.state === 'overdue' };
+		tool = { id: found.id, overdue: found.state === 'overdue', lengthMm: found.effectiveLengthMm };
 	}
 
 	const entry = newEntry(actor, jobId, input, read, step, tool, now);
@@ -780,12 +832,14 @@ async function appendChecked(
 		with e as (
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
 				value, unit, spec_value, spec_unit, verdict, fluid, fluid_verdict, note, torque_tool_id,
-				tool_calibration_overdue, occurred_at)
+				tool_calibration_overdue, adapter_mm, tool_length_mm, wrench_setting, wrench_setting_unit,
+				occurred_at)
 			values (${entry.id}, ${entry.shopId}, ${entry.jobId}, ${entry.jobStepId}, ${entry.authorId},
 				${entry.kind}, ${entry.rawText}, ${entry.source}, ${entry.value}, ${entry.unit},
 				${entry.specValue}, ${entry.specUnit}, ${entry.verdict}, ${entry.fluid},
 				${entry.fluidVerdict}, ${entry.note},
-				${entry.torqueToolId}, ${entry.overdue}, ${entry.occurredAt})
+				${entry.torqueToolId}, ${entry.overdue}, ${entry.adapterMm}, ${entry.toolLengthMm},
+				${entry.wrenchSetting}, ${entry.wrenchSettingUnit}, ${entry.occurredAt})
 			on conflict (id) do nothing
 			returning *
 		)

@@ -1,6 +1,7 @@
 // The evidence pack as a PDF (pdfkit): the vehicle and job, every entry in chain order with
 // device and server time, who, the spec and the tool at the time, retractions and the foreman's
 // decisions, the photos downscaled one at a time (sharp), and the head hash with how to check it.
+import { adapterLine } from '$lib/torque/adapter';
 import PDFDocument from 'pdfkit';
 import { formatQuantity } from '$lib/units';
 import { verdictWords } from '$lib/invoice/report';
@@ -133,6 +134,9 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 			text(
 				`Torque tool ${e.tool.identifier}${e.tool.kind ? ` (${e.tool.kind})` : ''}: ${state} at the time`
 			);
+		}
+		if (e.adapter) {
+			text(`With ${adapterLine(e.adapter.mm, e.adapter.setting, e.adapter.settingUnit)}`);
 		}
 		const target = e.retracts ?? e.respondsTo;
 		if (target) {

@@ -71,7 +71,12 @@ async function jobWithHistory() {
 			specUnit: 'N.m',
 			verdict: 'in',
 			torqueToolId: tool.id,
-			toolCalibrationOverdue: true
+			toolCalibrationOverdue: true,
+			// a 50 mm adapter on a 300 mm wrench: set 86.29852 × 300 / 350 (TRADE.md §5's formula)
+			adapterMm: 50,
+			toolLengthMm: 300,
+			wrenchSetting: (86.29852 * 300) / 350,
+			wrenchSettingUnit: 'N.m'
 		})
 		.returning();
 	const [over] = await db
@@ -113,8 +118,11 @@ describe('the evidence pack', () => {
 			step: 'Rear axle nut',
 			spec: { unit: 'N.m', min: 80, max: 96 },
 			tool: { identifier: 'TW-07', calibrationOverdueAtTheTime: true },
+			adapter: { mm: 50, toolLengthMm: 300, settingUnit: 'N.m' },
 			verdict: 'in'
 		});
+		expect(g.adapter?.setting).toBeCloseTo(73.97, 2);
+		expect(pack.entries.find((e) => e.id === low.id)?.adapter).toBeNull();
 		expect(g.deviceTime).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{6}Z$/);
 		expect(pack.entries[1]).toMatchObject({ kind: 'retraction', retracts: low.id });
 		expect(pack.vehicle?.registration).toBe(f.vehicle.registration);
@@ -159,6 +167,7 @@ describe('the evidence pack', () => {
 		expect(text).toContain(pack.chain.headHash!);
 		expect(text).toContain('Torque tool TW-07');
 		expect(text).toContain('calibration OVERDUE at the time');
+		expect(text).toContain('With adapter 50 mm');
 		expect(text).toContain('Withdraws #1');
 		expect(text).toContain('Within the wrench accuracy');
 		expect(text).toContain('axle.jpg');

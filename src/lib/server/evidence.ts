@@ -85,6 +85,15 @@ export async function loadEvidence(
 							calibratedOn: str(x.tool_calibrated_on)
 						}
 					: null,
+				adapter:
+					row.adapter_mm === null || row.adapter_mm === undefined
+						? null
+						: {
+								mm: Number(row.adapter_mm),
+								toolLengthMm: num(row.tool_length_mm),
+								setting: num(row.wrench_setting),
+								settingUnit: str(row.wrench_setting_unit)
+							},
 				retracts: str(row.retracts),
 				respondsTo: str(row.responds_to),
 				hash: String(row.entry_hash),

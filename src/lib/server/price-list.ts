@@ -23,13 +23,15 @@ export async function savePart(
 		description: string;
 		unit: 'each' | 'L' | 'mL';
 		priceMinor: number;
+		fluid?: string | null;
 	}
 ): Promise<PartResult> {
 	const values = {
 		code: input.code,
 		description: input.description,
 		unit: input.unit,
-		priceMinor: input.priceMinor
+		priceMinor: input.priceMinor,
+		fluid: input.fluid ?? null
 	};
 	try {
 		if (input.partId) {

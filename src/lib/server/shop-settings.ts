@@ -41,6 +41,7 @@ export async function saveTool(
 		unit: string;
 		calibratedOn: string;
 		intervalMonths: number | null;
+		effectiveLengthMm?: number | null;
 	}
 ): Promise<{ ok: true } | { ok: false; field?: string; message: string; status?: 404 }> {
 	const values = {
@@ -50,7 +51,8 @@ export async function saveTool(
 		rangeMax: input.rangeMax,
 		unit: input.unit,
 		calibratedOn: input.calibratedOn || null,
-		intervalMonths: input.intervalMonths
+		intervalMonths: input.intervalMonths,
+		effectiveLengthMm: input.effectiveLengthMm ?? null
 	};
 	try {
 		if (input.toolId) {

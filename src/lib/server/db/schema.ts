@@ -8,9 +8,11 @@ import {
 	doublePrecision,
 	index,
 	integer,
+	jsonb,
 	pgEnum,
 	pgTable,
 	primaryKey,
+	smallint,
 	text,
 	timestamp,
 	uniqueIndex,
@@ -152,6 +154,8 @@ export const part = pgTable(
 		description: text('description').notNull(),
 		unit: partUnitEnum('unit').notNull().default('each'),
 		priceMinor: integer('price_minor').notNull(),
+		/** A fluid's grade as the label writes it ("SAE 10W-30, API SN, JASO MA2", "DOT 4"). */
+		fluid: text('fluid'),
 		active: boolean('active').notNull().default(true),
 		createdAt: createdAt()
 	},
@@ -174,12 +178,53 @@ export const torqueTool = pgTable(
 		calibratedOn: date('calibrated_on', { mode: 'string' }),
 		/** Overrides the shop's calibration interval when set. */
 		intervalMonths: integer('interval_months'),
+		/** From the centre of the drive to the handle's load mark, in mm: for adapter settings. */
+		effectiveLengthMm: doublePrecision('effective_length_mm'),
 		active: boolean('active').notNull().default(true),
 		createdAt: createdAt()
 	},
 	(t) => [uniqueIndex('torque_tool_shop_identifier_key').on(t.shopId, t.identifier)]
 );
 export type TorqueTool = typeof torqueTool.$inferSelect;
+
+/** One set value on the tester and what the tester showed at each reading. */
+export interface CheckPoint {
+	set: number;
+	readings: number[];
+}
+
+/**
+ * A torque tool's check against a tester (ISO 6789-2): the readings at each test point, the
+ * permissible deviation applied and the outcome. Kept whole; a new check is a new row.
+ */
+export const torqueToolCheck = pgTable(
+	'torque_tool_check',
+	{
+		id: id(),
+		shopId: shopRef(),
+		torqueToolId: uuid('torque_tool_id')
+			.notNull()
+			.references(() => torqueTool.id, { onDelete: 'cascade' }),
+		checkedOn: date('checked_on', { mode: 'string' }).notNull(),
+		/** Who checked it, or the laboratory, as the owner writes it. */
+		checkedBy: text('checked_by').notNull(),
+		/** The tester or certificate used. */
+		tester: text('tester').notNull().default(''),
+		points: jsonb('points').$type<CheckPoint[]>().notNull(),
+		/** Unit of the set values and readings (the tool's, UCUM). */
+		unit: text('unit').notNull(),
+		permissiblePct: doublePrecision('permissible_pct').notNull(),
+		worstPct: doublePrecision('worst_pct').notNull(),
+		passed: boolean('passed').notNull(),
+		note: text('note'),
+		recordedBy: uuid('recorded_by')
+			.notNull()
+			.references(() => user.id),
+		createdAt: createdAt()
+	},
+	(t) => [index('torque_tool_check_tool_idx').on(t.torqueToolId, t.checkedOn)]
+);
+export type TorqueToolCheck = typeof torqueToolCheck.$inferSelect;
 
 export const procedure = pgTable(
 	'procedure',
@@ -405,6 +450,12 @@ export const logEntry = pgTable(
 		torqueToolId: uuid('torque_tool_id').references(() => torqueTool.id, { onDelete: 'set null' }),
 		/** The torque tool was past its calibration due date when this entry was made. */
 		toolCalibrationOverdue: boolean('tool_calibration_overdue').notNull().default(false),
+		/** Adapter on the wrench, signed mm along the lever (negative: back; 0: at 90°). */
+		adapterMm: doublePrecision('adapter_mm'),
+		/** The tool's effective length when the entry was made, and the setting worked out. */
+		toolLengthMm: doublePrecision('tool_length_mm'),
+		wrenchSetting: doublePrecision('wrench_setting'),
+		wrenchSettingUnit: text('wrench_setting_unit'),
 		retracts: uuid('retracts').references((): AnyPgColumn => logEntry.id),
 		/** For a foreman's accept or redo: the out-of-spec entry it answers. */
 		respondsTo: uuid('responds_to').references((): AnyPgColumn => logEntry.id),
@@ -421,7 +472,9 @@ export const logEntry = pgTable(
 		 */
 		chainPos: integer('chain_pos').notNull().default(0),
 		prevHash: text('prev_hash'),
-		entryHash: text('entry_hash').notNull().default('')
+		entryHash: text('entry_hash').notNull().default(''),
+		/** The canonical form's version this entry was hashed with (1 before drizzle/0012). */
+		chainV: smallint('chain_v').notNull().default(2)
 	},
 	(t) => [
 		uniqueIndex('log_entry_seq_key').on(t.seq),

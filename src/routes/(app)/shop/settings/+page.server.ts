@@ -19,15 +19,17 @@ import { listParts, savePart } from '$lib/server/price-list';
 import { getShop } from '$lib/server/shop';
 import { listTools, saveTool, updateSettings } from '$lib/server/shop-settings';
 import { calibrationDue } from '$lib/torque';
+import { lastChecks } from '$lib/server/tool-checks';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
 	const user = requireRole('owner');
-	const [shop, parts, tools, checklist] = await Promise.all([
+	const [shop, parts, tools, checklist, checks] = await Promise.all([
 		getShop(user.shopId),
 		listParts(user.shopId, { all: true }),
 		listTools(user.shopId),
-		listInspectionItems(user.shopId)
+		listInspectionItems(user.shopId),
+		lastChecks(user.shopId)
 	]);
 	if (!shop) throw new Error('The signed-in user has no shop.');
 	return {
@@ -36,6 +38,7 @@ export const load: PageServerLoad = async () => {
 		checklist,
 		tools: tools.map((t) => ({
 			...t,
+			lastCheck: checks.get(t.id) ?? null,
 			// ISO 6789 / tool makers' guidance: 12 months unless the shop or the tool says otherwise.
 			due: t.calibratedOn
 				? calibrationDue(t.calibratedOn, { months: t.intervalMonths ?? shop.calibrationMonths })

@@ -1,0 +1,85 @@
+import { expect, test, type Page } from '@playwright/test';
+import { demo, signIn } from './helpers/auth';
+import { db, entry } from './helpers/bench-db';
+
+const bar = (page: Page) => page.getByRole('combobox', { name: 'Call bar' });
+
+async function toolId(identifier: string): Promise<string> {
+	const [row] = await db()`
+		select t.id from torque_tool t join shop s on s.id = t.shop_id
+		where t.identifier = ${identifier} and s.name like 'Kettle Street%'`;
+	return row.id as string;
+}
+
+test('the Bench works out the wrench setting for an adapter and keeps it with the entry', async ({
+	page
+}) => {
+	await signIn(page, demo.tomasz);
+	await page.goto('/bench?job=1042');
+	await expect(bar(page)).toBeFocused();
+	// demo tool TW-01 has an effective length of 310 mm (demo value)
+	await page.getByLabel('Torque tool in use').selectOption(await toolId('TW-01'));
+	await bar(page).fill('lower mount 55 nm adapter 50 mm');
+	const top = page.getByTestId('candidate').first();
+	// T × L / (L + E) = 55 × 310 / 360 = 47.36 N·m (the formula of TRADE.md §5's worked examples)
+	await expect(top.getByTestId('preview-setting')).toHaveText('47.4 N·m');
+	await expect(top.getByTestId('preview-adapter')).toContainText('adapter 50 mm on TW-01');
+	await page.keyboard.press('Enter');
+	const first = page.getByTestId('log-entry').first();
+	await expect(first.getByTestId('entry-adapter')).toHaveText('adapter 50 mm · set 47.4 N·m');
+	const stored = await entry((await first.getAttribute('data-entry-id'))!);
+	expect(stored).toMatchObject({ adapter_mm: 50, tool_length_mm: 310, wrench_setting_unit: 'N.m' });
+	expect(stored!.wrench_setting).toBeCloseTo((55 * 310) / 360, 9);
+
+	// a crowfoot at 90° needs no correction
+	await bar(page).fill('spec lower mount crowfoot at 90');
+	await expect(page.getByTestId('candidate').first().getByTestId('preview-setting')).toHaveText(
+		'55 N·m'
+	);
+	// picked once beside the tool instead of said: the preview works it out the same way
+	await page.getByTestId('adapter-direction').selectOption('out');
+	await page.getByTestId('adapter-length').fill('50');
+	await bar(page).fill('lower mount 55 nm');
+	await expect(page.getByTestId('candidate').first().getByTestId('preview-setting')).toHaveText(
+		'47.4 N·m'
+	);
+	await page.getByTestId('adapter-direction').selectOption('none');
+	// leave the demo job's log as it was seen by the other tests
+	await bar(page).fill('undo');
+	await page.keyboard.press('Enter');
+	await expect(page.locator(`[data-entry-id="${stored!.id}"]`)).toHaveAttribute(
+		'data-retracted',
+		'yes'
+	);
+});
+
+test('a torque tool’s check: the failed tool names the jobs to revisit; a new check is judged', async ({
+	page
+}) => {
+	await signIn(page, demo.owner);
+	await page.goto('/shop/settings');
+	await expect(page.getByTestId('tool-check-failed')).toContainText('Failed its check');
+	// other tests add tools of their own: follow TW-02's own link
+	await page.locator(`a[href="/shop/tools/${await toolId('TW-02')}"]`).click();
+	await expect(page.getByRole('heading', { name: 'Torque tool TW-02' })).toBeVisible();
+	await expect(page.getByTestId('tool-state')).toContainText('Failed its last check');
+	await expect(page.getByTestId('revisit-job').first()).toBeVisible();
+	await expect(page.getByTestId('check-row').first()).toContainText('▲ Failed');
+
+	await page.goto(`/shop/tools/${await toolId('TW-01')}`);
+	await expect(
+		page.getByText('Permissible deviation for Type II class A click: ±4 %')
+	).toBeVisible();
+	// nothing entered: said, nothing recorded
+	await page.getByRole('button', { name: 'Record the check of TW-01' }).click();
+	await expect(page.getByTestId('check-error')).toContainText('at least one test point');
+	await expect(page.getByTestId('check-row')).toHaveCount(1);
+	// ISO 6789-1 Type II class A: ±4 % above 10 N·m (TRADE.md §5 [SRC]); readings invented
+	await page.getByLabel('Reading 1 at 12 N·m').fill('12.2');
+	await page.getByLabel('Reading 1 at 36 N·m').fill('36.9');
+	await page.getByLabel('Reading 1 at 60 N·m').fill('61.4');
+	await page.getByRole('button', { name: 'Record the check of TW-01' }).click();
+	await expect(page.getByTestId('check-done')).toContainText('passed, largest deviation 2.50 %');
+	await expect(page.getByTestId('check-row')).toHaveCount(2);
+	await expect(page.getByTestId('tool-state')).toContainText('Calibrated, next due');
+});
