@@ -94,4 +94,36 @@ describe('vehicles', () => {
 		expect(mail.raw).toContain('16,000 km');
 		expect(sent.ok).toBe(mail.status === 'sent');
 	});
+
+	it("writes the reminder's dates and numbers in the shop's locale and on its calendar", async () => {
+		const f = await makeShop('Vehicles');
+		await db
+			.update(s.shop)
+			.set({ locale: 'de-DE', timeZone: 'Europe/Berlin' })
+			.where(eq(s.shop.id, f.shop.id));
+		const [proc] = await db.select().from(s.procedure).where(eq(s.procedure.shopId, f.shop.id));
+		await db
+			.update(s.procedure)
+			.set({ intervalKm: 6000, intervalMonths: 12 })
+			.where(eq(s.procedure.id, proc.id));
+		// 23:30 UTC on 20 December is already 21 December in Berlin (CET, UTC+1 in winter: IANA
+		// time zone database); due twelve months later, on the shop's calendar
+		await db
+			.update(s.job)
+			.set({ odometer: 10_000, createdAt: new Date('2025-12-20T23:30:00Z') })
+			.where(eq(s.job.id, f.job.id));
+		await sendDueReminder(
+			f.shop.id,
+			f.vehicle.id,
+			'rider@example.test',
+			f.owner.id,
+			'Demo shop',
+			new Date('2026-12-04T09:00:00Z')
+		);
+		const [mail] = await db.select().from(s.mailOutbox).where(eq(s.mailOutbox.shopId, f.shop.id));
+		// German conventions (Unicode CLDR, locale de): "." groups thousands, dates read dd.MM.y
+		expect(mail.raw).toContain('16.000 km');
+		expect(mail.raw).toContain('21.12.2026');
+		expect(mail.raw).not.toContain('20.12.2026');
+	});
 });
