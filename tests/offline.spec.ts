@@ -9,6 +9,7 @@ import { expect, test, type Page } from '@playwright/test';
 import { startApp, stopApp } from '../scripts/lib/harness';
 import { db } from './helpers/bench-db';
 import { crew, signInAs, tag } from './helpers/crew';
+import { layoutProblems } from './helpers/geometry';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 
@@ -64,6 +65,7 @@ test('the Bench opens offline, keeps what is typed and stores each entry once wh
 	await expect(page.getByTestId('next-step')).toHaveText(nextStep);
 	await expect(page.getByTestId('log-entry')).toHaveCount(seen);
 	await expect(page.getByTestId('log-entry').filter({ hasText: t })).toHaveCount(1);
+	await expect(page.getByTestId('offline-status')).toContainText('No connection');
 
 	const texts = [`note offline one ${t}`, `note offline two ${t}`, `note offline three ${t}`];
 	await callOut(page, texts);
@@ -82,6 +84,7 @@ test('the Bench opens offline, keeps what is typed and stores each entry once wh
 
 	await context.setOffline(false);
 	await expect(page.getByTestId('waiting-entry')).toHaveCount(0, { timeout: 20_000 });
+	await expect(page.getByTestId('offline-status')).toHaveCount(0);
 	for (const text of texts) {
 		await expect(page.getByTestId('log-entry').filter({ hasText: text })).toHaveCount(1);
 	}
@@ -114,31 +117,42 @@ test('an entry for a job since given to someone else is refused, kept and shown 
 	await openBench(page, tech.jobNumber);
 	await context.setOffline(true);
 	const text = `note reassigned meanwhile ${tag()}`;
-	await callOut(page, [text]);
-	await expect(page.getByTestId('waiting-entry')).toHaveCount(1);
+	const mistake = `note typed by mistake ${tag()}`;
+	await callOut(page, [text, mistake]);
+	await expect(page.getByTestId('waiting-entry')).toHaveCount(2);
 
 	// the foreman gives the job to another technician while this tablet is offline
 	await db()`update job set technician_id = ${other.id} where id = ${tech.jobId}`;
 	await context.setOffline(false);
-	const refused = page.getByTestId('refused-entry');
-	await expect(refused).toHaveCount(1, { timeout: 20_000 });
-	await expect(refused).toContainText(text);
+	const refused = page.getByTestId('refused-entry').filter({ hasText: text });
+	await expect(page.getByTestId('refused-entry')).toHaveCount(2, { timeout: 20_000 });
 	await expect(refused.getByTestId('refused-reason')).toContainText('not assigned to you');
 	expect(await stored(text)).toHaveLength(0);
+	expect(await stored(mistake)).toHaveLength(0);
+	expect(await layoutProblems(page)).toEqual([]);
 
 	// kept on the device: a reload (the job is no longer on this bench) still shows it
 	await page.goto('/bench');
-	await expect(page.getByTestId('refused-entry')).toContainText(text);
-	await expect(page.getByTestId('refused-entry')).toContainText(`Job ${tech.jobNumber}`);
+	await expect(refused).toContainText(`Job ${tech.jobNumber}`);
+
+	// removed only by hand, after a question: saying no keeps it
+	const wrong = page.getByTestId('refused-entry').filter({ hasText: mistake });
+	page.once('dialog', (d) => void d.dismiss());
+	await wrong.getByRole('button', { name: 'Remove from this device' }).click();
+	await expect(wrong).toHaveCount(1);
+	page.once('dialog', (d) => void d.accept());
+	await wrong.getByRole('button', { name: 'Remove from this device' }).click();
+	await expect(wrong).toHaveCount(0);
 
 	// given back: sent again with its own id and time, stored once under its author's name
 	await db()`update job set technician_id = ${tech.id} where id = ${tech.jobId}`;
-	await page.getByRole('button', { name: 'Send again' }).click();
+	await refused.getByRole('button', { name: 'Send again' }).click();
 	await expect(page.getByTestId('refused-entry')).toHaveCount(0);
 	await expect.poll(async () => (await stored(text)).length, { timeout: 20_000 }).toBe(1);
 	const rows = await stored(text);
 	expect(rows).toHaveLength(1);
 	expect(rows[0].author_id).toBe(tech.id);
+	expect(await stored(mistake)).toHaveLength(0);
 });
 
 test('a signed-out outbox waits, and never sends under the account signed in next', async ({
@@ -158,6 +172,7 @@ test('a signed-out outbox waits, and never sends under the account signed in nex
 	const held = page.getByTestId('outbox-held');
 	await expect(held).toContainText('Signed out', { timeout: 20_000 });
 	await expect(held.getByRole('link', { name: 'Sign in again' })).toBeVisible();
+	expect(await layoutProblems(page)).toEqual([]);
 	expect(await stored(text)).toHaveLength(0);
 
 	// someone else signs in on this device (another tab): the entry is not theirs to send
