@@ -5,7 +5,7 @@
 import { cpSync, existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test, type BrowserContext, type Page } from '@playwright/test';
 import { startApp, stopApp } from '../scripts/lib/harness';
 import { db } from './helpers/bench-db';
 import { crew, signInAs, tag } from './helpers/crew';
@@ -33,6 +33,16 @@ async function callOut(page: Page, texts: string[]) {
 		await page.keyboard.press('Enter');
 		await expect(bar).toHaveValue('');
 	}
+}
+
+/** Two technicians; the first opens the Bench, loses the network and calls out `texts`. */
+async function typedOffline(page: Page, context: BrowserContext, texts: string[]) {
+	const [tech, other] = await crew(2);
+	await signInAs(page, tech);
+	await openBench(page, tech.jobNumber);
+	await context.setOffline(true);
+	await callOut(page, texts);
+	return [tech, other] as const;
 }
 
 async function stored(text: string) {
@@ -112,13 +122,9 @@ test('an entry for a job since given to someone else is refused, kept and shown 
 	page,
 	context
 }) => {
-	const [tech, other] = await crew(2);
-	await signInAs(page, tech);
-	await openBench(page, tech.jobNumber);
-	await context.setOffline(true);
 	const text = `note reassigned meanwhile ${tag()}`;
 	const mistake = `note typed by mistake ${tag()}`;
-	await callOut(page, [text, mistake]);
+	const [tech, other] = await typedOffline(page, context, [text, mistake]);
 	await expect(page.getByTestId('waiting-entry')).toHaveCount(2);
 
 	// the foreman gives the job to another technician while this tablet is offline
@@ -159,12 +165,8 @@ test('a signed-out outbox waits, and never sends under the account signed in nex
 	page,
 	context
 }) => {
-	const [tech, other] = await crew(2);
-	await signInAs(page, tech);
-	await openBench(page, tech.jobNumber);
-	await context.setOffline(true);
 	const text = `note typed before sign-out ${tag()}`;
-	await callOut(page, [text]);
+	const [tech, other] = await typedOffline(page, context, [text]);
 
 	// the session ends while the tablet is offline
 	await context.clearCookies();
