@@ -19,7 +19,9 @@ async function shoot(page: Page, name: string) {
 }
 
 for (const size of sizes) {
-	test(`Bench, Floor, Jobs and a job card fit ${size.width}×${size.height}`, async ({ page }) => {
+	test(`Bench, Floor, Jobs, a job card and Vehicles fit ${size.width}×${size.height}`, async ({
+		page
+	}) => {
 		// four pages measured element by element on a shared 2-core machine
 		test.setTimeout(180_000);
 		await page.setViewportSize(size);
@@ -51,5 +53,16 @@ for (const size of sizes) {
 			await shoot(page, name);
 			expect(await layoutProblems(page), `${name} at ${size.width}×${size.height}`).toEqual([]);
 		}
+
+		// a vehicle's history, opened from the list as the service writer would
+		await page.goto('/vehicles');
+		await expect(page.getByTestId('vehicle-row').first()).toBeVisible();
+		await shoot(page, 'vehicles');
+		expect(await layoutProblems(page), `vehicles at ${size.width}×${size.height}`).toEqual([]);
+		await page.getByTestId('vehicle-row').first().getByRole('link').first().click();
+		await expect(page).toHaveURL(/\/vehicles\/[0-9a-f-]{36}/);
+		await expect(page.locator('main h1').first()).toBeVisible();
+		await shoot(page, 'vehicle');
+		expect(await layoutProblems(page), `vehicle at ${size.width}×${size.height}`).toEqual([]);
 	});
 }

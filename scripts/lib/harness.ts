@@ -24,10 +24,12 @@ export async function startApp(opts: {
 	databaseUrl: string;
 	logFile: string;
 	env?: Record<string, string>;
+	/** The built app's folder (default `build`). */
+	dir?: string;
 }): Promise<AppProcess> {
 	const base = `http://127.0.0.1:${opts.port}`;
 	const log = createWriteStream(opts.logFile, { flags: 'a' });
-	const proc = spawn(process.execPath, ['build'], {
+	const proc = spawn(process.execPath, [opts.dir ?? 'build'], {
 		env: {
 			...process.env,
 			DATABASE_URL: opts.databaseUrl,

@@ -1,6 +1,8 @@
 // The Bench's browser side of "no entry lost": the pure queue wired to IndexedDB (idb-keyval)
 // and fetch. Imported only from the Bench page.
 import { createStore, get, set } from 'idb-keyval';
+import { AUTHOR_HEADER } from '$lib/schemas/bench';
+import { keptView, type JobView } from './last-seen';
 import { EntryQueue, outcomeOfStatus, type QueuedEntry, type QueueOptions } from './queue';
 
 const KEY = 'waiting-entries';
@@ -21,7 +23,11 @@ export async function sendEntry(e: QueuedEntry) {
 	try {
 		res = await fetch(`/api/jobs/${e.jobId}/entries`, {
 			method: 'POST',
-			headers: { 'content-type': 'application/json', accept: 'application/json' },
+			headers: {
+				'content-type': 'application/json',
+				accept: 'application/json',
+				...(e.authorId ? { [AUTHOR_HEADER]: e.authorId } : {})
+			},
 			body: JSON.stringify({
 				id: e.id,
 				text: e.text,
@@ -42,6 +48,16 @@ export async function sendEntry(e: QueuedEntry) {
 	const body: unknown = await res.json().catch(() => null);
 	const said = body && typeof body === 'object' && 'message' in body ? String(body.message) : '';
 	const message = said || `The server answered ${res.status}.`;
+	// someone else is signed in on this device now: the entry waits for its author
+	if (res.status === 409 && body && typeof body === 'object' && 'code' in body) {
+		if (body.code === 'other_account') return { kind: 'retry' as const, message, status: 409 };
+	}
+	if (res.status === 401) {
+		return outcomeOfStatus(
+			401,
+			'Signed out: sign in again on this device and the waiting entries are sent under your name.'
+		);
+	}
 	return outcomeOfStatus(res.status, message, body);
 }
 
@@ -56,4 +72,14 @@ export function browserQueue(userId: string, opts: Omit<QueueOptions, 'storage' 
 			save: (entries) => set(KEY, entries, store)
 		}
 	});
+}
+
+/** The Bench's latest view of a job, kept on the device for an offline reload. */
+export function lastSeen(userId: string) {
+	const store = createStore(`benchcall-${userId}`, 'outbox');
+	const key = (jobId: string) => `last-seen:${jobId}`;
+	return {
+		load: (jobId: string) => get<JobView>(key(jobId), store).catch(() => undefined),
+		save: (view: JobView) => set(key(view.jobId), keptView(view), store).catch(() => undefined)
+	};
 }

@@ -132,12 +132,15 @@ describe('EntryQueue', () => {
 		expect(sent).toEqual(['a', 'b', 'c']);
 	});
 
-	it('drops a refused entry, reports it and goes on', async () => {
+	it('keeps a refused entry on the device with its reason, reports it and goes on', async () => {
 		const settled: [string, string][] = [];
+		const storage = memoryStorage();
 		const q = new EntryQueue({
-			storage: memoryStorage(),
+			storage,
 			send: async (e) =>
-				e.id === 'bad' ? { kind: 'rejected', message: 'No such job.' } : { kind: 'ack' },
+				e.id === 'bad'
+					? { kind: 'rejected', message: 'This job is not assigned to you.' }
+					: { kind: 'ack' },
 			onSettled: (e, o) => settled.push([e.id, o.kind])
 		});
 		await q.enqueue(entry('bad'));
@@ -147,7 +150,59 @@ describe('EntryQueue', () => {
 			['bad', 'rejected'],
 			['good', 'ack']
 		]);
+		expect(q.waiting.map((e) => [e.id, e.refused])).toEqual([
+			['bad', 'This job is not assigned to you.']
+		]);
+		// kept in storage too: a reload still shows it
+		expect(storage.saved()?.map((e) => e.id)).toEqual(['bad']);
+		// a refused entry is not sent again by itself, and blocks nothing behind it
+		await q.enqueue(entry('later'));
+		await q.flush();
+		expect(settled.map(([id]) => id)).toEqual(['bad', 'good', 'later']);
+		expect(q.nextAttemptAt()).toBeNull();
+	});
+
+	it('sends a refused entry again only when asked, with its own id and time', async () => {
+		const sent: QueuedEntry[] = [];
+		let refuse = true;
+		const q = new EntryQueue({
+			storage: memoryStorage(),
+			send: async (e) => {
+				sent.push(e);
+				return refuse ? { kind: 'rejected', message: 'Not yours.' } : { kind: 'ack' };
+			}
+		});
+		await q.enqueue(entry('a'));
+		await q.flush();
+		await q.flush();
+		expect(sent).toHaveLength(1);
+		refuse = false;
+		await q.sendAgain('a');
+		expect(q.waiting[0].refused).toBeUndefined();
+		await q.flush();
+		expect(sent.map((e) => [e.id, e.occurredAt])).toEqual([
+			['a', '2026-12-02T09:00:00.000Z'],
+			['a', '2026-12-02T09:00:00.000Z']
+		]);
 		expect(q.waiting).toEqual([]);
+	});
+
+	it('removes by hand only an entry the server refused', async () => {
+		const q = new EntryQueue({
+			storage: memoryStorage(),
+			send: async (e) =>
+				e.id === 'bad'
+					? { kind: 'rejected', message: 'No.' }
+					: { kind: 'retry', message: 'offline', status: 0 }
+		});
+		await q.enqueue(entry('bad'));
+		await q.enqueue(entry('waits'));
+		await q.flush();
+		await q.remove('waits');
+		expect(q.waiting.map((e) => e.id)).toEqual(['bad', 'waits']);
+		expect(q.waiting[1].lastStatus).toBe(0);
+		await q.remove('bad');
+		expect(q.waiting.map((e) => e.id)).toEqual(['waits']);
 	});
 
 	it('survives a reload: a new queue on the same storage sends what was waiting, once', async () => {

@@ -8,6 +8,8 @@ export interface QueuedEntry {
 	/** Made on the device; the server ignores a repeat of an id it already holds. */
 	id: string;
 	jobId: string;
+	/** The job card's number, to name the job when the entry is shown away from its job. */
+	jobNumber?: number;
 	text: string;
 	source: 'typed' | 'voice';
 	/** When it was called out, kept while the entry waits (ISO 8601). */
@@ -17,13 +19,25 @@ export interface QueuedEntry {
 	adapterMm?: number | null;
 	stepId?: string;
 	retracts?: string;
+	/** Who typed it: the server refuses it under any other account (a shared tablet). */
+	authorId?: string;
 	attempts: number;
 	/** Epoch ms before which no new attempt is made. */
 	notBefore: number;
 	lastError?: string;
+	/** The HTTP status of the last failed attempt (401: signed out), 0 for no connection. */
+	lastStatus?: number;
+	/**
+	 * Why the server refused it for good (a job since given to someone else, say). A refused
+	 * entry stays on the device, shown with this reason, until it is sent again or removed by hand.
+	 */
+	refused?: string;
 }
 
-export type NewEntry = Omit<QueuedEntry, 'attempts' | 'notBefore' | 'lastError'>;
+export type NewEntry = Omit<
+	QueuedEntry,
+	'attempts' | 'notBefore' | 'lastError' | 'lastStatus' | 'refused'
+>;
 
 export interface QueueStorage {
 	load(): Promise<QueuedEntry[] | undefined>;
@@ -36,7 +50,7 @@ export type SendOutcome =
 	/** The server read it and refused it for good (a 4xx other than 401, 408, 429). */
 	| { kind: 'rejected'; message: string }
 	/** Network down, server error, signed out: try again later. */
-	| { kind: 'retry'; message: string };
+	| { kind: 'retry'; message: string; status?: number };
 
 export interface QueueOptions {
 	storage: QueueStorage;
@@ -61,7 +75,7 @@ export function backoffMs(failures: number): number {
 export function outcomeOfStatus(status: number, message: string, body?: unknown): SendOutcome {
 	if (status >= 200 && status < 300) return { kind: 'ack', body };
 	if (status === 401 || status === 408 || status === 429 || status >= 500 || status === 0) {
-		return { kind: 'retry', message };
+		return { kind: 'retry', message, status };
 	}
 	return { kind: 'rejected', message };
 }
@@ -104,8 +118,13 @@ export class EntryQueue {
 		this.changed();
 	}
 
+	/** Everything on the device: entries still to send and entries the server refused. */
 	get waiting(): readonly QueuedEntry[] {
 		return this.entries;
+	}
+
+	private get pending(): QueuedEntry[] {
+		return this.entries.filter((e) => e.refused === undefined);
 	}
 
 	/** Stores the entry first; only then is it sent. A repeat of a waiting id is ignored. */
@@ -120,13 +139,30 @@ export class EntryQueue {
 
 	/** Epoch ms of the next attempt due, or null when nothing waits. */
 	nextAttemptAt(): number | null {
-		if (this.entries.length === 0) return null;
-		return this.entries[0].notBefore;
+		return this.pending[0]?.notBefore ?? null;
 	}
 
 	/** Forget back-off: try everything now (the network came back). */
 	resetBackoff(): void {
 		this.entries = this.entries.map((e) => ({ ...e, notBefore: 0 }));
+	}
+
+	/** A refused entry goes back in line, with its own id and time (the job was given back). */
+	async sendAgain(id: string): Promise<void> {
+		this.entries = this.entries.map((e) =>
+			e.id === id && e.refused !== undefined
+				? { ...e, refused: undefined, attempts: 0, notBefore: 0, lastError: undefined }
+				: e
+		);
+		await this.persist();
+		this.changed();
+	}
+
+	/** Removes a refused entry from the device: only by hand, and only one the server refused. */
+	async remove(id: string): Promise<void> {
+		this.entries = this.entries.filter((e) => e.id !== id || e.refused === undefined);
+		await this.persist();
+		this.changed();
 	}
 
 	/**
@@ -143,9 +179,9 @@ export class EntryQueue {
 	}
 
 	private async run(): Promise<void> {
-		while (this.entries.length > 0) {
-			const head = this.entries[0];
-			if (head.notBefore > this.now()) return;
+		for (;;) {
+			const head = this.pending[0];
+			if (!head || head.notBefore > this.now()) return;
 			let outcome: SendOutcome;
 			try {
 				outcome = await this.opts.send(head);
@@ -154,20 +190,24 @@ export class EntryQueue {
 			}
 			if (outcome.kind === 'retry') {
 				const attempts = head.attempts + 1;
-				this.entries = [
-					{
-						...head,
-						attempts,
-						notBefore: this.now() + backoffMs(attempts),
-						lastError: outcome.message
-					},
-					...this.entries.slice(1)
-				];
+				const retried: QueuedEntry = {
+					...head,
+					attempts,
+					notBefore: this.now() + backoffMs(attempts),
+					lastError: outcome.message,
+					lastStatus: outcome.status
+				};
+				this.entries = this.entries.map((e) => (e.id === head.id ? retried : e));
 				await this.persist();
 				this.changed();
 				return;
 			}
-			this.entries = this.entries.filter((e) => e.id !== head.id);
+			this.entries =
+				outcome.kind === 'rejected'
+					? this.entries.map((e) =>
+							e.id === head.id ? { ...e, refused: outcome.message, lastError: undefined } : e
+						)
+					: this.entries.filter((e) => e.id !== head.id);
 			await this.persist();
 			this.changed();
 			this.opts.onSettled?.(head, outcome);

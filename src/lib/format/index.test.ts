@@ -34,6 +34,17 @@ describe('shopFormat', () => {
 		expect(us.dateShort(winter)).toBe('12/3/26');
 	});
 
+	it('writes a calendar day as it is, whatever the zone (CLDR medium dates)', () => {
+		// a zone west of UTC would show midnight UTC as the day before
+		const ny = shopFormat({ locale: 'en-US', timeZone: 'America/New_York' });
+		expect(ny.calendarDay('2026-12-03')).toBe('Dec 3, 2026');
+		expect(
+			shopFormat({ locale: 'de-DE', timeZone: 'Pacific/Auckland' }).calendarDay('2026-12-03')
+		).toBe('03.12.2026');
+		expect(shopFormat({ locale: 'en-GB' }).calendarDay('2026-12-03')).toBe('3 Dec 2026');
+		expect(ny.calendarDay('not a day')).toBe('not a day');
+	});
+
 	it('falls back to en-GB and UTC for a locale or zone Intl does not know', () => {
 		const f = shopFormat({ locale: 'not a locale!', timeZone: 'Mars/Olympus' });
 		expect(f.locale).toBe('en-GB');

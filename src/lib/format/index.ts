@@ -49,6 +49,8 @@ export interface ShopFormat extends ShopStyle {
 	dateTimeShort(d: When): string;
 	/** the calendar day in the shop's zone as YYYY-MM-DD (date inputs, day grouping) */
 	isoDay(d: When): string;
+	/** "3 Dec 2026" for a calendar day given as YYYY-MM-DD: a date without a time never shifts */
+	calendarDay(ymd: string): string;
 	/** a number in the shop's style, with at most `maxDigits` decimals */
 	number(n: number, maxDigits?: number): string;
 }
@@ -71,6 +73,7 @@ export function shopFormat(style: Partial<ShopStyle> = {}): ShopFormat {
 		month: '2-digit',
 		day: '2-digit'
 	});
+	const calendar = new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeZone: 'UTC' });
 	const numbers = new Map<number, Intl.NumberFormat>();
 	return {
 		locale,
@@ -82,6 +85,8 @@ export function shopFormat(style: Partial<ShopStyle> = {}): ShopFormat {
 		dateTime: (d) => dateTime.format(toDate(d)),
 		dateTimeShort: (d) => dateTimeShort.format(toDate(d)),
 		isoDay: (d) => iso.format(toDate(d)),
+		calendarDay: (ymd) =>
+			/^\d{4}-\d{2}-\d{2}$/.test(ymd) ? calendar.format(new Date(`${ymd}T00:00:00Z`)) : ymd,
 		number(n, maxDigits = 2) {
 			let f = numbers.get(maxDigits);
 			if (!f) {

@@ -34,6 +34,15 @@ export const entryPostSchema = z.object({
 });
 export type EntryPost = z.infer<typeof entryPostSchema>;
 
+/** The header in which the Bench's outbox names who typed an entry (the account's id). */
+export const AUTHOR_HEADER = 'x-benchcall-author';
+export const authorHeaderSchema = z
+	.uuid({ error: `${AUTHOR_HEADER} must be the id of the account that typed the entry.` })
+	.optional();
+/** What the server answers (409, code other_account) to an entry sent under another account. */
+export const otherAccountMessage =
+	'Typed by another account on this device: it is not stored under the one signed in now. It waits on this device until its author signs in again.';
+
 export const entryListQuerySchema = z.object({
 	before: z.coerce
 		.number({ error: 'before must be a whole number (an entry seq).' })

@@ -168,6 +168,30 @@ describe('appendEntry', () => {
 		expect(entryOf(ago).occurredAt).toBe('2026-12-02T09:25:00.000Z');
 	});
 
+	it('reads "at 10:30" on the shop\'s clock, also once the job is known to this process', async () => {
+		const f = await makeShop('Bench');
+		await db.update(s.shop).set({ timeZone: 'Europe/Berlin' }).where(eq(s.shop.id, f.shop.id));
+		const now = new Date('2026-12-02T15:00:00Z');
+		// Europe/Berlin keeps CET, UTC+1, in December (IANA time zone database): 10:30 there is
+		// 09:30 UTC. The server itself runs on UTC here, where 10:30 would read as 10:30 UTC.
+		const first = await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm at 10:30'), now);
+		expect(entryOf(first).occurredAt).toBe('2026-12-02T09:30:00.000Z');
+		// the quick path (steps and tolerance known by now) must not read it in the server's zone
+		const plain = await appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm'), now);
+		expect(plain.status).toBe(201);
+		const again = await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm at 10:45'), now);
+		expect(entryOf(again).occurredAt).toBe('2026-12-02T09:45:00.000Z');
+		// the day is the one the entry was typed on, on the shop's calendar: typed offline just
+		// after midnight in Berlin (23:10 UTC the day before), "at 00:05" is that Berlin day
+		const late = await appendEntry(
+			as(f.tech),
+			f.job.id,
+			post('rear axle 90 nm at 00:05', { occurredAt: '2026-12-01T23:10:00Z' }),
+			now
+		);
+		expect(entryOf(late).occurredAt).toBe('2026-12-01T23:05:00.000Z');
+	});
+
 	it('records the torque tool and whether its calibration was overdue', async () => {
 		const f = await makeShop('Bench', { jobOpenedAt: new Date('2026-12-02T08:00:00Z') });
 		const [tool] = await db

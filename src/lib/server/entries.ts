@@ -436,7 +436,8 @@ const appendContextQuery = db
 		technicianId: s.job.technicianId,
 		stepsVersion: s.job.stepsVersion,
 		openedAt: s.job.createdAt,
-		pct: s.shop.defaultTolerancePct
+		pct: s.shop.defaultTolerancePct,
+		timeZone: s.shop.timeZone
 	})
 	.from(s.job)
 	.innerJoin(s.shop, eq(s.shop.id, s.job.shopId))
@@ -451,7 +452,8 @@ async function appendContext(shopId: string, jobId: string) {
 		job: { id: row.id, state: row.state, technicianId: row.technicianId },
 		openedAt: row.openedAt,
 		stepsVersion: row.stepsVersion,
-		pct: row.pct
+		pct: row.pct,
+		timeZone: row.timeZone
 	};
 }
 
@@ -522,6 +524,8 @@ async function appendToKnownJob(
 	// an adapter's setting needs the tool: the full path works it out and stores it
 	if (!read || !isLogged(read.parsed.intent) || read.parsed.adapter) return null;
 	if (input.adapterMm !== undefined && input.adapterMm !== null) return null;
+	// "… at 10:30" is read in the shop's zone, which this path does not know: the full path has it
+	if (read.parsed.occurredAt) return null;
 	const step = stepOf(set.steps, read.parsed);
 	if (refusal(read.parsed, step)) return null;
 	const entry = newEntry(actor, jobId, input, read, step, null, now);
@@ -644,10 +648,24 @@ function isLogged(intent: ParsedPhrase['intent']): intent is NewEntry['kind'] {
 	return intent === 'measure' || intent === 'part' || intent === 'note' || intent === 'done';
 }
 
-/** The phrase read against the job's steps; null when the picked step is not on the job. */
-function readPhrase(specs: StepSpec[], pct: number, input: AppendInput, now: Date) {
+/**
+ * The phrase read against the job's steps; null when the picked step is not on the job. A time
+ * in the phrase ("… at 10:30") is the shop's clock time on the day the entry was typed.
+ */
+function readPhrase(
+	specs: StepSpec[],
+	pct: number,
+	input: AppendInput,
+	now: Date,
+	timeZone?: string
+) {
 	const deviceTime = input.occurredAt ? clampTime(new Date(input.occurredAt), now) : now;
-	let parsed = parsePhrase(input.text, { steps: specs, now: deviceTime, tolerancePct: pct });
+	let parsed = parsePhrase(input.text, {
+		steps: specs,
+		now: deviceTime,
+		tolerancePct: pct,
+		timeZone
+	});
 	if (input.stepId) {
 		const picked = specs.find((st) => st.id === input.stepId);
 		if (!picked) return null;
@@ -792,17 +810,17 @@ async function appendChecked(
 	input: AppendInput,
 	now: Date
 ): Promise<AppendResult> {
-	const { job, pct } = ctx;
+	const { job, pct, timeZone } = ctx;
 	const jobId = job.id;
 	const { steps, specs } = await jobStepDefinitions(actor.shopId, jobId, ctx.stepsVersion);
-	const read = readPhrase(specs, pct, input, now);
+	const read = readPhrase(specs, pct, input, now, timeZone);
 	if (!read) return { status: 422, message: 'That step is not on this job.' };
 	const { parsed, deviceTime } = read;
 
 	if (parsed.intent === 'next' || parsed.intent === 'spec') {
 		// These log nothing and show the steps' done state, so read the steps as they are now.
 		const live = await listSteps(actor.shopId, jobId);
-		const again = readPhrase(toStepSpecs(live), pct, input, now);
+		const again = readPhrase(toStepSpecs(live), pct, input, now, timeZone);
 		return again
 			? answer(again.parsed, live)
 			: { status: 422, message: 'That step is not on this job.' };

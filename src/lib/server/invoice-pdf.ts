@@ -1,5 +1,6 @@
 // The invoice (or credit note) and the job's work report as one PDF, drawn with pdfkit.
 import PDFDocument from 'pdfkit';
+import { shopFormat } from '$lib/format';
 import { formatMoney } from '$lib/money';
 import { formatNumber } from '$lib/units';
 import type { InvoiceWithLines, JobHeader } from './invoices';
@@ -21,6 +22,9 @@ export function pdfSafe(s: string): string {
 
 export interface PdfShop {
 	name: string;
+	/** The shop's date and number style (BCP 47 tag and IANA zone); en-GB and UTC when unset. */
+	locale?: string;
+	timeZone?: string;
 }
 
 function title(inv: InvoiceWithLines): string {
@@ -28,13 +32,6 @@ function title(inv: InvoiceWithLines): string {
 	if (inv.status === 'draft') return 'Draft invoice (not issued)';
 	return `Invoice ${inv.number}`;
 }
-
-const when = (d: Date) =>
-	new Intl.DateTimeFormat('en-GB', {
-		dateStyle: 'medium',
-		timeStyle: 'short',
-		timeZone: 'UTC'
-	}).format(d) + ' UTC';
 
 export function invoicePdf(opts: {
 	shop: PdfShop;
@@ -56,7 +53,10 @@ export function invoicePdf(opts: {
 		doc.on('end', () => resolve(Buffer.concat(chunks)));
 		doc.on('error', reject);
 	});
-	const money = (m: number) => pdfSafe(formatMoney(m, inv.currency));
+	const fmt = shopFormat(shop);
+	// the zone is named: a printed time travels further than the shop's clock
+	const when = (d: Date) => `${fmt.dateTime(d)} (${fmt.timeZone})`;
+	const money = (m: number) => pdfSafe(formatMoney(m, inv.currency, fmt.locale));
 	const left = doc.page.margins.left;
 	const width = doc.page.width - left - doc.page.margins.right;
 	const text = (s: string, o: PDFKit.Mixins.TextOptions = {}) => doc.text(pdfSafe(s), o);

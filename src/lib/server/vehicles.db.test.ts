@@ -13,6 +13,16 @@ import {
 	vehiclesDueWithin
 } from './vehicles';
 
+/** The fixture's procedure due every 6,000 km or 12 months, last done at 10,000 km on `on`. */
+async function lastServiced(f: Awaited<ReturnType<typeof makeShop>>, on: Date) {
+	const [proc] = await db.select().from(s.procedure).where(eq(s.procedure.shopId, f.shop.id));
+	await db
+		.update(s.procedure)
+		.set({ intervalKm: 6000, intervalMonths: 12 })
+		.where(eq(s.procedure.id, proc.id));
+	await db.update(s.job).set({ odometer: 10_000, createdAt: on }).where(eq(s.job.id, f.job.id));
+}
+
 describe('vehicles', () => {
 	it('finds a registration typed with other spaces and case, a phone or a name', async () => {
 		const f = await makeShop('Vehicles');
@@ -65,15 +75,7 @@ describe('vehicles', () => {
 
 	it('says what is due from the last job with an interval procedure, and e-mails the customer', async () => {
 		const f = await makeShop('Vehicles');
-		const [proc] = await db.select().from(s.procedure).where(eq(s.procedure.shopId, f.shop.id));
-		await db
-			.update(s.procedure)
-			.set({ intervalKm: 6000, intervalMonths: 12 })
-			.where(eq(s.procedure.id, proc.id));
-		await db
-			.update(s.job)
-			.set({ odometer: 10_000, createdAt: new Date('2025-12-20T09:00:00Z') })
-			.where(eq(s.job.id, f.job.id));
+		await lastServiced(f, new Date('2025-12-20T09:00:00Z'));
 		const today = new Date('2026-12-04T09:00:00Z');
 		const due = await vehicleDue(f.shop.id, f.vehicle.id, today);
 		expect(due).toHaveLength(1);
@@ -93,5 +95,29 @@ describe('vehicles', () => {
 		expect(mail.toAddress).toBe('rider@example.test');
 		expect(mail.raw).toContain('16,000 km');
 		expect(sent.ok).toBe(mail.status === 'sent');
+	});
+
+	it("writes the reminder's dates and numbers in the shop's locale and on its calendar", async () => {
+		const f = await makeShop('Vehicles');
+		await db
+			.update(s.shop)
+			.set({ locale: 'de-DE', timeZone: 'Europe/Berlin' })
+			.where(eq(s.shop.id, f.shop.id));
+		// 23:30 UTC on 20 December is already 21 December in Berlin (CET, UTC+1 in winter: IANA
+		// time zone database); due twelve months later, on the shop's calendar
+		await lastServiced(f, new Date('2025-12-20T23:30:00Z'));
+		await sendDueReminder(
+			f.shop.id,
+			f.vehicle.id,
+			'rider@example.test',
+			f.owner.id,
+			'Demo shop',
+			new Date('2026-12-04T09:00:00Z')
+		);
+		const [mail] = await db.select().from(s.mailOutbox).where(eq(s.mailOutbox.shopId, f.shop.id));
+		// German conventions (Unicode CLDR, locale de): "." groups thousands, dates read dd.MM.y
+		expect(mail.raw).toContain('16.000 km');
+		expect(mail.raw).toContain('21.12.2026');
+		expect(mail.raw).not.toContain('20.12.2026');
 	});
 });

@@ -1,6 +1,8 @@
 // Vehicles and customers: finding a vehicle, its history (jobs, values per step across services,
 // out-of-spec entries, photos), what is due next, and the reminder e-mail. Scoped by shop id.
+import { shopFormat, type ShopStyle } from '$lib/format';
 import { client } from './db';
+import { getShop } from './shop';
 import { mailFrom, sendMail } from './mail';
 import { normalizeRegistration, normalizeVin, toDate } from '$lib/vehicles/vin';
 import type { JobState } from '$lib/jobs/states';
@@ -307,21 +309,21 @@ export async function getCustomer(shopId: string, customerId: string) {
 	};
 }
 
-const day = (d: Date) =>
-	new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeZone: 'UTC' }).format(d);
-
 /** The reminder's words: what is due, by when or at what reading, and who to call. */
 export function reminderText(
 	shopName: string,
 	vehicle: { registration: string; make: string; model: string; customerName: string | null },
 	items: DueItem[],
-	odometerUnit = 'km'
+	odometerUnit = 'km',
+	style: Partial<ShopStyle> = {}
 ): string {
+	// the shop's date and number style, as on its screens and invoices
+	const fmt = shopFormat(style);
 	const lines = items.map((i) => {
 		const parts: string[] = [];
-		if (i.dueOn) parts.push(`by ${day(i.dueOn)}`);
+		if (i.dueOn) parts.push(`by ${fmt.date(i.dueOn)}`);
 		if (i.dueAtOdometer !== null)
-			parts.push(`at ${i.dueAtOdometer.toLocaleString('en-GB')} ${odometerUnit}`);
+			parts.push(`at ${fmt.number(i.dueAtOdometer, 0)} ${odometerUnit}`);
 		const when = parts.length ? ` ${parts.join(' or ')}, whichever comes first` : '';
 		return `- ${i.name}: ${i.state === 'overdue' ? 'overdue' : 'due'}${when}`;
 	});
@@ -360,6 +362,6 @@ export async function sendDueReminder(
 		from: mailFrom(shopName),
 		to,
 		subject: `Service due for ${vehicle.registration} (${shopName})`,
-		text: reminderText(shopName, vehicle, items)
+		text: reminderText(shopName, vehicle, items, 'km', (await getShop(shopId)) ?? {})
 	});
 }

@@ -36,6 +36,8 @@ export const load: PageServerLoad = async ({ params, setHeaders, url }) => {
 			}))
 		},
 		shop: { name: shop.name },
+		// the shop's date and number style: the page reads it as the app's pages do
+		shopStyle: { locale: shop.locale, timeZone: shop.timeZone },
 		jobNumber,
 		report: await workReport(invoice.shopId, invoice.jobId)
 	};

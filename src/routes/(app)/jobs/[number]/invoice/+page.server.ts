@@ -200,7 +200,7 @@ export const actions = {
 		if (!r.ok) return refused('payment', r.message, echoValues(p.form));
 		return {
 			action: 'payment',
-			done: `${formatMoney(amount.minor, inv.currency)} by ${p.parsed.method} recorded.${r.paid ? ' The invoice is paid.' : ''}`
+			done: `${formatMoney(amount.minor, inv.currency, (await getShop(user.shopId))?.locale)} by ${p.parsed.method} recorded.${r.paid ? ' The invoice is paid.' : ''}`
 		};
 	},
 
@@ -231,7 +231,7 @@ export const actions = {
 				`Hello${job.customerName ? ` ${job.customerName}` : ''},`,
 				'',
 				`${what} ${inv.number} for job card ${job.number} (${[job.registration, job.make, job.model].filter(Boolean).join(' ')}) is attached, with the work report.`,
-				`Total: ${formatMoney(inv.totalMinor, inv.currency)}.`,
+				`Total: ${formatMoney(inv.totalMinor, inv.currency, shop.locale)}.`,
 				'',
 				inv.kind === 'invoice' && inv.status === 'issued'
 					? `See it and pay online: ${link}`

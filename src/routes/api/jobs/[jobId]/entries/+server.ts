@@ -2,7 +2,14 @@ import { error, json } from '@sveltejs/kit';
 import { requireRole, requireUser } from '$lib/server/auth';
 import { appendEntry, getJob, listEntries } from '$lib/server/entries';
 import { readJson } from '$lib/server/request';
-import { entryListQuerySchema, entryPostSchema, firstIssue } from '$lib/schemas/bench';
+import {
+	AUTHOR_HEADER,
+	authorHeaderSchema,
+	entryListQuerySchema,
+	entryPostSchema,
+	firstIssue,
+	otherAccountMessage
+} from '$lib/schemas/bench';
 import type { RequestHandler } from './$types';
 
 /** The job log, newest first: `before` pages back, `after` catches up (keyset on seq). */
@@ -17,6 +24,14 @@ export const GET: RequestHandler = async ({ params, url }) => {
 
 /** Appends one entry; the same id again answers 200 with the stored entry. */
 export const POST: RequestHandler = async ({ params, request }) => {
+	// An outbox on a shared tablet names who typed the entry: it is never stored under another
+	// account. Checked before the role, so the entry waits for its author instead of being
+	// refused for good because someone else is signed in now.
+	const author = authorHeaderSchema.safeParse(request.headers.get(AUTHOR_HEADER) ?? undefined);
+	if (!author.success) error(400, firstIssue(author.error));
+	if (author.data && author.data !== requireUser().id) {
+		return json({ message: otherAccountMessage, code: 'other_account' }, { status: 409 });
+	}
 	const user = requireRole('technician', 'foreman', 'owner');
 	const body = await readJson(request, 'The body must be JSON: { id, text, source, occurredAt? }.');
 	const parsed = entryPostSchema.safeParse(body);
