@@ -109,9 +109,10 @@ describe('the confidence gate', () => {
 			gatePhrase({ heard: 'next', parsed, step: null, confidence: 0.5, minConfidence: 0.4 })
 		).toEqual({ ok: true });
 	});
-	it('checks only confidence for next, spec and cancel', () => {
+	it('checks only confidence for next, spec, history and cancel', () => {
 		expect(gate('next').ok).toBe(true);
 		expect(gate('spec drive chain slack').ok).toBe(true);
+		expect(gate('history rear axle nut').ok).toBe(true);
 		expect(gate('cancel').ok).toBe(true);
 		expect(gate('next', 0.2)).toMatchObject({ reason: 'low_confidence' });
 	});

@@ -42,7 +42,7 @@ export const MIN_CONFIDENCE = 0.75;
 /** A value more than this factor outside the step's band is taken as a mishearing. */
 export const PLAUSIBLE_FACTOR = 3;
 
-const NON_LOGGING = new Set(['next', 'spec']);
+const NON_LOGGING = new Set(['next', 'spec', 'history']);
 
 const inputSchema = z.object({
 	heard: z.string().max(500),

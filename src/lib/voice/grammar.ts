@@ -1,7 +1,7 @@
 /**
  * The offline recogniser decodes a finite-state grammar, not free speech. This builds that
  * grammar (JSGF) from the job in front of the technician: its step labels and aliases, the
- * intents the phrase engine knows (next, spec, done, undo, note, new/replaced, cancel),
+ * intents the phrase engine knows (next, spec, history, done, undo, note, new/replaced, cancel),
  * numbers as spoken (zero to 999, "point" and decimals, and hundreds and thousands for revs) and the spoken unit words of the
  * job's kinds of quantity. Pure: the pronunciation dictionary comes in as a lookup function,
  * so the same code runs against the model's dictionary in Node and in the browser.
@@ -135,6 +135,7 @@ const NEXT = ['next', 'next step', 'what is next', 'whats next'];
 const UNDO = ['undo', 'undo that', 'undo last entry', 'scratch that'];
 const CANCEL = ['cancel', 'cancel that', 'never mind'];
 const SPEC_PREFIX = ['spec', 'spec for', 'what is the spec for', 'whats the spec for'];
+const HISTORY_PREFIX = ['history', 'history of', 'past readings for'];
 const DONE_PREFIX = ['done', 'mark done', 'finished'];
 const DONE_SUFFIX = ['done', 'checked', 'okay'];
 const PART_PREFIX = ['new', 'fitted new', 'replaced'];
@@ -307,7 +308,7 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 					`<garbage> = (${PHONES.map((p) => GARBAGE_PREFIX + p.toLowerCase()).join(' | ')})+;`
 				]
 			: [`public <call> = ${calls.join(' | ')};`]),
-		rule('prefix', keep([...SPEC_PREFIX, ...DONE_PREFIX, ...PART_PREFIX])),
+		rule('prefix', keep([...SPEC_PREFIX, ...HISTORY_PREFIX, ...DONE_PREFIX, ...PART_PREFIX])),
 		rule('next', keep(NEXT)),
 		rule('undo', keep(UNDO)),
 		rule('cancel', keep(CANCEL)),

@@ -147,7 +147,7 @@ describe('decideHeard', () => {
 			});
 			expect(decideHeard(h('note chain guide worn'), okAs(intent), push).kind).toBe('confirm');
 		}
-		for (const intent of ['measure', 'next', 'spec'] as const) {
+		for (const intent of ['measure', 'next', 'spec', 'history'] as const) {
 			expect(decideHeard(h('next'), okAs(intent), free).kind).toBe('confirm');
 		}
 	});

@@ -12,12 +12,18 @@ export type GateAnswer = GateResult & { intent: Intent };
 
 /**
  * What hands-free acts on: a value for a step (logged after the confirm window) and the
- * questions that log nothing. A recogniser that fits any sound to its grammar turned shop talk
- * into a note, a part or a done step with a confidence as high as a real call's (three flite
- * sentences before the grammar's out-of-grammar loop: 0.76–0.84 against 0.88–0.90), and a note
- * takes any words, so those, and undo, need push-to-talk or the keyboard.
+ * questions that log nothing (next, spec, history). A recogniser that fits any sound to its
+ * grammar turned shop talk into a note, a part or a done step with a confidence as high as a
+ * real call's (three flite sentences before the grammar's out-of-grammar loop: 0.76–0.84
+ * against 0.88–0.90), and a note takes any words, so those, and undo, need push-to-talk or the
+ * keyboard.
  */
-export const HANDS_FREE_INTENTS: ReadonlySet<Intent> = new Set(['measure', 'next', 'spec']);
+export const HANDS_FREE_INTENTS: ReadonlySet<Intent> = new Set([
+	'measure',
+	'next',
+	'spec',
+	'history'
+]);
 
 /** One recognised phrase: its words and the recogniser's confidence 0…1 (null: none given). */
 export interface Heard {
