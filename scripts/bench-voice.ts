@@ -11,6 +11,7 @@
  *   npm run bench:voice -- --only=flite-slt     (voices whose name holds this)
  *   npm run bench:voice -- --no-denoise --set=lw:8,beam:1e-60 --min-confidence=0.7 --every=3
  *   npm run bench:voice -- --verbose            (list every wrong value logged)
+ *   npm run bench:voice -- --dump=rows.json     (every phrase: what was heard, its confidence)
  *   npm run bench:voice -- --fixtures [20]      (the committed fixtures, 5 or 20 rounds)
  *   npm run bench:voice -- --browser (then the same in Debian's Chromium, on the built app: one
  *                                     browser per phrase with the WAV as its microphone; model
