@@ -114,24 +114,21 @@ describe('buildGrammar', () => {
 		expect(g.jsgf).toMatch(/^#JSGF V1\.0;/);
 		expect(g.jsgf).toContain('<name> = (rear axle nut) | (axle nut) | (rear wheel spindle)');
 		expect(g.jsgf).toContain('(engine oil fill) | oil | (idle speed) | tickover | (leak check);');
-		// each step is followed by its own units only: no litres after the axle nut
-		expect(g.jsgf).toContain('<name0> = (rear axle nut) | (axle nut) | (rear wheel spindle);');
-		expect(g.jsgf).toMatch(/^<unit0> = \(newton metres\).*\(foot pounds\)/m);
-		expect(g.jsgf).not.toMatch(/^<unit0> = .*(litres|newton centimetres)/m);
-		expect(g.jsgf).toContain('<name1> = (engine oil fill) | oil;');
-		expect(g.jsgf).toMatch(/^<unit1> = litres.*millilitres/m);
-		expect(g.jsgf).not.toMatch(/^<unit1> = .*newton/m);
-		expect(g.jsgf).toMatch(/^<unit2> = \(r p m\)/m);
-		expect(g.jsgf).not.toMatch(/volts|kilopascals/);
+		// steps with a value take the units of the job's kinds, less the alike-sounding scale
+		expect(g.jsgf).toContain(
+			'<valuename> = (rear axle nut) | (axle nut) | (rear wheel spindle) | (engine oil fill) | oil'
+		);
+		expect(g.jsgf).toMatch(/^<unit> = .*\(newton metres\).*litres.*\(r p m\)/m);
+		expect(g.jsgf).not.toMatch(/newton centimetres|volts|kilopascals/);
 		// a check step is done, never given a value
-		expect(g.jsgf).toContain('<name3> (<donetail> | <parttail>)');
-		expect(g.jsgf).toContain('<name3> = (leak check);');
+		expect(g.jsgf).toContain('<checkname> (<donetail> | <parttail>)');
+		expect(g.jsgf).toContain('<checkname> = (leak check);');
 		for (const rule of ['next', 'undo', 'cancel', 'prefix', 'donetail', 'parttail', 'noteword']) {
 			expect(g.jsgf).toContain(`<${rule}> =`);
 		}
 		expect(g.jsgf).toMatch(/<prefix> = .*spec.*\(mark done\).*\(fitted new\)/);
 		expect(g.jsgf).toContain(
-			'<call> = <name0> (<number> [<unit0>] | <donetail> | <parttail>) | <name1> (<number> [<unit1>]'
+			'<call> = <valuename> (<number> [<unit>] | <donetail> | <parttail>) | <checkname> ('
 		);
 		expect(g.jsgf).toContain('| <prefix> <name> | note <noteword>+');
 		expect(g.jsgf).toContain('<number> = <whole> [<decimals>] | <decimals>;');
@@ -145,7 +142,7 @@ describe('buildGrammar', () => {
 		expect(g.jsgf).toMatch(/^<garbage> = \(zz_aa \| zz_ae .* \| zz_zh\)\+;$/m);
 		expect(g.added).toContainEqual(['zz_ng', 'NG']);
 		const plain = buildGrammar({ steps, garbage: 0 }, lookup);
-		expect(plain.jsgf).toContain('public <call> = <name0> (<number>');
+		expect(plain.jsgf).toContain('public <call> = <valuename> (<number>');
 		expect(plain.jsgf).not.toContain('zz_');
 	});
 	it('leaves out phrases with unknown words and lists those words', () => {
@@ -161,7 +158,7 @@ describe('buildGrammar', () => {
 		const added = new Map(g.added);
 		const ruleWords = g.jsgf
 			.split('\n')
-			.filter((l) => /^<(name|unit)\d* =|^<noteword> =/.test(l))
+			.filter((l) => /^<(valuename|unit|noteword)> =/.test(l))
 			.flatMap((l) => l.replace(/<[^>]+>/g, ' ').match(/[a-z']+/g) ?? []);
 		expect(ruleWords.length).toBeGreaterThan(5);
 		expect(ruleWords.filter((w) => !lookup(w) && !added.has(w))).toEqual([]);

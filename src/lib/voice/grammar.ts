@@ -248,16 +248,17 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 		return out;
 	};
 
-	// Steps grouped by the unit words they may be called out in: each group's names are followed
-	// by its own units only. Step and part names still make one list for "spec …", "done …" and
-	// "new …": the decoder's work per frame grows with the size of the whole grammar, so each
-	// name appears as few times as possible (the phrase engine, not the grammar, tells a step from
-	// a part).
+	// Steps that take a value are followed by a number and the unit words of their own kinds of
+	// quantity (less the alike-sounding unit of another scale, unless a step of the job is in it);
+	// check steps by no value at all. Two groups, not one a unit: the decoder expands every use
+	// of <number> into a copy of its own, and one group a unit doubled the decode time (CPU p50
+	// 198 → 367 ms a phrase on job 1041). Step and part names still make one list for "spec …",
+	// "done …" and "new …" (the phrase engine, not the grammar, tells a step from a part).
 	const groups = new Map<string, { names: Set<string>; units: Set<string>; value: boolean }>();
 	for (const s of input.steps) {
-		const units = keep(stepUnitPhrases(s));
-		const key = s.unit ? 'value:' + [...units].sort().join('|') : 'check';
-		const g = groups.get(key) ?? { names: new Set<string>(), units, value: !!s.unit };
+		const key = s.unit ? 'value' : 'check';
+		const g = groups.get(key) ?? { names: new Set<string>(), units: new Set(), value: !!s.unit };
+		for (const u of keep(stepUnitPhrases(s))) g.units.add(u);
 		for (const n of keep([s.label, ...(s.aliases ?? [])])) g.names.add(n);
 		if (g.names.size) groups.set(key, g);
 	}
@@ -282,14 +283,14 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 
 	const groupRules: string[] = [];
 	const calls: string[] = [];
-	[...groups.values()].forEach((g, i) => {
+	for (const [key, g] of groups) {
 		// a step with no unit is a check: it is done, never given a value
-		const unit = g.units.size ? ` [<unit${i}>]` : '';
+		const unit = g.units.size ? ' [<unit>]' : '';
 		const value = g.value ? `<number>${unit} | ` : '';
-		calls.push(`<name${i}> (${value}<donetail> | <parttail>)`);
-		groupRules.push(`<name${i}> = ${alternatives(g.names)};`);
-		if (g.units.size) groupRules.push(`<unit${i}> = ${alternatives(g.units)};`);
-	});
+		calls.push(`<${key}name> (${value}<donetail> | <parttail>)`);
+		groupRules.push(`<${key}name> = ${alternatives(g.names)};`);
+		if (g.units.size) groupRules.push(`<unit> = ${alternatives(g.units)};`);
+	}
 	if (partsOnly.length) {
 		calls.push('<partname> <parttail>');
 		groupRules.push(`<partname> = ${alternatives(partsOnly)};`);
