@@ -169,7 +169,8 @@ describe('appendEntry', () => {
 	});
 
 	it('reads "at 10:30" on the shop\'s clock, also once the job is known to this process', async () => {
-		const f = await makeShop('Bench');
+		// the job card is opened before the entries' fixed clock (back-dating is bounded by it)
+		const f = await makeShop('Bench', { jobOpenedAt: new Date('2026-12-01T08:00:00Z') });
 		await db.update(s.shop).set({ timeZone: 'Europe/Berlin' }).where(eq(s.shop.id, f.shop.id));
 		const now = new Date('2026-12-02T15:00:00Z');
 		// Europe/Berlin keeps CET, UTC+1, in December (IANA time zone database): 10:30 there is

@@ -83,7 +83,8 @@ describe('torque tool checks', () => {
 	});
 
 	it('finds the jobs tightened with the tool since its last passed check', async () => {
-		const f = await makeShop('Tools');
+		// the job card is opened before the first entry's fixed clock (back-dating is bounded by it)
+		const f = await makeShop('Tools', { jobOpenedAt: new Date('2026-10-30T08:00:00Z') });
 		const tool = await addTool(f);
 		await recordCheck(f.shop.id, f.owner.id, tool.id, check('2026-11-02', good));
 		const before = entryOf(
