@@ -67,6 +67,15 @@ describe('spoken units', () => {
 		const oil = stepUnitPhrases({ label: 'Oil', unit: 'L' });
 		expect(oil).toEqual(expect.arrayContaining(['litres', 'millilitres', 'quarts']));
 		expect(stepUnitPhrases({ label: 'Test ride' })).toEqual([]);
+		// a job that mixes N·m and kgf·m steps hears neither "newton centimetres" nor "kilogram
+		// centimetres" after any of them, unless a step is in that unit itself
+		const mixed = ['N.m', 'kgf.m'];
+		const nm = stepUnitPhrases({ label: 'Rear axle nut', unit: 'N.m' }, mixed);
+		expect(nm).toContain('kilogram metres');
+		expect(nm).not.toContain('kilogram centimetres');
+		expect(nm).not.toContain('newton centimetres');
+		const kgfcm = stepUnitPhrases({ label: 'Plug', unit: 'kgf.m' }, [...mixed, 'N.cm']);
+		expect(kgfcm).toContain('newton centimetres');
 	});
 });
 

@@ -118,14 +118,21 @@ export const SPOKEN_UNITS: Record<string, string[]> = {
  * metric prefix away from its own that sound alike ("newton centimetres" for a step in newton
  * metres, "millimetres" for one in centimetres). The decoder cannot hear what the grammar does
  * not hold, so a mishearing of "metres" as "millimetres" becomes a near miss of the step's own
- * unit instead of a value 1000× off. A step without a unit takes none.
+ * unit instead of a value 1000× off. `jobUnits`, the units of the job's other steps, take out
+ * their alike-sounding scales too, since the grammar lists one set of unit words for all the
+ * job's steps. A step without a unit takes none.
  */
-export function stepUnitPhrases(step: GrammarStep): string[] {
+export function stepUnitPhrases(step: GrammarStep, jobUnits: readonly string[] = []): string[] {
 	const kind = step.unit ? dimensionOf(step.unit) : null;
 	if (!step.unit || !kind) return [];
+	const units = [step.unit, ...jobUnits];
 	const out: string[] = [];
-	for (const [code, phrases] of Object.entries(SPOKEN_UNITS))
-		if (dimensionOf(code) === kind && !isWrongScale(code, step.unit)) out.push(...phrases);
+	for (const [code, phrases] of Object.entries(SPOKEN_UNITS)) {
+		if (dimensionOf(code) !== kind) continue;
+		// left out when it is the alike-sounding scale of any step's unit, unless a step is in it
+		if (!units.includes(code) && units.some((u) => isWrongScale(code, u))) continue;
+		out.push(...phrases);
+	}
 	return out;
 }
 
@@ -255,10 +262,11 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 	// 198 → 367 ms a phrase on job 1041). Step and part names still make one list for "spec …",
 	// "done …" and "new …" (the phrase engine, not the grammar, tells a step from a part).
 	const groups = new Map<string, { names: Set<string>; units: Set<string>; value: boolean }>();
+	const jobUnits = input.steps.flatMap((s) => (s.unit ? [s.unit] : []));
 	for (const s of input.steps) {
 		const key = s.unit ? 'value' : 'check';
 		const g = groups.get(key) ?? { names: new Set<string>(), units: new Set(), value: !!s.unit };
-		for (const u of keep(stepUnitPhrases(s))) g.units.add(u);
+		for (const u of keep(stepUnitPhrases(s, jobUnits))) g.units.add(u);
 		for (const n of keep([s.label, ...(s.aliases ?? [])])) g.names.add(n);
 		if (g.names.size) groups.set(key, g);
 	}
