@@ -1,5 +1,5 @@
 /**
- * Append benchmark (issue 4, "Speed"): the built app and the local PostgreSQL; autocannon with
+ * Append benchmark: the built app and the local PostgreSQL; autocannon with
  * 50 concurrent signed-in clients (one session cookie per connection) posting entries for 20 s,
  * each request a new device-made id; then, on the same database, the raw single-row INSERT rate
  * of log_entry from a plain postgres.js loop with the same concurrency, and the ratio. It prints

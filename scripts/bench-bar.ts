@@ -3,8 +3,8 @@
  * typed into the call bar; prints p50/p95 of keystroke-to-preview time, measured inside the page
  * for every keystroke: from the keydown to the preview updated and laid out (the page's work,
  * which must fit in one frame), and to the first animation frame after it (which adds the wait
- * for the display's next frame). It prints measured figures only; nothing is asserted. Goal
- * (issue 4): p95 ≤ 16 ms (one frame) from keystroke to preview ready.
+ * for the display's next frame). It prints measured figures only; nothing is asserted. Goal:
+ * p95 ≤ 16 ms (one frame) from keystroke to preview ready.
  * Runs on its own scratch database (benchcall_bench_bar, made anew each run).
  *
  *   npm run bench:bar

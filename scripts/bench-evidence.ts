@@ -1,7 +1,7 @@
 /**
  * Evidence pack benchmark: a job with 2,000 log entries and 200 photos (phone-sized JPEGs) in a
  * scratch database; prints the measured time to read the pack and to draw its PDF, the peak
- * memory of the process while doing so, and the PDF's size. Figures only; the goal (issue 19):
+ * memory of the process while doing so, and the PDF's size. Figures only; the goal:
  * the whole pack within 10 s, memory bounded (photos are shrunk a few at a time). Run 1 finds no
  * downscaled copies (photos stored before copies were made: each is shrunk now and kept); later
  * runs read the copies, as a pack does for photos uploaded through the app (photos.ts).

@@ -1,5 +1,5 @@
 /**
- * Load benchmark (issue 9, "Load"): 50 technicians each posting an entry every 2 s (open loop:
+ * Load benchmark: 50 technicians each posting an entry every 2 s (open loop:
  * on schedule, whether or not the last one was answered) and 5 foremen on the Floor's live
  * stream, against the built app and the local PostgreSQL. Prints entries/s, p50/p99 append
  * latency, the stream's delivery delay (from a technician sending an entry to each foreman

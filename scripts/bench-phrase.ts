@@ -1,7 +1,7 @@
 /**
  * Phrase engine benchmark: builds invented vocabularies of 500 and 5,000 steps and prints the
  * measured p50 / p99 parse time per phrase. It prints figures only; nothing here is asserted.
- * Goal (issue 3): p99 ≤ 1 ms at 500 steps, ≤ 5 ms at 5,000, on a 2-core machine.
+ * Goal: p99 ≤ 1 ms at 500 steps, ≤ 5 ms at 5,000, on a 2-core machine.
  *
  *   npm run bench:phrase
  */
@@ -91,7 +91,7 @@ function vocabulary(n: number): StepSpec[] {
 		{ id: 'axle', label: 'Rear axle nut', unit: 'N.m', min: 80, max: 90 },
 		{ id: 'fork', label: 'Fork oil', aliases: ['fork fluid'], unit: 'mL', min: 115, max: 125 },
 		{ id: 'play', label: 'Brake pedal free play', unit: 'mm', min: 20, max: 30 },
-		// demo fluid specs (issue 16)
+		// demo fluid specs (SAE J300, API, JASO T 903 grades)
 		{
 			id: 'sump',
 			label: 'Sump refill',

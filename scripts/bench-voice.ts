@@ -3,8 +3,8 @@
  * `npm run voice:corpus`) through noise suppression, decoder, phrase engine and gate, as a table
  * per voice × noise level for the tuning and held-out splits (scripts/lib/voice-corpus-bench.ts).
  * With --fixtures: model load, grammar build and p50 / p95 decode time per committed test
- * phrase (tests/fixtures/voice). It prints figures only; nothing here is asserted. Goals (issue
- * 15): decode ≤ 300 ms per phrase including noise suppression, model load ≤ 2 s.
+ * phrase (tests/fixtures/voice). It prints figures only; nothing here is asserted. Goals:
+ * decode ≤ 300 ms per phrase including noise suppression, model load ≤ 2 s.
  *
  *   npm run bench:voice                         (the corpus; --quick corpus if that is what was made)
  *   npm run bench:voice -- --split=tune         (tuning split only; --split=held for the other)

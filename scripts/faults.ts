@@ -1,5 +1,5 @@
 /**
- * Fault tests (issue 9, "Faults"). Nothing here is a mock: the built app (`node build`), the
+ * Fault tests (nothing acknowledged is lost or stored twice). Nothing here is a mock: the built app (`node build`), the
  * project's PostgreSQL cluster and Debian's Chromium, with the Bench's own outbox (IndexedDB via
  * idb-keyval) doing the retrying. Three scenes, each printing what it saw:
  *

@@ -814,7 +814,7 @@ async function main() {
 			});
 		}
 
-		// Demo history for spec drift (issue 7): 24 past paid services, one every five days, whose
+		// Demo history for spec drift: 24 past paid services, one every five days, whose
 		// rear axle nut was torqued with TW-02. Invented values that creep upward, so the Floor's
 		// spec drift page has a chart, Cp/Cpk (n ≥ 20) and a tool leaning above nominal to show.
 		for (let i = 0; i < 24; i++) {

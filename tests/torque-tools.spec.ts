@@ -21,7 +21,7 @@ test('the Bench works out the wrench setting for an adapter and keeps it with th
 	await page.getByLabel('Torque tool in use').selectOption(await toolId('TW-01'));
 	await bar(page).fill('lower mount 55 nm adapter 50 mm');
 	const top = page.getByTestId('candidate').first();
-	// T × L / (L + E) = 55 × 310 / 360 = 47.36 N·m (the formula of TRADE.md §5's worked examples)
+	// T × L / (L + E) = 55 × 310 / 360 = 47.36 N·m (the formula of US Army TM 1-1500-204-23-9's worked example)
 	await expect(top.getByTestId('preview-setting')).toHaveText('47.4 N·m');
 	await expect(top.getByTestId('preview-adapter')).toContainText('adapter 50 mm on TW-01');
 	await page.keyboard.press('Enter');
@@ -74,7 +74,7 @@ test('a torque tool’s check: the failed tool names the jobs to revisit; a new 
 	await page.getByRole('button', { name: 'Record the check of TW-01' }).click();
 	await expect(page.getByTestId('check-error')).toContainText('at least one test point');
 	await expect(page.getByTestId('check-row')).toHaveCount(1);
-	// ISO 6789-1 Type II class A: ±4 % above 10 N·m (TRADE.md §5 [SRC]); readings invented
+	// ISO 6789-1 Type II class A: ±4 % above 10 N·m (ISO 6789-1:2017, per a tool maker's summary); readings invented
 	await page.getByLabel('Reading 1 at 12 N·m').fill('12.2');
 	await page.getByLabel('Reading 1 at 36 N·m').fill('36.9');
 	await page.getByLabel('Reading 1 at 60 N·m').fill('61.4');

@@ -42,7 +42,7 @@ describe('decide', () => {
 	});
 });
 
-describe('the slower global back-off for one e-mail (issue 21)', () => {
+describe('the slower global back-off for one e-mail, against distributed guessing', () => {
 	const now = new Date('2026-12-04T10:00:00Z');
 	it('slows every answer once failures pile up from many addresses', () => {
 		expect(decide({ ...none, email: 0, emailAnywhere: 9 }, now)).toEqual({

@@ -186,7 +186,7 @@ describe('draft lines from the log', () => {
 
 	describe('fluids by the grade that was logged', () => {
 		// Invented demo price list with grades; "SAE 10W-30, API SJ, JASO MA" is a valid
-		// J300/API/JASO triple (common practice, TRADE.md §6).
+		// J300/API/JASO triple (SAE J300, API, JASO T 903; the combination is common practice).
 		const graded: PriceListPart[] = [
 			...parts,
 			{

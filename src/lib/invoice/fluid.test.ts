@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { pickByGrade } from './fluid';
 
 // Invented demo price list; "SAE 10W-30, API SJ, JASO MA" is a valid J300/API/JASO triple
-// (common practice, TRADE.md §6).
+// (SAE J300, API gasoline categories, JASO T 903; the combination is common practice).
 const items = [
 	{ id: 'a', fluid: 'SAE 10W-30, API SJ, JASO MA' },
 	{ id: 'b', fluid: 'SAE 10W-40, API SN, JASO MA2' },

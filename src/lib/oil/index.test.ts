@@ -21,7 +21,7 @@ describe('parseOilGrade', () => {
 		expect(g.warnings).toEqual([]);
 	});
 
-	it('reads "10W-30 SJ MA2" as valid (issue 3; JASO T 903 MA2 sub-band)', () => {
+	it('reads "10W-30 SJ MA2" as valid (a grade a workshop writes; JASO T 903 MA2 sub-band)', () => {
 		const g = parseOilGrade('10W-30 SJ MA2');
 		expect(g.valid).toBe(true);
 		expect(g.sae?.text).toBe('10W-30');
@@ -38,7 +38,7 @@ describe('parseOilGrade', () => {
 	});
 
 	it('rejects 25W-20: not an SAE J300 grade', () => {
-		// SAE J300 (TRADE.md §6): 25W needs ≥ 9.3 mm²/s at 100 °C, grade 20 is below 9.3
+		// SAE J300 (2015 table): 25W needs ≥ 9.3 mm²/s at 100 °C, grade 20 is below 9.3
 		const g = parseOilGrade('25W-20');
 		expect(g.valid).toBe(false);
 		expect(g.sae).toBeNull();
@@ -47,7 +47,7 @@ describe('parseOilGrade', () => {
 	});
 
 	it('rejects numbers outside the J300 tables', () => {
-		// SAE J300 winter grades 0W…25W, hot grades 8…60 (TRADE.md §6 [SRC])
+		// SAE J300 winter grades 0W…25W, hot grades 8…60 (SAE J300, 2015 table as reproduced)
 		expect(parseOilGrade('7W-30').problems[0]).toMatch(/7W is not a winter grade/);
 		expect(parseOilGrade('10W-35').problems[0]).toMatch(/35 is not a viscosity grade/);
 		expect(parseOilGrade('SAE 35').valid).toBe(false);
@@ -62,7 +62,7 @@ describe('parseOilGrade', () => {
 	});
 
 	it('knows API S categories: SI and SK never issued, SA…SH obsolete', () => {
-		// API gasoline category sequence (TRADE.md §6 [SRC sequence])
+		// API gasoline category sequence (API 1509 service categories: SJ, SL, SM, SN, SP, SQ; SI and SK skipped)
 		expect(parseOilGrade('API SK').problems[0]).toMatch(/never issued/);
 		expect(parseOilGrade('API SI').valid).toBe(false);
 		const old = parseOilGrade('20W-50 API SG');

@@ -4,7 +4,7 @@
  * Pure functions; never throw.
  */
 
-/** SAE J300 winter (W) grades and high-temperature grades (2015 table, TRADE.md §6). */
+/** SAE J300 winter (W) grades and high-temperature grades (SAE J300, 2015 table as reproduced). */
 export const SAE_WINTER_GRADES = [0, 5, 10, 15, 20, 25] as const;
 export const SAE_HOT_GRADES = [8, 12, 16, 20, 30, 40, 50, 60] as const;
 

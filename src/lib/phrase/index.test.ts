@@ -44,7 +44,7 @@ const NOW = new Date('2026-12-02T09:00:00Z'); // 10:00 in Europe/Berlin
 const ctx = { steps: JOB, now: NOW, timeZone: 'Europe/Berlin' };
 const p = (text: string): ParsedPhrase => parsePhrase(text, ctx);
 
-describe('issue 3 examples', () => {
+describe('the spec phrasings a workshop writes', () => {
 	const c = { steps: ISSUE_STEPS, now: NOW, timeZone: 'UTC' };
 
 	it('"swingarm pivot 8.5 kgf m" → measure a, 8.5 kgf.m = 83.356525 N.m, in', () => {
@@ -89,7 +89,7 @@ describe('issue 3 examples', () => {
 
 describe('check values from the trade', () => {
 	it('53 N·m against a 5.4 kgf·m nominal with ±10 % is in', () => {
-		// common practice: ±10 % house tolerance on a nominal-only torque (TRADE.md §2 [PRACTICE]);
+		// common practice: ±10 % house tolerance on a nominal-only torque (no single published source);
 		// 5.4 kgf·m = 52.95591 N·m (9.80665 from NIST SP 811 App. B.8)
 		const r = p('rear axle nut 53 Nm');
 		expect(r.stepId).toBe('ra');
@@ -568,7 +568,7 @@ describe('robustness', () => {
 			'½',
 			'\u0000',
 			'𝟖𝟎',
-			// fluid grades (issue 16)
+			// fluid grades (SAE J300, API, JASO T 903)
 			'10w-30',
 			'15w-35',
 			'sae',

@@ -4,7 +4,7 @@ import { extraWorkSchema } from './job';
 import { inWindow, readDate } from './dates';
 import { toolSchema } from './shop';
 
-// The values an attacker and a careless typist tried (issue 21): each is refused with words.
+// The values an attacker and a careless typist tried: each is refused with words.
 const wild = ['99999-01-01', '0000-01-01', '+275760-09-13T00:00:00Z', '0001-01-01T00:00:00Z'];
 
 describe('dates in a sane window', () => {

@@ -1,4 +1,4 @@
-// Payloads and query strings of the Floor (issue 7).
+// Payloads and query strings of the Floor (the foreman's live view of the shop).
 import { z } from 'zod';
 import { decodeResume } from '$lib/floor/resume';
 

@@ -1,4 +1,4 @@
-// One definition of "step done" and "out of spec waiting for an answer" (issue 20): the Bench,
+// One definition of "step done" and "out of spec waiting for an answer": the Bench,
 // the Jobs list, the job state machine and the Floor read the same state (job_step_state,
 // drizzle/0011) and must agree after a redo, an accept, a retraction and a re-measure.
 import { eq } from 'drizzle-orm';

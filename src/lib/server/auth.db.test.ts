@@ -69,7 +69,7 @@ describe('sessions read from the short-lived cache', () => {
 	});
 });
 
-describe('sign-in throttling (issue 21)', () => {
+describe('sign-in throttling against password guessing', () => {
 	const wrong = (email: string, address: string) => checkSignIn(email, 'not the password', address);
 
 	it('checks at most five of seven simultaneous wrong passwords for one e-mail', async () => {
@@ -93,7 +93,7 @@ describe('sign-in throttling (issue 21)', () => {
 	});
 });
 
-describe('the session cookie (issue 21)', () => {
+describe('the session cookie is hardened', () => {
 	it('lives no longer than the server session it names', () => {
 		const cookie = lucia.createSessionCookie('any-session-id');
 		// Two days, as sessionExpiresIn: the cookie was 400 days with `expires: false`.

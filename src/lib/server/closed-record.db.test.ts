@@ -1,4 +1,4 @@
-// A closed record takes nothing more (issue 21): the database refuses an entry or a photo on a
+// A closed record takes nothing more: the database refuses an entry or a photo on a
 // job whose record is closed, in the inserting statement, under a row lock on the job
 // (drizzle/0013), so a close and an append that race never leave an entry after the close.
 import { mkdtempSync } from 'node:fs';

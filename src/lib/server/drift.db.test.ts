@@ -1,5 +1,5 @@
 // Spec drift read in SQL over a window: the statistics equal simple-statistics over every
-// reading in the window (TRADE.md §3 [LIB]), and the chart's points stay near MAX_POINTS while
+// reading in the window (checked against the npm library simple-statistics 7), and the chart's points stay near MAX_POINTS while
 // keeping every out-of-spec reading and the window's extremes.
 import { sql } from 'drizzle-orm';
 import * as ss from 'simple-statistics';

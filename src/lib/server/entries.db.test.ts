@@ -563,7 +563,7 @@ describe('sendToFinalInspection', () => {
 	});
 });
 
-describe('a closed record takes no entries (issue 21)', () => {
+describe('a closed record takes no entries', () => {
 	const setState = (f: Fixture, state: (typeof s.job.$inferSelect)['state']) =>
 		db.update(s.job).set({ state }).where(eq(s.job.id, f.job.id));
 

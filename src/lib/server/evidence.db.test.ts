@@ -72,7 +72,7 @@ async function jobWithHistory() {
 			verdict: 'in',
 			torqueToolId: tool.id,
 			toolCalibrationOverdue: true,
-			// a 50 mm adapter on a 300 mm wrench: set 86.29852 × 300 / 350 (TRADE.md §5's formula)
+			// a 50 mm adapter on a 300 mm wrench: set 86.29852 × 300 / 350 (T × L / (L + E), as in US Army TM 1-1500-204-23-9's worked example)
 			adapterMm: 50,
 			toolLengthMm: 300,
 			wrenchSetting: (86.29852 * 300) / 350,

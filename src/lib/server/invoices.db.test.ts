@@ -187,7 +187,7 @@ describe('payments', () => {
 	});
 });
 
-describe('money the provider took is never lost (issue 21)', () => {
+describe('money the provider took is never lost', () => {
 	const secret = 'whsec_test_secret_for_db_tests';
 
 	it('records a checkout paid after the invoice was credited, as a refund due', async () => {
@@ -262,7 +262,7 @@ describe('money the provider took is never lost (issue 21)', () => {
 	});
 });
 
-describe('amounts that cannot be stored are refused with words (issue 21)', () => {
+describe('amounts that cannot be stored are refused with words', () => {
 	it('refuses a line of 10 000 × 9 999 999.99', async () => {
 		const f = await makeShop('Huge line');
 		const d = await readyDraft(f, 810, 100);

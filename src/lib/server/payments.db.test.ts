@@ -48,7 +48,7 @@ async function issued(number: number, priceMinor: number) {
 	return { f, invoiceId: d.invoiceId };
 }
 
-describe('checkout pages at the provider (issue 21)', () => {
+describe('checkout pages at the provider', () => {
 	it('a credit note closes the open checkout, so it can no longer be paid', async () => {
 		const { f, invoiceId } = await issued(900, 2500);
 		const inv = await getInvoice(f.shop.id, invoiceId);

@@ -37,7 +37,7 @@ async function addTool(f: Fixture, over: Partial<typeof s.torqueTool.$inferInser
 	return tool;
 }
 
-// ISO 6789-1 Type II class A above 10 N·m: ±4 % (TRADE.md §5 [SRC]); readings invented.
+// ISO 6789-1 Type II class A above 10 N·m: ±4 % (ISO 6789-1:2017, per a tool maker's summary); readings invented.
 const good = [
 	{ set: 40, readings: [40.8, 39.5, 41.2, 40.1, 40.4] },
 	{ set: 120, readings: [121, 118.9, 122.4, 120.3, 119.6] },
@@ -146,7 +146,7 @@ describe('torque through an adapter at the Bench', () => {
 			await appendEntry(tech(f), f.job.id, post('rear axle 88 nm adapter 50 mm', tool.id))
 		);
 		expect(e).toMatchObject({ specValue: 88, verdict: 'in', adapterMm: 50, toolLengthMm: 300 });
-		// T × L / (L + E), the formula of TRADE.md §5's worked examples
+		// T × L / (L + E), the formula of the worked examples in US Army TM 1-1500-204-23-9 and the Piper PA-28-161 maintenance manual §2-90
 		expect(e.wrenchSetting).toBeCloseTo((88 * 300) / 350, 10);
 		expect(e.wrenchSettingUnit).toBe('N.m');
 		const back = entryOf(

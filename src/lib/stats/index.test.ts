@@ -15,12 +15,12 @@ import {
 
 describe('capability indices', () => {
 	it('matches the NIST/SEMATECH e-Handbook §6.1.6 example', () => {
-		// NIST/SEMATECH e-Handbook of Statistical Methods §6.1.6 (TRADE.md §4 [SRC]):
+		// NIST/SEMATECH e-Handbook of Statistical Methods §6.1.6 "What is Process Capability?":
 		// USL = 20, LSL = 8, mean = 16, s = 2 → Cp = 1.0, Cpk = 0.6667.
 		const r = capabilityFrom(16, 2, { lsl: 8, usl: 20 });
 		expect(r.cp).toBeCloseTo(1.0, 10);
 		expect(r.cpk).toBeCloseTo(0.6667, 4);
-		// Cpu and Cpl of the same example (TRADE.md §4 [MEM]).
+		// Cpu and Cpl of the same example (from memory of the same NIST/SEMATECH §6.1.6 page).
 		expect(r.cpu).toBeCloseTo(0.6667, 4);
 		expect(r.cpl).toBeCloseTo(1.3333, 4);
 	});
@@ -28,7 +28,7 @@ describe('capability indices', () => {
 	it('gives Cp and Cpk from readings once there are enough, with mean and s as simple-statistics', () => {
 		const values = Array.from({ length: 24 }, (_, i) => 88 + ((i * 7) % 9) - 4);
 		const r = capability(values, { lsl: 80, usl: 96 });
-		// Reference library: simple-statistics (TRADE.md §3 [LIB]).
+		// Reference library: simple-statistics 7 (npm).
 		expect(r.mean).toBeCloseTo(ss.mean(values), 12);
 		expect(r.s).toBeCloseTo(ss.sampleStandardDeviation(values), 12);
 		const s = ss.sampleStandardDeviation(values);
@@ -58,8 +58,8 @@ describe('capability indices', () => {
 });
 
 describe('mean and sample standard deviation', () => {
-	it('agree with simple-statistics on the TRADE.md vector', () => {
-		// simple-statistics 7 (TRADE.md §3 [LIB]): mean 5, sample s 2.138089935299395.
+	it('agree with simple-statistics on the vector [2, 4, 4, 4, 5, 5, 7, 9]', () => {
+		// simple-statistics 7 (npm), run on this vector: mean 5, sample s 2.138089935299395.
 		const v = [2, 4, 4, 4, 5, 5, 7, 9];
 		expect(mean(v)).toBe(5);
 		expect(sampleStdDev(v)).toBeCloseTo(2.138089935299395, 14);

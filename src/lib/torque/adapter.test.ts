@@ -15,22 +15,22 @@ const setting = (t: number, l: number, e: number) =>
 
 describe('wrench setting with an adapter (T × L / (L + E))', () => {
 	it('US Army TM 1-1500-204-23-9: 300 in·lb, L 10 in, E 4 in → 214 in·lb', () => {
-		// TRADE.md §5 [SRC]; the manual rounds 214.2857 to 214
+		// US Army TM 1-1500-204-23-9's worked example; the manual rounds 214.2857 to 214
 		expect(setting(300, 10, 4)).toBeCloseTo(214.2857, 4);
 	});
 
 	it('US Navy aviation training manual: 100 in·lb, L 12 in, E 6 in → 66.7 in·lb', () => {
-		// TRADE.md §5 [SRC]
+		// the US Navy aviation training manual's worked example
 		expect(setting(100, 12, 6)).toBeCloseTo(66.7, 1);
 	});
 
 	it('Piper PA-28-161 maintenance manual §2-90: 30 ft·lb, L 1 ft, E 0.25 ft → 24 ft·lb', () => {
-		// TRADE.md §5 [SRC]
+		// Piper PA-28-161 maintenance manual §2-90, worked example
 		expect(setting(30, 1, 0.25)).toBeCloseTo(24, 10);
 	});
 
 	it('Robinson R66 maintenance manual ch. 20: 135 in·lb, L 10, E 1.5 → 117.39; back → 158.82', () => {
-		// TRADE.md §5 [SRC]: lengthening and shortening (L − E)
+		// Robinson R66 maintenance manual ch. 20, worked example: lengthening and shortening (L − E)
 		expect(setting(135, 10, 1.5)).toBeCloseTo(117.39, 2);
 		expect(setting(135, 10, -1.5)).toBeCloseTo(158.82, 2);
 	});
@@ -56,7 +56,7 @@ describe('wrench setting with an adapter (T × L / (L + E))', () => {
 	});
 
 	it('gives the setting in the wrench’s own unit too', () => {
-		// NIST SP 811 App. B.8: 1 lbf·ft = 1.355818 N·m (TRADE.md §3, exact 1.3558179483314004)
+		// NIST SP 811 App. B.8: 1 lbf·ft = 1.355818 N·m (exact 1.3558179483314004 from the 1959 definitions)
 		const nm = setting(54.23272, 300, 50) as number; // 40 lbf·ft at the fastener
 		expect(inToolUnit(nm, 'N.m', '[lbf_av].[ft_i]')).toBeCloseTo((40 * 300) / 350, 4);
 		expect(inToolUnit(10, 'N.m', 'N.m')).toBe(10);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { addMonths, calibrationDue } from './index';
 
 describe('calibration due', () => {
-	it('12 months by default (tool-maker guidance, TRADE.md §5)', () => {
+	it('12 months by default (tool-maker guidance)', () => {
 		const s = calibrationDue('2026-01-15', { today: '2026-12-02' });
 		expect(s.dueDate).toBe('2027-01-15');
 		expect(s.state).toBe('ok');
@@ -20,7 +20,7 @@ describe('calibration due', () => {
 	});
 
 	it('5000 cycles, whichever comes first', () => {
-		// 12 months or 5 000 cycles (tool-maker guidance, TRADE.md §5 [SRC])
+		// 12 months or 5 000 cycles (tool-maker guidance, whichever comes first)
 		const s = calibrationDue('2026-06-01', { today: '2026-12-02', cyclesUsed: 5000 });
 		expect(s.state).toBe('overdue');
 		expect(s.reason).toBe('cycles');

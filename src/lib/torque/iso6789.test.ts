@@ -3,7 +3,7 @@ import { deviationPct, judgeCheck, permissiblePct, testPoints, toolClass } from 
 
 describe('ISO 6789 permissible deviation', () => {
 	it('Type II class A: ±4 % above 10 N·m, ±6 % at or below', () => {
-		// ISO 6789-1:2017 per a tool maker's summary (TRADE.md §5 [SRC])
+		// ISO 6789-1:2017 per a tool maker's summary
 		expect(permissiblePct('Type II class A click', 200, 'N.m')).toBe(4);
 		expect(permissiblePct('Type II class A click', 10, 'N.m')).toBe(6);
 		expect(permissiblePct('type 2 class a', 25, 'N.m')).toBe(4);
@@ -38,7 +38,7 @@ describe('ISO 6789-2 test points and the judgement', () => {
 	});
 
 	it('a click wrench 40–200 N·m within ±4 % passes; one reading 4.05 % high fails', () => {
-		// ISO 6789-1 Type II class A limit (TRADE.md §5 [SRC]); readings invented for the test
+		// ISO 6789-1 Type II class A limit (per a tool maker's summary of the standard); readings invented for the test
 		const good = judgeCheck(
 			[
 				{ set: 40, readings: [40.8, 39.5, 41.2, 40.1, 40.4] },

@@ -2,7 +2,7 @@
  * A torque tool's check against a torque tester, judged by the permissible deviation of
  * ISO 6789-1:2017 for its type and class, at the test points of ISO 6789-2:2017.
  *
- * Sources and marks (TRADE.md §5):
+ * Sources and marks (ISO 6789-1:2017 and ISO 6789-2:2017):
  * - Type II (setting, "click") class A: ±4 % of reading above 10 N·m, ±6 % at or below
  *   10 N·m [SRC: a tool maker's summary of the standard].
  * - Type II classes D and G share class A's limits; classes B, C, E and F are ±6 % [MEM].

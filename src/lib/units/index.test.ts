@@ -83,7 +83,7 @@ describe('unit table', () => {
 
 describe('convert against @lhncbc/ucum-lhc', () => {
 	it('agrees within 1e-9 (relative) for random values over every same-kind pair', () => {
-		// Oracle: @lhncbc/ucum-lhc convertUnitTo(from, v, to).toVal (TRADE.md §3 [LIB])
+		// Oracle: @lhncbc/ucum-lhc convertUnitTo(from, v, to).toVal (U.S. National Library of Medicine's UCUM library, npm)
 		fc.assert(
 			fc.property(
 				fc.constantFrom(...PAIRS),
@@ -105,7 +105,7 @@ describe('convert against @lhncbc/ucum-lhc', () => {
 	});
 
 	it('matches the reference figure kgf.m 8 → 78.4532 N.m', () => {
-		// @lhncbc/ucum-lhc, TRADE.md §3 [LIB]
+		// @lhncbc/ucum-lhc (U.S. National Library of Medicine's UCUM library, npm)
 		expect(ucumUtils.convertUnitTo('kgf.m', 8, 'N.m').toVal).toBeCloseTo(78.4532, 10);
 		expect(convert(8, 'kgf.m', 'N.m')).toBe(78.4532);
 	});
@@ -158,7 +158,7 @@ describe('convert against mathjs', () => {
 	});
 
 	it('agrees within 1e-9 (relative) for random values', () => {
-		// Oracle: mathjs math.unit(v, u).toNumber(u2) (TRADE.md §3 [LIB])
+		// Oracle: mathjs math.unit(v, u).toNumber(u2) (mathjs 15, npm)
 		fc.assert(
 			fc.property(
 				fc.constantFrom(...pairs),
@@ -173,12 +173,12 @@ describe('convert against mathjs', () => {
 	});
 });
 
-describe('convert: exact factors (TRADE.md §3)', () => {
+describe('convert: exact factors (NIST SP 811 App. B.8)', () => {
 	it('uses the exact derived factors', () => {
 		// NIST SP 811 App. B.8: kgf = 9.80665 N exactly; lb = 0.45359237 kg and ft = 0.3048 m
 		// (1959 agreement, [MEM] for the agreement, SP 811 prints the rounded figures checked below)
 		expect(convert(1, 'kgf.m', 'N.m')).toBe(9.80665);
-		// TRADE.md §3 prints these to 16–17 digits, computed in doubles. Our result must be the
+		// The exact products of the definitions above, to 16–17 digits, computed in doubles. Our result must be the
 		// double nearest to the exact decimal product (worked out by hand from the definitions),
 		// e.g. psi → Pa is 6894.757293168361336722673…, whose nearest double prints as …362.
 		const nearest = (exactDecimal: string) => Number(exactDecimal);
@@ -209,8 +209,8 @@ describe('convert: exact factors (TRADE.md §3)', () => {
 		expect(convert(1, 'kgf.m', 'N.m')).toBeCloseTo(9.80665, 10);
 	});
 
-	it('gives the worked values of TRADE.md §3', () => {
-		// Derived from NIST SP 811 App. B.8 factors, TRADE.md §3 worked values
+	it('gives worked values derived from NIST SP 811 App. B.8', () => {
+		// Derived from the NIST SP 811 (2008) App. B.8 factors
 		expect(convert(8, 'kgf.m', 'N.m')).toBe(78.4532);
 		expect(convert(8, 'kgf.m', '[lbf_av].[ft_i]')).toBeCloseTo(57.86411, 5);
 		expect(convert(40, '[lbf_av].[ft_i]', 'N.m')).toBeCloseTo(54.23272, 5);
@@ -219,8 +219,8 @@ describe('convert: exact factors (TRADE.md §3)', () => {
 		expect(convert(200, 'kPa', '[psi]')).toBeCloseTo(29.00755, 5);
 	});
 
-	it('gives the kgf·m check values of the issue', () => {
-		// common practice: figures a workshop quotes for kgf·m specs (issue 3), products of 9.80665
+	it('gives the kgf·m check values a workshop quotes', () => {
+		// common practice: figures a workshop quotes for kgf·m specs, products of 9.80665
 		expect(convert(5.4, 'kgf.m', 'N.m')).toBeCloseTo(52.95591, 5);
 		expect(convert(2.6, 'kgf.m', 'N.m')).toBeCloseTo(25.49729, 5);
 		expect(convert(1.2, 'kgf.m', 'N.m')).toBeCloseTo(11.76798, 5);
@@ -285,7 +285,7 @@ describe('convert: clear errors', () => {
 
 describe('unitFromWords', () => {
 	const cases: [string, string][] = [
-		// every form issue 3 lists
+		// every way a workshop writes these units
 		['Nm', 'N.m'],
 		['N·m', 'N.m'],
 		['N m', 'N.m'],

@@ -42,7 +42,7 @@ export interface UnitDef extends UnitInfo {
 	readonly offset: Rational;
 }
 
-// Definitions (TRADE.md §3): exact by definition, everything else is derived from these.
+// Definitions (NIST SP 811 (2008), App. B.8; 1959 international yard and pound agreement): exact by definition, everything else is derived from these.
 const G_N = dec('9.80665'); // standard gravity, m/s² (NIST SP 811 App. B.8)
 const LB = dec('0.45359237'); // avoirdupois pound, kg (1959 agreement)
 const IN = dec('0.0254'); // international inch, m (1959 agreement)

@@ -612,7 +612,7 @@ export const jobApproval = pgTable(
 	(t) => [index('job_approval_job_idx').on(t.jobId)]
 );
 
-// ——— Invoices, payments and e-mail (issue 8) ———
+// ——— Invoices, payments and e-mail ———
 
 export const invoiceKindEnum = pgEnum('invoice_kind', ['invoice', 'credit_note']);
 export const invoiceStatusEnum = pgEnum('invoice_status', ['draft', 'issued', 'paid', 'credited']);
