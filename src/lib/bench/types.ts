@@ -1,5 +1,5 @@
-// View types the Bench page and its components share with the server (`$lib/server/entries`
-// fills them): client code reads them from here, never from server modules.
+// View types the Bench page and its components share with the server, whose entries module
+// fills them: client code reads them from here, never from a server-only module.
 import type { FluidVerdict, Verdict } from '$lib/phrase';
 
 /** log_entry.kind and log_entry.source (the pgEnums in db/schema.ts). */
