@@ -6,6 +6,8 @@ import { voiceModel } from './scripts/lib/voice-model-plugin.js';
 export default defineConfig({
 	plugins: [tailwindcss(), sveltekit(), voiceModel()],
 	server: { host: '127.0.0.1' },
+	// the capture AudioWorklet is loaded as a module and has no importScripts
+	worker: { format: 'es' },
 	test: {
 		expect: { requireAssertions: true },
 		projects: [

@@ -94,6 +94,8 @@ test.describe('the Bench’s ear', () => {
 				timeout: 45_000
 			});
 			await page.getByRole('button', { name: 'Stop listening' }).click();
+			// the noise was suppressed on the audio thread, in the capture worklet
+			await expect(page.getByTestId('voice-denoise')).toHaveAttribute('data-running', 'true');
 			const added = await log.since();
 			expect(added).toHaveLength(1);
 			// demo spec of the rear axle nut: 80–96 N·m (invented values)

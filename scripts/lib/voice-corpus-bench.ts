@@ -22,7 +22,14 @@ import { createDecoder, DECODER_SETTINGS, useGrammar } from '../../src/lib/voice
 import { loadRnnoise } from '../../src/lib/voice/denoise';
 import { MIN_CONFIDENCE } from '../../src/lib/voice/gate';
 import { decideHeard } from '../../src/lib/voice/heard';
-import { hearCall, LOGGING_INTENTS, sameCall } from '../../src/lib/voice/pipeline';
+import { LevelEndpoint, VadEndpoint, type Endpoint } from '../../src/lib/voice/endpoint';
+import {
+	hearCall,
+	hearStream,
+	LOGGING_INTENTS,
+	sameCall,
+	type HeardCall
+} from '../../src/lib/voice/pipeline';
 import { isCancel } from '../../src/lib/phrase/index';
 
 interface Item {
@@ -69,6 +76,12 @@ export interface CorpusBenchOptions {
 	garbage: number | undefined;
 	/** write every row (file, heard, confidence, verdicts) to this JSON file */
 	dump: string | null;
+	/**
+	 * Hands-free instead of push-to-talk: each file with a second of its own noise either side,
+	 * streamed through the capture worklet's code and cut into calls by this endpoint
+	 * ('level', or 'vad' with an optional WebRTC mode, e.g. 'vad:3'); all judged hands-free.
+	 */
+	endpoint: string | null;
 }
 
 export function corpusOptions(argv: string[]): CorpusBenchOptions {
@@ -88,7 +101,8 @@ export function corpusOptions(argv: string[]): CorpusBenchOptions {
 		verbose: argv.includes('--verbose'),
 		every: Number(arg('every') ?? 1),
 		garbage: arg('garbage') === undefined ? undefined : Number(arg('garbage')),
-		dump: arg('dump') ?? null
+		dump: arg('dump') ?? null,
+		endpoint: arg('endpoint') ?? null
 	};
 }
 
@@ -123,9 +137,21 @@ export async function corpusBench(ss: SoundSwallowerModule, o: CorpusBenchOption
 	const rnnoise = o.denoise ? await loadRnnoise() : null;
 	console.log(
 		`corpus: noise suppression ${o.denoise ? 'on' : 'off'}, min confidence ${o.minConfidence}, ` +
-			`garbage weight ${o.garbage ?? 'default'}, settings ${JSON.stringify(o.settings)}`
+			`garbage weight ${o.garbage ?? 'default'}, settings ${JSON.stringify(o.settings)}` +
+			(o.endpoint ? `, hands-free through endpoint ${o.endpoint}` : ', push-to-talk')
 	);
 	const rows: Row[] = [];
+	const makeEndpoint = (): Endpoint => {
+		const [kind, mode] = (o.endpoint ?? 'level').split(':');
+		if (kind === 'vad') return new VadEndpoint(ss, { mode: mode ? Number(mode) : undefined });
+		if (kind === 'level') return new LevelEndpoint();
+		throw new Error(`--endpoint=${o.endpoint}: use level, vad or vad:<0-3>`);
+	};
+	const hearStreamOf = (samples: Float32Array, steps: StepSpec[]) =>
+		hearStream(decoder, withOwnNoise(samples), steps, makeEndpoint(), {
+			rnnoise,
+			minConfidence: o.minConfidence
+		});
 	// one grammar per job: sort so each job's grammar is set once per voice
 	const items = corpus.items
 		.filter((it) => !o.only || it.voice.includes(o.only))
@@ -147,6 +173,10 @@ export async function corpusBench(ss: SoundSwallowerModule, o: CorpusBenchOption
 			job = j;
 		}
 		const samples = readWavForModel(readFileSync(root + '.data/voice-corpus/' + it.file));
+		if (o.endpoint) {
+			rows.push(handsFreeRow(it, p, steps, o, () => hearStreamOf(samples, steps)));
+			continue;
+		}
 		const cpu0 = process.cpuUsage();
 		const h = hearCall(decoder, samples, steps, { rnnoise, minConfidence: o.minConfidence });
 		const cpu = process.cpuUsage(cpu0);
@@ -189,6 +219,65 @@ export async function corpusBench(ss: SoundSwallowerModule, o: CorpusBenchOption
 	decoder.delete();
 	if (o.dump) writeFileSync(o.dump, JSON.stringify(rows, null, 1));
 	report(rows, o);
+}
+
+/**
+ * A recording with a second of its own noise either side (its first and last quarter second,
+ * which carry no speech, repeated), so an endpoint has quiet to learn from and to end on.
+ */
+function withOwnNoise(samples: Float32Array): Float32Array {
+	const q = Math.min(4000, Math.floor(samples.length / 4));
+	const head = samples.subarray(0, q);
+	const tail = samples.subarray(samples.length - q);
+	const out = new Float32Array(samples.length + 8 * q);
+	for (let k = 0; k < 4; k++) out.set(head, k * q);
+	out.set(samples, 4 * q);
+	for (let k = 0; k < 4; k++) out.set(tail, 4 * q + samples.length + k * q);
+	return out;
+}
+
+/** One file heard hands-free: right if a call acted on is what was said and none is wrong. */
+function handsFreeRow(
+	it: Item,
+	p: (Phrase & { n: number }) | undefined,
+	steps: StepSpec[],
+	o: CorpusBenchOptions,
+	hear: () => HeardCall[]
+): Row {
+	const cpu0 = process.cpuUsage();
+	const t0 = performance.now();
+	const calls = hear();
+	const ms = performance.now() - t0;
+	const cpu = process.cpuUsage(cpu0);
+	const acted = calls.filter((h) => {
+		const answer = { ...h.gate, intent: h.parsed?.intent ?? ('unknown' as const) };
+		const out = decideHeard({ text: h.text, confidence: h.confidence, offline: true }, answer, {
+			handsFree: true,
+			isCancel
+		});
+		return out.kind === 'confirm' || out.kind === 'cancel';
+	});
+	const right = p ? acted.filter((h) => sameCall(h.text, p.text, steps)) : [];
+	const wrong = acted.filter(
+		(h) => !right.includes(h) && (!p || LOGGING_INTENTS.has(h.parsed?.intent ?? 'unknown'))
+	);
+	if (o.verbose)
+		console.log(`${it.file}: ${calls.map((c) => `"${c.text}"`).join(' | ') || '(no call)'}`);
+	return {
+		file: it.file,
+		voice: it.voice,
+		level: it.snr === null ? 'clean' : `${it.snr} dB`,
+		split: p ? (p.held ? 'held' : 'tune') : 'talk',
+		right: right.length > 0 && wrong.length === 0,
+		wrong: wrong.length > 0,
+		again: acted.length === 0,
+		accepted: acted.length > 0,
+		ms,
+		cpuMs: (cpu.user + cpu.system) / 1000,
+		heard: calls.map((c) => c.text).join(' | '),
+		said: p?.text ?? it.id,
+		confidence: Math.max(0, ...calls.map((c) => c.confidence))
+	};
 }
 
 function report(rows: Row[], o: CorpusBenchOptions) {

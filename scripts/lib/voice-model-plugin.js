@@ -1,13 +1,13 @@
 /**
  * Serves the offline recogniser's files as static assets under /voice-model/: the English
- * acoustic model and dictionary from node_modules/soundswallower (not committed), the WASM
- * and the audio capture worklet. Dev: middleware; build: emitted into the client output only.
- * Same-origin files keep the app's content security policy ('self') intact.
+ * acoustic model and dictionary from node_modules/soundswallower (not committed) and the WASM
+ * files; Vite bundles the capture worklet itself (src/lib/voice/capture-worklet.ts). Dev:
+ * middleware; build: emitted into the client output only. Same-origin files keep the app's
+ * content security policy ('self') intact.
  */
 import { readFileSync, readdirSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { brotliCompressSync, gzipSync } from 'node:zlib';
 
 export const VOICE_BASE = '/voice-model/';
@@ -40,13 +40,11 @@ function rnnoiseWasm() {
 /** URL path (under VOICE_BASE) → file on disk. */
 function files() {
 	const pkg = packageDir();
-	const here = dirname(fileURLToPath(import.meta.url));
 	const out = new Map();
 	for (const f of MODEL_FILES) out.set(`${MODEL}/${f}`, join(pkg, 'model', MODEL, f));
 	out.set('soundswallower.wasm', join(pkg, 'soundswallower.web.wasm'));
 	// RNNoise's WASM (its model is compiled in), for noise suppression before decoding
 	out.set('rnnoise.wasm', rnnoiseWasm());
-	out.set('capture-worklet.js', join(here, '../../src/lib/voice/capture-worklet.js'));
 	return out;
 }
 

@@ -7,9 +7,13 @@
 import type { Recogniser, RecogniserEvents, RecogniserFactory } from './recogniser';
 import type { Decoder } from './decoder';
 import type { GrammarInput } from './grammar';
-import { MAX_PHRASE_SECONDS, checkPhraseAudio } from './audio';
+import { checkPhraseAudio } from './audio';
+import { HeldEndpoint, LevelEndpoint, rmsOf, type Endpoint, type Utterance } from './endpoint';
+import type { CaptureMessage } from './capture-worklet';
+// the capture worklet bundled with RNNoise and its imports, under a per-deploy file name
+import captureWorkletUrl from './capture-worklet.ts?worker&url';
 
-/** Where scripts/lib/voice-model-plugin.js serves the model, the WASM and the worklet. */
+/** Where scripts/lib/voice-model-plugin.js serves the model and the WASM files. */
 export const VOICE_BASE = '/voice-model/';
 const MODEL_FILES = [
 	'en-us/feat_params.json',
@@ -22,19 +26,8 @@ const MODEL_FILES = [
 	'en-us/noisedict.txt'
 ];
 const SAMPLE_RATE = 16000;
-/** Speech ends after this much quiet (ms) when listening hands-free. */
-const END_SILENCE_MS = 700;
-/** A phrase still going past the longest call is cut here and refused as too long. */
-const MAX_UTTERANCE_MS = (MAX_PHRASE_SECONDS + 0.5) * 1000;
-const PREROLL_BLOCKS = 3;
 /** A microphone that sends only zeros this long is called out once (muted or unplugged). */
 const DEAD_MIC_MS = 3000;
-
-/** Noise suppression run on each block before the endpointer and the decoder. */
-export interface BlockDenoiser {
-	process(samples16k: Float32Array): Float32Array;
-	destroy(): void;
-}
 
 export type OfflineState = 'off' | 'loading' | 'ready' | 'error';
 
@@ -47,12 +40,15 @@ export class OfflineVoice {
 	missing = $state<string[]>([]);
 	loadMs = $state<number | null>(null);
 	/**
-	 * How long the last phrase took to read (ms): its noise suppression (done block by block
-	 * while it was spoken) plus its decoding. Shown so a slow device is noticed.
+	 * How long the last phrase took to read after it ended (ms): its decoding. Noise suppression
+	 * runs in the capture worklet while the phrase is spoken, so it adds nothing here. Shown so a
+	 * slow device is noticed.
 	 */
 	decodeMs = $state<number | null>(null);
-	/** True when noise suppression runs before the decoder. */
+	/** True when noise suppression runs before the decoder (the worklet says so once it starts). */
 	denoising = $state(false);
+	/** True once the capture worklet has started RNNoise on the audio thread. */
+	denoiseRunning = $state(false);
 	/** Microphone level 0…1 while listening. */
 	level = $state(0);
 	listening = $state(false);
@@ -81,7 +77,7 @@ export class OfflineVoice {
 		if (key === this.#jobKey) return;
 		this.#job = job;
 		this.#jobKey = key;
-		if (!this.#inUtterance) this.#applyGrammar();
+		if (!this.#speaking) this.#applyGrammar();
 	}
 
 	#applyGrammar() {
@@ -136,13 +132,13 @@ export class OfflineVoice {
 				}
 			})
 		);
-		const [{ default: createModule }, tools, denoiser] = await Promise.all([
+		const [{ default: createModule }, tools, rnnoiseWasm] = await Promise.all([
 			import('soundswallower'),
 			import('./decoder'),
-			loadDenoiser()
+			fetchRnnoiseWasm()
 		]);
-		this.#makeDenoiser = denoiser;
-		this.denoising = denoiser !== null;
+		this.#rnnoiseWasm = rnnoiseWasm;
+		this.denoising = rnnoiseWasm !== null;
 		this.#grammarTools = tools;
 		const ss = await createModule({
 			locateFile: () => VOICE_BASE + 'soundswallower.wasm',
@@ -161,22 +157,16 @@ export class OfflineVoice {
 	#stream: MediaStream | null = null;
 	#ctx: AudioContext | null = null;
 	#events: RecogniserEvents | null = null;
-	#inUtterance = false;
-	#uttMs = 0;
-	#quietMs = 0;
-	#floor = 0.005;
-	#preroll: Float32Array[] = [];
-	#prerollRaw: Float32Array[] = [];
-	/** The phrase's audio: decoded whole at its end, with the utterance's own normalisation. */
-	#utterance: Float32Array[] = [];
-	/** The phrase's raw blocks: silence and clipping are judged before suppression. */
-	#raw: Float32Array[] = [];
-	/** Time spent suppressing noise in the phrase's blocks (ms). */
-	#denoiseMs = 0;
+	/** Cuts the microphone's blocks into calls: at pauses, or at the key (push-to-talk). */
+	#endpoint: Endpoint | null = null;
 	#deadMs = 0;
-	#denoiser: BlockDenoiser | null = null;
-	/** Made when the model loads; a fresh one per listening session (RNNoise keeps state). */
-	#makeDenoiser: (() => BlockDenoiser) | null = null;
+	/** RNNoise's WASM, fetched with the model; each listening session's worklet instantiates it. */
+	#rnnoiseWasm: ArrayBuffer | null = null;
+
+	/** True while a call is being heard: the grammar is not switched under it. */
+	get #speaking(): boolean {
+		return this.#endpoint?.inSpeech ?? false;
+	}
 
 	async #listen(events: RecogniserEvents) {
 		if (this.listening) return;
@@ -194,7 +184,6 @@ export class OfflineVoice {
 					autoGainControl: false
 				}
 			});
-			this.#denoiser = this.#makeDenoiser?.() ?? null;
 			const ctx = new AudioContext({ sampleRate: SAMPLE_RATE });
 			this.#ctx = ctx;
 			if (ctx.state === 'suspended') {
@@ -203,14 +192,18 @@ export class OfflineVoice {
 				addEventListener('pointerdown', wake, { once: true });
 				addEventListener('keydown', wake, { once: true });
 			}
-			await ctx.audioWorklet.addModule(VOICE_BASE + 'capture-worklet.js');
+			await ctx.audioWorklet.addModule(captureWorkletUrl);
 			const source = ctx.createMediaStreamSource(this.#stream);
-			const node = new AudioWorkletNode(ctx, 'benchcall-capture');
+			// a copy of the WASM per session: the worklet instantiates its own RNNoise
+			const node = new AudioWorkletNode(ctx, 'benchcall-capture', {
+				processorOptions: { rnnoiseWasm: this.#rnnoiseWasm?.slice(0) }
+			});
 			const mute = ctx.createGain();
 			mute.gain.value = 0;
 			source.connect(node).connect(mute).connect(ctx.destination);
-			node.port.onmessage = (e: MessageEvent<Float32Array>) => this.#onBlock(e.data);
-			if (this.pushToTalk) this.#begin();
+			this.#applyGrammar();
+			this.#endpoint = this.pushToTalk ? new HeldEndpoint() : new LevelEndpoint();
+			node.port.onmessage = (e: MessageEvent<CaptureMessage>) => this.#onMessage(e.data);
 		} catch (e) {
 			const name = e instanceof DOMException ? e.name : '';
 			events.onError(
@@ -224,26 +217,10 @@ export class OfflineVoice {
 		}
 	}
 
-	#begin() {
-		this.#applyGrammar();
-		this.#inUtterance = true;
-		this.#uttMs = 0;
-		this.#quietMs = 0;
-		this.#utterance = this.#preroll;
-		this.#preroll = [];
-		this.#raw = this.#prerollRaw;
-		this.#prerollRaw = [];
-	}
-
-	#end() {
-		if (!this.#inUtterance || !this.#decoder) return;
-		this.#inUtterance = false;
-		const blocks = this.#utterance;
-		this.#utterance = [];
-		const denoiseMs = this.#denoiseMs;
-		this.#denoiseMs = 0;
-		const problem = checkPhraseAudio(joined(this.#raw));
-		this.#raw = [];
+	/** One call cut from the stream: judged on its raw sound, decoded from the cleaned. */
+	#hear(u: Utterance) {
+		if (!this.#decoder) return;
+		const problem = checkPhraseAudio(u.raw);
 		if (problem) {
 			// never decoded, so never logged: the Bench shows why
 			this.#events?.onInterim('');
@@ -251,11 +228,10 @@ export class OfflineVoice {
 			this.#applyGrammar();
 			return;
 		}
-		const samples = joined(blocks);
 		// whole-phrase decoding, as in the Node test and benchmark (about 0.1–0.25 s a phrase)
 		const t0 = performance.now();
-		const heard = this.#grammarTools!.decodePhrase(this.#decoder, samples);
-		this.decodeMs = Math.round(performance.now() - t0 + denoiseMs);
+		const heard = this.#grammarTools!.decodePhrase(this.#decoder, u.clean);
+		this.decodeMs = Math.round(performance.now() - t0);
 		this.#events?.onInterim('');
 		if (heard.text)
 			this.#events?.onFinal([{ text: heard.text, confidence: heard.confidence, offline: true }]);
@@ -268,7 +244,18 @@ export class OfflineVoice {
 		this.#applyGrammar();
 	}
 
-	#onBlock(raw: Float32Array) {
+	#onMessage(m: CaptureMessage) {
+		if (m.kind === 'block') this.#onBlock(m.raw, m.clean ?? m.raw);
+		else if (!m.ok) {
+			// voice still works, without suppression, and the settings stop saying it is on
+			this.denoising = false;
+			this.denoiseRunning = false;
+			console.warn('Noise suppression could not start:', m.message);
+		} else this.denoiseRunning = true;
+	}
+
+	/** One block of about 100 ms: what the microphone sent, and the same after suppression. */
+	#onBlock(raw: Float32Array, block: Float32Array) {
 		const ms = (raw.length / SAMPLE_RATE) * 1000;
 		const rawRms = rmsOf(raw);
 		// the meter shows what the microphone sends, before suppression
@@ -282,39 +269,14 @@ export class OfflineVoice {
 				'silent'
 			);
 		}
-		let block = raw;
-		if (this.#denoiser) {
-			const t0 = performance.now();
-			block = this.#denoiser.process(raw);
-			if (this.#inUtterance) this.#denoiseMs += performance.now() - t0;
-		}
-		const rms = rmsOf(block);
-		const speech = rms > Math.max(0.015, this.#floor * 4);
-		if (!speech && !this.#inUtterance) this.#floor = this.#floor * 0.95 + rms * 0.05;
-		if (!this.#inUtterance) {
-			if (this.pushToTalk || !speech) {
-				this.#preroll.push(block);
-				this.#prerollRaw.push(raw);
-				if (this.#preroll.length > PREROLL_BLOCKS) {
-					this.#preroll.shift();
-					this.#prerollRaw.shift();
-				}
-				return;
-			}
-			this.#begin();
-		}
-		this.#utterance.push(block);
-		this.#raw.push(raw);
-		this.#uttMs += ms;
-		this.#quietMs = speech ? 0 : this.#quietMs + ms;
-		if (this.#uttMs >= MAX_UTTERANCE_MS || (!this.pushToTalk && this.#quietMs >= END_SILENCE_MS)) {
-			this.#end();
-		}
+		const call = this.#endpoint?.push(raw, block);
+		if (call) this.#hear(call);
 	}
 
 	#stop() {
 		if (!this.listening) return;
-		this.#end();
+		const call = this.#endpoint?.flush();
+		if (call) this.#hear(call);
 		this.#teardown();
 	}
 
@@ -323,15 +285,8 @@ export class OfflineVoice {
 		this.#stream = null;
 		void this.#ctx?.close();
 		this.#ctx = null;
-		this.#preroll = [];
-		this.#prerollRaw = [];
-		this.#utterance = [];
-		this.#raw = [];
-		this.#denoiseMs = 0;
+		this.#endpoint = null;
 		this.#deadMs = 0;
-		this.#denoiser?.destroy();
-		this.#denoiser = null;
-		this.#inUtterance = false;
 		this.level = 0;
 		const events = this.#events;
 		this.#events = null;
@@ -358,38 +313,18 @@ export class OfflineVoice {
 }
 
 /**
- * RNNoise (the same denoise.ts as the Node tests and benchmark), its 112 kB WASM served with the
- * model. Null when it cannot load: voice still works, without suppression, and says so.
+ * RNNoise's 112 kB WASM, served with the model, or null when it cannot be had: voice still
+ * works, without suppression, and says so.
  */
-async function loadDenoiser(): Promise<(() => BlockDenoiser) | null> {
+async function fetchRnnoiseWasm(): Promise<ArrayBuffer | null> {
 	try {
-		const [{ default: createRNNWasmModule }, { createDenoiser }] = await Promise.all([
-			import('@jitsi/rnnoise-wasm/dist/rnnoise.js'),
-			import('./denoise')
-		]);
-		const mod = await createRNNWasmModule({
-			locateFile: () => VOICE_BASE + 'rnnoise.wasm'
-		});
-		await mod.ready;
-		return () => createDenoiser(mod);
+		const res = await fetch(VOICE_BASE + 'rnnoise.wasm');
+		if (!res.ok) throw new Error(`the server answered ${res.status}`);
+		const bytes = await res.arrayBuffer();
+		if (!WebAssembly.validate(bytes)) throw new Error('the file is not WebAssembly');
+		return bytes;
 	} catch (e) {
 		console.warn('Noise suppression could not load:', e);
 		return null;
 	}
-}
-
-function joined(blocks: Float32Array[]): Float32Array {
-	const out = new Float32Array(blocks.reduce((n, b) => n + b.length, 0));
-	let at = 0;
-	for (const b of blocks) {
-		out.set(b, at);
-		at += b.length;
-	}
-	return out;
-}
-
-function rmsOf(block: Float32Array): number {
-	let sum = 0;
-	for (let i = 0; i < block.length; i++) sum += block[i] * block[i];
-	return block.length ? Math.sqrt(sum / block.length) : 0;
 }

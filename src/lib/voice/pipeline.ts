@@ -5,9 +5,11 @@
  * steps with the denoiser running in its capture worklet.
  */
 import { isCancel, parsePhrase, type ParsedPhrase, type StepSpec } from '../phrase/index';
-import { checkPhraseAudio, type AudioProblem } from './audio';
+import { checkPhraseAudio, SAMPLE_RATE, type AudioProblem } from './audio';
+import { CaptureCore } from './capture';
 import { decodePhrase, type Decoder, type HeardWord } from './decoder';
-import { denoisePhrase, type RnnoiseModule } from './denoise';
+import { createDenoiser, denoisePhrase, type RnnoiseModule } from './denoise';
+import type { Endpoint, Utterance } from './endpoint';
 import { gatePhrase, type GateResult } from './gate';
 
 export interface HeardCall {
@@ -37,19 +39,52 @@ export function hearCall(
 	opts: HearOptions = {}
 ): HeardCall {
 	const bad = checkPhraseAudio(samples);
-	if (bad)
-		return {
-			text: '',
-			confidence: 0,
-			words: [],
-			parsed: null,
-			gate: { ok: false, reason: 'not_understood', heard: '', message: bad.message },
-			audioProblem: bad.problem,
-			ms: 0
-		};
+	if (bad) return refused(bad);
 	const t0 = performance.now();
 	const clean = opts.rnnoise ? denoisePhrase(opts.rnnoise, samples) : samples;
-	const heard = decodePhrase(decoder, clean);
+	const call = hearUtterance(decoder, { raw: samples, clean }, steps, opts);
+	return { ...call, ms: performance.now() - t0 };
+}
+
+/**
+ * Hands-free, as the Bench listens: a stream through the capture worklet's code (RNNoise as the
+ * samples arrive) and an endpoint that cuts it into calls; each call heard as `hearCall` does.
+ */
+export function hearStream(
+	decoder: Decoder,
+	samples: Float32Array,
+	steps: StepSpec[],
+	endpoint: Endpoint,
+	opts: HearOptions = {}
+): HeardCall[] {
+	const core = new CaptureCore(SAMPLE_RATE / 10);
+	if (opts.rnnoise) core.useDenoiser(createDenoiser(opts.rnnoise));
+	const calls: HeardCall[] = [];
+	const hear = (u: Utterance | null) => {
+		if (u) calls.push(hearUtterance(decoder, u, steps, opts));
+	};
+	try {
+		for (let at = 0; at < samples.length; at += 128)
+			for (const b of core.push(samples.subarray(at, at + 128)))
+				hear(endpoint.push(b.raw, b.clean ?? b.raw));
+		hear(endpoint.flush());
+	} finally {
+		core.destroy();
+	}
+	return calls;
+}
+
+/** One call already cut and cleaned: the raw samples are judged, the clean ones decoded. */
+export function hearUtterance(
+	decoder: Decoder,
+	u: Utterance,
+	steps: StepSpec[],
+	opts: HearOptions = {}
+): HeardCall {
+	const bad = checkPhraseAudio(u.raw);
+	if (bad) return refused(bad);
+	const t0 = performance.now();
+	const heard = decodePhrase(decoder, u.clean);
 	const ms = performance.now() - t0;
 	const parsed = parsePhrase(heard.text, { steps, tolerancePct: opts.tolerancePct });
 	const step = steps.find((s) => s.id === parsed.stepId) ?? null;
@@ -61,6 +96,18 @@ export function hearCall(
 		minConfidence: opts.minConfidence
 	});
 	return { ...heard, parsed, gate, audioProblem: null, ms };
+}
+
+function refused(bad: { problem: AudioProblem; message: string }): HeardCall {
+	return {
+		text: '',
+		confidence: 0,
+		words: [],
+		parsed: null,
+		gate: { ok: false, reason: 'not_understood', heard: '', message: bad.message },
+		audioProblem: bad.problem,
+		ms: 0
+	};
 }
 
 /** Intents that write to the job log when accepted. */

@@ -3,6 +3,11 @@
 declare module '@jitsi/rnnoise-wasm/dist/rnnoise.js' {
 	const createRNNWasmModule: (options?: {
 		locateFile?: (path: string) => string;
+		/** Emscripten's hook for a module that instantiates its WASM itself (the worklet). */
+		instantiateWasm?: (
+			imports: WebAssembly.Imports,
+			receive: (instance: WebAssembly.Instance) => void
+		) => object;
 	}) => Promise<import('./denoise').RnnoiseModule & { ready: Promise<unknown> }>;
 	export default createRNNWasmModule;
 }
