@@ -31,6 +31,15 @@ function zoneOffset(t: number, timeZone: string): number {
 	return asUtc - (t - (t % 1000));
 }
 
+/** The day (YYYY-MM-DD) and the minutes after its midnight that the zone's clocks show at `t`. */
+export function wallClockOf(t: number, timeZone: string): { day: string; minutes: number } {
+	const wall = new Date(t + zoneOffset(t, timeZone));
+	return {
+		day: wall.toISOString().slice(0, 10),
+		minutes: wall.getUTCHours() * 60 + wall.getUTCMinutes()
+	};
+}
+
 /** The calendar day (YYYY-MM-DD) of instant `t` on the zone's wall clock. */
 function dayIn(t: number, timeZone: string): string {
 	return new Date(t + zoneOffset(t, timeZone)).toISOString().slice(0, 10);
@@ -42,18 +51,31 @@ function dayIn(t: number, timeZone: string): string {
  * for a day that does not exist (2026-02-30) or an unknown zone.
  */
 export function dayStartIn(ymd: string, timeZone: string): Date | null {
+	return wallTimeIn(ymd, 0, timeZone);
+}
+
+/**
+ * The instant the zone's clocks show `minutes` after midnight on day `ymd`. A time the clocks
+ * skip (in a spring-forward) gives the first instant after the gap; a time they show twice (a
+ * fall-back), the first of the two. Null for a day that does not exist or an unknown zone.
+ */
+export function wallTimeIn(ymd: string, minutes: number, timeZone: string): Date | null {
 	if (!/^\d{4}-\d{2}-\d{2}$/.test(ymd)) return null;
 	const utcMidnight = Date.parse(`${ymd}T00:00:00Z`);
 	if (Number.isNaN(utcMidnight) || new Date(utcMidnight).toISOString().slice(0, 10) !== ymd) {
 		return null;
 	}
+	const wall = utcMidnight + minutes * 60_000;
 	try {
-		// Two guesses: the zone's offset at UTC midnight, and at the first guess (they differ on a
-		// day the clocks change); the earliest that falls on the day is its start.
-		const first = utcMidnight - zoneOffset(utcMidnight, timeZone);
-		const second = utcMidnight - zoneOffset(first, timeZone);
-		const onDay = [first, second].filter((t) => dayIn(t, timeZone) === ymd);
-		return new Date(onDay.length ? Math.min(...onDay) : first);
+		// Two guesses: the zone's offset at the wall time read as UTC, and at the first guess (they
+		// differ near a clock change). One that shows the wall time wins; else the earliest on the day.
+		const first = wall - zoneOffset(wall, timeZone);
+		const second = wall - zoneOffset(first, timeZone);
+		const guesses = [first, second].sort((a, b) => a - b);
+		const exact = guesses.find((t) => t + zoneOffset(t, timeZone) === wall);
+		if (exact !== undefined) return new Date(exact);
+		const onDay = guesses.filter((t) => dayIn(t, timeZone) === ymd);
+		return new Date(onDay.length ? onDay[0] : first);
 	} catch {
 		return null;
 	}
