@@ -61,7 +61,9 @@ export function evidencePdfStream(pack: EvidencePack, storage: FileStorage): PDF
 		}
 	});
 	draw(doc, pack, storage).then(
-		() => doc.end(),
+		() => {
+			if (!doc.destroyed) doc.end();
+		},
 		(e: unknown) => doc.destroy(e instanceof Error ? e : new Error(String(e)))
 	);
 	return doc;
@@ -184,6 +186,7 @@ async function draw(doc: PDFKit.PDFDocument, pack: EvidencePack, storage: FileSt
 				y = doc.page.margins.top;
 				col = 0;
 			}
+			if (doc.destroyed) return; // the reader went away: shrink no more photos
 			const x = left + col * (cell + 12);
 			let img: SmallPhoto = (await images.next()).value ?? { ok: false, reason: 'missing' };
 			if (img.ok) {
