@@ -1,3 +1,5 @@
+import { zoneOffsetMinutes } from '$lib/phrase/time';
+
 /**
  * A calendar day ('2026-12-02', a date column) in the shop's language. Read in UTC on purpose:
  * a day has no time zone, and the shop's zone would show a western shop the day before.
@@ -8,27 +10,9 @@ export function calendarDay(locale: string, day: string): string {
 	return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeZone: 'UTC' }).format(d);
 }
 
-const wallClock = new Map<string, Intl.DateTimeFormat>();
-
 /** How far the zone's wall clock is ahead of UTC at instant `t` (ms; negative west of UTC). */
 function zoneOffset(t: number, timeZone: string): number {
-	let f = wallClock.get(timeZone);
-	if (!f) {
-		f = new Intl.DateTimeFormat('en-US', {
-			timeZone,
-			hourCycle: 'h23',
-			year: 'numeric',
-			month: 'numeric',
-			day: 'numeric',
-			hour: 'numeric',
-			minute: 'numeric',
-			second: 'numeric'
-		});
-		wallClock.set(timeZone, f);
-	}
-	const p = Object.fromEntries(f.formatToParts(t).map((x) => [x.type, Number(x.value)]));
-	const asUtc = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
-	return asUtc - (t - (t % 1000));
+	return zoneOffsetMinutes(new Date(t), timeZone) * 60_000;
 }
 
 /** The day (YYYY-MM-DD) and the minutes after its midnight that the zone's clocks show at `t`. */
