@@ -43,3 +43,24 @@ describe('drift window', () => {
 		expect(w).toMatchObject({ ok: true, days: DEFAULT_DAYS });
 	});
 });
+
+describe('drift window in the shop’s time zone', () => {
+	it('runs from the shop’s midnight to its midnight, not UTC’s', () => {
+		// New York is UTC−5 in December (tzdata): its 3 Dec is 05:00Z on the 3rd to 05:00Z on the 4th.
+		const w = driftWindow({ from: '2026-12-03', to: '2026-12-03' }, now, 'America/New_York');
+		expect(w).toMatchObject({ ok: true, days: 1 });
+		if (w.ok) {
+			expect(w.from.toISOString()).toBe('2026-12-03T05:00:00.000Z');
+			expect(w.to.toISOString()).toBe('2026-12-04T05:00:00.000Z');
+		}
+	});
+
+	it('counts calendar days across a clock change (Berlin, 29 Mar 2026: a 23-hour day)', () => {
+		const w = driftWindow({ from: '2026-03-29', to: '2026-03-29' }, now, 'Europe/Berlin');
+		expect(w).toMatchObject({ ok: true, days: 1 });
+		if (w.ok) expect(w.to.getTime() - w.from.getTime()).toBe(23 * 3_600_000);
+		expect(
+			driftWindow({ from: '2024-12-04', to: '2026-12-04' }, now, 'Europe/Berlin')
+		).toMatchObject({ ok: true, days: MAX_DAYS });
+	});
+});

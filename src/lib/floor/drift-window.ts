@@ -2,7 +2,9 @@
 //
 // By default the last DEFAULT_DAYS days; when they hold fewer than MIN_READINGS readings the
 // window reaches back further (the server widens it) so the statistics rest on enough readings.
-// The foreman may set any window of whole UTC days up to MAX_DAYS long.
+// The foreman may set any window of whole days of the shop's time zone (its midnight to
+// midnight, whatever the server's zone) up to MAX_DAYS long.
+import { dayStartIn } from '$lib/format/day';
 
 export const DEFAULT_DAYS = 90;
 export const MIN_READINGS = 200;
@@ -19,17 +21,20 @@ export type DriftWindow =
 	| { ok: true; from: Date; to: Date; days: number; custom: boolean }
 	| { ok: false; message: string };
 
-function day(iso: string): Date | null {
-	if (!/^\d{4}-\d{2}-\d{2}$/.test(iso)) return null;
-	const d = new Date(`${iso}T00:00:00Z`);
-	return Number.isNaN(d.getTime()) || d.toISOString().slice(0, 10) !== iso ? null : d;
+/** The day after `ymd` (YYYY-MM-DD), counted on the calendar, not in hours. */
+function nextDay(ymd: string): string {
+	return new Date(Date.parse(`${ymd}T00:00:00Z`) + DAY).toISOString().slice(0, 10);
 }
 
 /**
- * The window for `from`/`to` (YYYY-MM-DD, both days included; either may be missing), or a
- * message saying what is wrong with them.
+ * The window for `from`/`to` (YYYY-MM-DD, both days included, in the shop's `timeZone`; either
+ * may be missing), or a message saying what is wrong with them.
  */
-export function driftWindow(input: { from?: string; to?: string }, now: Date): DriftWindow {
+export function driftWindow(
+	input: { from?: string; to?: string },
+	now: Date,
+	timeZone = 'UTC'
+): DriftWindow {
 	const fromText = input.from?.trim() ?? '';
 	const toText = input.to?.trim() ?? '';
 	if (!fromText && !toText) {
@@ -41,13 +46,14 @@ export function driftWindow(input: { from?: string; to?: string }, now: Date): D
 			custom: false
 		};
 	}
-	const from = fromText ? day(fromText) : null;
-	const toDay = toText ? day(toText) : null;
+	const from = fromText ? dayStartIn(fromText, timeZone) : null;
+	const toDay = toText ? dayStartIn(toText, timeZone) : null;
 	if ((fromText && !from) || (toText && !toDay)) {
 		return { ok: false, message: 'Give the window’s days as dates (YYYY-MM-DD).' };
 	}
-	// `to` is the whole of its day; a missing end is now, a missing start DEFAULT_DAYS before the end.
-	const to = toDay ? new Date(toDay.getTime() + DAY) : now;
+	// `to` is the whole of its day (up to the next midnight: 23 or 25 hours on the days the clocks
+	// change); a missing end is now, a missing start DEFAULT_DAYS before the end.
+	const to = toDay ? dayStartIn(nextDay(toText), timeZone)! : now;
 	const start = from ?? new Date(to.getTime() - DEFAULT_DAYS * DAY);
 	if (start.getTime() >= to.getTime()) {
 		return {
@@ -55,7 +61,11 @@ export function driftWindow(input: { from?: string; to?: string }, now: Date): D
 			message: `The window ends (${toText || 'today'}) before it starts (${fromText}): swap the dates.`
 		};
 	}
-	const days = Math.ceil((to.getTime() - start.getTime()) / DAY);
+	// Calendar days when both ends are days, so a clock change never adds one.
+	const days =
+		from && toDay
+			? Math.round((Date.parse(nextDay(toText)) - Date.parse(fromText)) / DAY)
+			: Math.ceil((to.getTime() - start.getTime()) / DAY);
 	if (days > MAX_DAYS) {
 		return {
 			ok: false,

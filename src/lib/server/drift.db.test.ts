@@ -152,4 +152,25 @@ describe('spec drift over a window', () => {
 		expect(await driftForStep(other.shop.id, ps.id, chosen)).toBeNull();
 		expect(await driftForTool(other.shop.id, tool.id, chosen)).toBeNull();
 	}, 60_000);
+
+	it('takes the shop’s days around midnight, not UTC’s', async () => {
+		// One reading an hour from 2026-12-02 07:00Z to 2026-12-04 05:00Z. New York is UTC−5 in
+		// December (tzdata): its 3 Dec runs from 05:00Z on the 3rd to 05:00Z on the 4th.
+		const { f, ps, tool } = await shopWithReadings(47);
+		const w = driftWindow({ from: '2026-12-03', to: '2026-12-03' }, now, 'America/New_York');
+		if (!w.ok) throw new Error(w.message);
+		const ny = (await driftForStep(f.shop.id, ps.id, w))!;
+		const at = ny.points.map((p) => p.at).sort();
+		expect(at).toHaveLength(24);
+		// 00:00 on the 3rd in New York is in; 23:00 on the 2nd and 00:00 on the 4th are not.
+		expect(at[0]).toBe('2026-12-03T05:00:00.000Z');
+		expect(at[23]).toBe('2026-12-04T04:00:00.000Z');
+		const byTool = (await driftForTool(f.shop.id, tool.id, w))!;
+		expect(byTool.stats.n).toBe(24);
+		// The same day in UTC is a different 24 hours.
+		const utc = driftWindow({ from: '2026-12-03', to: '2026-12-03' }, now, 'UTC');
+		if (!utc.ok) throw new Error(utc.message);
+		const u = (await driftForStep(f.shop.id, ps.id, utc))!;
+		expect(u.points.map((p) => p.at).sort()[0]).toBe('2026-12-03T00:00:00.000Z');
+	});
 });

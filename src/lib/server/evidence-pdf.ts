@@ -1,15 +1,15 @@
 // The evidence pack as a PDF (pdfkit): the vehicle and job, every entry in chain order with
 // device and server time, who, the spec and the tool at the time, retractions and the foreman's
-// decisions, the photos downscaled one at a time (sharp), and the head hash with how to check it.
+// decisions, the photos downscaled a few at a time (sharp), and the head hash with how to check it.
+// The PDF is a stream: the route sends each page as it is drawn instead of holding the file.
 import { adapterLine } from '$lib/torque/adapter';
 import PDFDocument from 'pdfkit';
 import { formatQuantity } from '$lib/units';
 import { verdictWords } from '$lib/invoice/report';
 import { HOW_TO_CHECK, type EvidenceEntry, type EvidencePack } from '$lib/evidence/pack';
 import { NOTICE_LINE, pdfSafe } from './invoice-pdf';
-import { PHOTO_LONG_SIDE } from './thumbs';
 import type { FileStorage } from './storage';
-import { smallPhoto } from './thumbs';
+import { PHOTO_LONG_SIDE, smallPhotos, type SmallPhoto } from './thumbs';
 
 const KIND_WORDS: Record<string, string> = {
 	measure: 'Measured',
@@ -42,19 +42,15 @@ function specLine(e: EvidenceEntry): string | null {
 	return `Step: ${e.step}; spec on the job at the time: ${band}`;
 }
 
-/** The photos shrunk in order, at most `ahead` in flight, so memory stays bounded. */
-async function* shrunk(storage: FileStorage, keys: string[], ahead = 3) {
-	const queue: Promise<Buffer | null>[] = [];
-	let next = 0;
-	while (next < keys.length && queue.length < ahead) queue.push(smallPhoto(storage, keys[next++]));
-	while (queue.length > 0) {
-		const img = await queue.shift()!;
-		if (next < keys.length) queue.push(smallPhoto(storage, keys[next++]));
-		yield img;
-	}
+/** What stands in a photo's place when it cannot be drawn; the original, if any, is kept. */
+export function photoPlaceholder(p: Extract<SmallPhoto, { ok: false }>): string {
+	return p.reason === 'missing'
+		? '(photo file missing from storage)'
+		: '(photo kept, but it cannot be drawn here: not a JPEG, PNG or WebP image, or damaged)';
 }
 
-export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Promise<Buffer> {
+/** The pack's PDF as a stream of bytes, drawn while it is read. */
+export function evidencePdfStream(pack: EvidencePack, storage: FileStorage): PDFKit.PDFDocument {
 	const doc = new PDFDocument({
 		size: 'A4',
 		margins: { top: 50, bottom: 50, left: 50, right: 50 },
@@ -64,12 +60,23 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 			Creator: 'Benchcall'
 		}
 	});
+	draw(doc, pack, storage).then(
+		() => {
+			if (!doc.destroyed) doc.end();
+		},
+		(e: unknown) => doc.destroy(e instanceof Error ? e : new Error(String(e)))
+	);
+	return doc;
+}
+
+/** The pack's PDF in one buffer (tests, scripts). */
+export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Promise<Buffer> {
 	const chunks: Buffer[] = [];
-	doc.on('data', (c: Buffer) => chunks.push(c));
-	const done = new Promise<Buffer>((resolve, reject) => {
-		doc.on('end', () => resolve(Buffer.concat(chunks)));
-		doc.on('error', reject);
-	});
+	for await (const c of evidencePdfStream(pack, storage)) chunks.push(c as Buffer);
+	return Buffer.concat(chunks);
+}
+
+async function draw(doc: PDFKit.PDFDocument, pack: EvidencePack, storage: FileStorage) {
 	const left = doc.page.margins.left;
 	const width = doc.page.width - left - doc.page.margins.right;
 	const text = (s: string, o: PDFKit.Mixins.TextOptions = {}) =>
@@ -169,7 +176,7 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 		let col = 0;
 		let y = doc.y + 6;
 		// A few photos in memory at a time: read, shrink, draw, let go.
-		const images = shrunk(
+		const images = smallPhotos(
 			storage,
 			pack.photos.map((p) => p.storageKey)
 		);
@@ -179,14 +186,24 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 				y = doc.page.margins.top;
 				col = 0;
 			}
+			if (doc.destroyed) return; // the reader went away: shrink no more photos
 			const x = left + col * (cell + 12);
-			const img = (await images.next()).value ?? null;
-			if (img) doc.image(img, x, y, { fit: [cell, boxH], align: 'center', valign: 'center' });
-			else
+			let img: SmallPhoto = (await images.next()).value ?? { ok: false, reason: 'missing' };
+			if (img.ok) {
+				try {
+					doc.image(img.bytes, x, y, { fit: [cell, boxH], align: 'center', valign: 'center' });
+				} catch {
+					img = { ok: false, reason: 'unreadable' }; // a damaged kept copy
+				}
+			}
+			if (!img.ok) {
+				doc.rect(x, y, cell, boxH).lineWidth(0.5).strokeColor('#888888').stroke();
+				doc.strokeColor('black');
 				doc
 					.font('Helvetica')
 					.fontSize(8)
-					.text('(file not found)', x, y + boxH / 2, { width: cell });
+					.text(photoPlaceholder(img), x + 8, y + boxH / 2 - 10, { width: cell - 16 });
+			}
 			const on = p.entryId ? byId.get(p.entryId) : undefined;
 			doc
 				.font('Helvetica')
@@ -203,6 +220,4 @@ export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Pro
 			if (col === 0) y += boxH + 24;
 		}
 	}
-	doc.end();
-	return done;
 }

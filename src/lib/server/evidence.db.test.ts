@@ -1,6 +1,6 @@
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PDFParse } from 'pdf-parse';
@@ -13,7 +13,9 @@ import * as s from './db/schema';
 import { loadEvidence, loadEvidenceByNumber } from './evidence';
 import { evidencePdf } from './evidence-pdf';
 import { storePhoto } from './photos';
-import { localDiskStorage } from './storage';
+import { localDiskStorage, type FileStorage } from './storage';
+import { testPhotos } from './db/photo-fixtures';
+import { SHRINK_POOL, thumbKeyOf } from './thumbs';
 
 async function pdfText(pdf: Buffer): Promise<string> {
 	const parser = new PDFParse({ data: new Uint8Array(pdf) });
@@ -187,4 +189,75 @@ describe('the evidence pack', () => {
 		expect(await loadEvidenceByNumber(client, f.shop.id, '1; drop')).toBeNull();
 		expect(await loadEvidenceByNumber(client, f.shop.id, '1')).not.toBeNull();
 	});
+
+	it('holds 2,000 entries and 200 photos, a few at a time, with a line for each one it cannot draw', async () => {
+		const f = await makeShop('Evidence big');
+		await client`
+			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+				value, unit, spec_value, spec_unit, verdict, occurred_at)
+			select gen_random_uuid(), ${f.shop.id}, ${f.job.id}, ${f.step.id}, ${f.tech.id}, 'measure',
+				'rear axle ' || (86 + g % 3) || ' nm', 'typed', 86 + g % 3, 'N.m', 86 + g % 3, 'N.m', 'in',
+				now() - make_interval(secs => 2000 - g)
+			from generate_series(1, 2000) g order by g`;
+		const root = mkdtempSync(join(tmpdir(), 'evidence-big-'));
+		mkdirSync(join(root, f.shop.id));
+		const disk = localDiskStorage(root);
+		// Counts the full-size photos being read or shrunk at once: the memory bound of the pack.
+		let open = 0;
+		let mostOpen = 0;
+		const storage: FileStorage = {
+			...disk,
+			async get(key) {
+				if (key.endsWith('.thumb')) return disk.get(key);
+				mostOpen = Math.max(mostOpen, ++open);
+				const bytes = await disk.get(key);
+				setImmediate(() => open--); // let go once sharp has had the bytes
+				return bytes;
+			}
+		};
+		const photos = await testPhotos(200, 800, 600);
+		const entries =
+			await client`select id from log_entry where job_id = ${f.job.id} order by chain_pos`;
+		for (const [i, p] of photos.entries()) {
+			const id = crypto.randomUUID();
+			const key = `${f.shop.id}/${id}.${p.ext}`;
+			if (p.bytes) writeFileSync(join(root, key), p.bytes);
+			await db.insert(s.attachment).values({
+				id,
+				shopId: f.shop.id,
+				jobId: f.job.id,
+				entryId: entries[i * 10].id,
+				fileName: `photo-${String(i).padStart(3, '0')}-${p.kind}.${p.ext}`,
+				mime: p.mime,
+				bytes: p.bytes?.length ?? 0,
+				storageKey: key
+			});
+		}
+		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
+		expect(pack.entries).toHaveLength(2000);
+		expect(pack.photos).toHaveLength(200);
+		const rss0 = process.memoryUsage().rss;
+		const pdf = await evidencePdf(pack, storage);
+		const grewMb = (process.memoryUsage().rss - rss0) / 1e6;
+		expect(mostOpen).toBeLessThanOrEqual(SHRINK_POOL);
+		// 200 photos decoded at once would take gigabytes; a few at a time, tens of megabytes.
+		expect(grewMb).toBeLessThan(400);
+		const text = (await pdfText(pdf)).replace(/\s+/g, ' ');
+		for (let i = 0; i < 200; i++) {
+			expect(text).toContain(`photo-${String(i).padStart(3, '0')}-`);
+		}
+		const count = (needle: string) => text.split(needle).length - 1;
+		expect(count('photo file missing from storage')).toBe(2); // the two missing files
+		expect(count('cannot be drawn here')).toBe(4); // two HEIC, two cut short
+		// Every readable photo is in the PDF as an image: 190 JPEGs and 4 PNG screenshots.
+		expect(pdf.toString('latin1').match(/\/Subtype \/Image/g)).toHaveLength(194);
+		// Each copy was kept, so the next pack reads small files only.
+		const readable = pack.photos.filter((p) => !/heic|cut-short|missing/.test(p.fileName));
+		for (const p of readable) expect(await disk.get(thumbKeyOf(p.storageKey))).not.toBeNull();
+		const dir = mkdtempSync(join(tmpdir(), 'evidence-big-ppm-'));
+		writeFileSync(join(dir, 'pack.pdf'), pdf);
+		const info = spawnSync('pdfinfo', [join(dir, 'pack.pdf')], { encoding: 'utf8' });
+		expect(info.status).toBe(0);
+		expect(Number(/Pages:\s+(\d+)/.exec(info.stdout)?.[1])).toBeGreaterThan(100);
+	}, 120_000);
 });

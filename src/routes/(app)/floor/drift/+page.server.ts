@@ -6,23 +6,25 @@ import { requireRole } from '$lib/server/auth';
 import { driftForStep, driftForTool, driftOptions } from '$lib/server/drift';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ url }) => {
+export const load: PageServerLoad = async ({ url, parent }) => {
 	const user = requireRole('foreman', 'owner');
 	const now = new Date();
-	const options = await driftOptions(user.shopId, now);
+	// The window's days are the shop's days: midnight to midnight in its time zone.
+	const [{ shopStyle }, options] = await Promise.all([parent(), driftOptions(user.shopId, now)]);
+	const zone = shopStyle.timeZone;
 	const parsed = driftQuerySchema.safeParse(Object.fromEntries(url.searchParams));
 	const query = parsed.success ? parsed.data : {};
 	let problem = parsed.success ? null : 'That step or tool is not one of this shop’s.';
-	const asked = driftWindow({ from: query.from, to: query.to }, now);
+	const asked = driftWindow({ from: query.from, to: query.to }, now, zone);
 	// A window that cannot be read says why and shows the default one meanwhile.
 	if (!asked.ok) problem = `${asked.message} Showing the default window.`;
-	const window = asked.ok ? asked : driftWindow({}, now);
+	const window = asked.ok ? asked : driftWindow({}, now, zone);
 	if (!window.ok) throw new Error('the default drift window is always valid');
 	const windowInput = { from: query.from ?? '', to: query.to ?? '' };
 
 	// Every tool is checked for bias (over its default window) and calibration, so the page can
 	// call out any of them.
-	const defaultWindow = window.custom ? driftWindow({}, now) : window;
+	const defaultWindow = window.custom ? driftWindow({}, now, zone) : window;
 	if (!defaultWindow.ok) throw new Error('the default drift window is always valid');
 	const toolChecks = await Promise.all(
 		options.tools.map(async (t) => {

@@ -1,7 +1,8 @@
+import { Readable } from 'node:stream';
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
 import { evidenceForJob } from '$lib/server/evidence-for-job';
-import { evidencePdf } from '$lib/server/evidence-pdf';
+import { evidencePdfStream } from '$lib/server/evidence-pdf';
 import { uploads } from '$lib/server/storage';
 import type { RequestHandler } from './$types';
 
@@ -9,8 +10,9 @@ export const GET: RequestHandler = async ({ params }) => {
 	const user = requireRole('owner', 'foreman', 'service_writer');
 	const pack = await evidenceForJob(user.shopId, params.number);
 	if (!pack) error(404, 'No such job card in this shop.');
-	const pdf = await evidencePdf(pack, uploads());
-	return new Response(new Uint8Array(pdf), {
+	// Sent as it is drawn: a pack with hundreds of photos is never held whole in memory.
+	const pdf = Readable.toWeb(evidencePdfStream(pack, uploads())) as ReadableStream<Uint8Array>;
+	return new Response(pdf, {
 		headers: {
 			'content-type': 'application/pdf',
 			'content-disposition': `attachment; filename="evidence-job-${pack.job.number}.pdf"`,
