@@ -6,7 +6,9 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, listSteps, type Actor } from './entries';
+import type { Actor } from './bench/job';
+import { listSteps } from './bench/steps';
+import { appendEntry } from './log/append';
 import { acceptEntry, floorBoard, listOutOfSpec, orderRedo } from './floor';
 import { listJobs, transitionFacts } from './jobs';
 

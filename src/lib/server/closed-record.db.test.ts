@@ -10,7 +10,9 @@ import { describe, expect, it } from 'vitest';
 import { client, db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, attachPhoto, type Actor } from './entries';
+import type { Actor } from './bench/job';
+import { appendEntry } from './log/append';
+import { attachPhoto } from './photos';
 import { storePhoto } from './photos';
 import { localDiskStorage } from './storage';
 

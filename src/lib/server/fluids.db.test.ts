@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, listSteps, type AppendResult } from './entries';
+import { listSteps } from './bench/steps';
+import { appendEntry, type AppendResult } from './log/append';
 import { listOutOfSpec } from './floor';
 import { workReport } from './work-report';
 

@@ -1,6 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { getJob, listSteps } from '$lib/server/entries';
+import { getJob } from '$lib/server/bench/job';
+import { listSteps } from '$lib/server/bench/steps';
 import { listOpenRedos } from '$lib/server/floor';
 import type { RequestHandler } from './$types';
 

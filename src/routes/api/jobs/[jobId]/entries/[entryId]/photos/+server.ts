@@ -1,6 +1,6 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
-import { attachPhoto } from '$lib/server/entries';
+import { attachPhoto } from '$lib/server/photos';
 import { MAX_PHOTO_BYTES, isTooLarge } from '$lib/uploads/check';
 import type { RequestHandler } from './$types';
 

@@ -1,0 +1,22 @@
+// Where a refused Result becomes an HTTP answer: the one mapping of failure kinds to statuses
+// ($lib/result.ts), for endpoints (error) and form actions (fail).
+import { error, fail, type ActionFailure } from '@sveltejs/kit';
+import { failureStatus, type Failure, type Result } from '$lib/result';
+
+export function statusOf(f: Pick<Failure, 'kind'>): number {
+	return failureStatus[f.kind];
+}
+
+/** The success, or the failure thrown as the HTTP error its kind maps to. */
+export function orError<T extends object>(result: Result<T>): { ok: true } & T {
+	if (!result.ok) error(statusOf(result), result.message);
+	return result;
+}
+
+/** A form action's refusal: the failure's status, its message and the caller's extra data. */
+export function failAction<D extends Record<string, unknown>>(
+	f: Failure,
+	data?: D
+): ActionFailure<D & { message: string }> {
+	return fail(statusOf(f), { ...(data as D), message: f.message });
+}
