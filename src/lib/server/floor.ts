@@ -21,6 +21,7 @@ import {
 	openOutOfSpecSql
 } from './floor-sql';
 import { listJobs, transitionJob } from './jobs';
+import { isLive } from './log/live';
 
 export interface Actor {
 	id: string;
@@ -319,12 +320,12 @@ export async function listOpenRedos(shopId: string, jobId: string): Promise<Open
 		join "user" u on u.id = d.author_id
 		left join log_entry prev on prev.id = d.responds_to
 		where d.shop_id = ${shopId} and d.job_id = ${jobId} and d.kind = 'redo'
-		  and not exists (select 1 from log_entry r where r.retracts = d.id)
+		  and ${isLive('d')}
 		  and not exists (
 			select 1 from log_entry n
 			where n.job_step_id = d.job_step_id and n.seq > d.seq
 			  and n.kind in ('measure', 'done', 'part')
-			  and not exists (select 1 from log_entry r where r.retracts = n.id)
+			  and ${isLive('n')}
 		  )
 		order by d.seq asc`);
 	return rows.map((r) => ({
@@ -379,7 +380,7 @@ export async function getInspection(shopId: string, jobId: string): Promise<Insp
 			join "user" u on u.id = e.author_id
 			where e.job_id = ${jobId} and e.shop_id = ${shopId} and e.kind = 'inspection'
 			  and e.inspection_item_id = i.id
-			  and not exists (select 1 from log_entry r where r.retracts = e.id)
+			  and ${isLive('e')}
 			order by e.seq desc limit 1
 		) tick on true
 		-- A line the owner has since removed still shows where it was ticked on this job.
@@ -438,7 +439,7 @@ export async function setInspectionTick(
 		select e.id from log_entry e
 		where e.job_id = ${jobId} and e.shop_id = ${actor.shopId} and e.kind = 'inspection'
 		  and e.inspection_item_id = ${itemId}
-		  and not exists (select 1 from log_entry r where r.retracts = e.id)
+		  and ${isLive('e')}
 		order by e.seq desc limit 1`);
 	await appendEntry({
 		id: crypto.randomUUID(),

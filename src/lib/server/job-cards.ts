@@ -3,6 +3,7 @@
 import { and, asc, desc, eq, ilike, inArray, isNull, or, sql } from 'drizzle-orm';
 import type { IntakeInput } from '$lib/schemas/job';
 import { db, type Tx } from './db';
+import { isLive, isRetracted } from './log/live';
 import { specFields } from './db/spec-fields';
 import {
 	customer,
@@ -403,13 +404,13 @@ export async function getJobCard(shopId: string, number: number) {
 		from log_entry e
 		where e.shop_id = ${shopId} and e.job_id = ${jobId} and e.job_step_id is not null
 		  and e.kind in ('measure', 'done', 'part')
-		  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
+		  and ${isLive('e')}
 		order by e.job_step_id, e.seq desc
 	`);
 	const log = await db.execute(sql`
 		select e.id, e.seq, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value, e.spec_unit,
 			e.verdict, e.note, e.occurred_at, e.retracts, u.name as author, s.label as step_label,
-			exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId}) as retracted
+			${isRetracted('e')} as retracted
 		from log_entry e
 		join "user" u on u.id = e.author_id
 		left join job_step s on s.id = e.job_step_id

@@ -8,6 +8,7 @@ import { makeShop } from '../db/fixtures';
 import * as s from '../db/schema';
 import * as jobs from '../jobs';
 import { sendToFinalInspection } from './hand-over';
+import type { Actor } from './job';
 import { appendEntry } from '../log/append';
 
 vi.mock('../jobs', async (original) => {
@@ -15,7 +16,7 @@ vi.mock('../jobs', async (original) => {
 	return { ...real, transitionJob: vi.fn(real.transitionJob) };
 });
 
-const as = (u: { id: string; shopId: string; role: 'technician' | 'foreman' | 'owner' }) => ({
+const as = (u: { id: string; shopId: string; role: Actor['role'] }): Actor => ({
 	id: u.id,
 	shopId: u.shopId,
 	role: u.role

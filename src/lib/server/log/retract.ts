@@ -7,6 +7,7 @@ import type { Actor, BenchJob } from '../bench/job';
 import type { AppendResult } from './append';
 import type { AppendInput } from './entry';
 import { existingEntry, readEntry } from './read';
+import { isLive } from './live';
 
 /**
  * Appends a retraction: of the author's own last live entry ("undo"), or of a named entry
@@ -22,7 +23,7 @@ export async function retract(
 		await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
 		const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
 			and e.kind <> 'retraction'
-			and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${actor.shopId})`;
+			and ${isLive('e')}`;
 		let targetRows;
 		if (input.retracts) {
 			targetRows = await tx.execute(sql`
