@@ -5,7 +5,7 @@ import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import { listSteps } from './bench/steps';
 import { appendEntry, type AppendResult } from './log/append';
-import { listOutOfSpec } from './floor';
+import { listOutOfSpec } from './floor/queue';
 import { workReport } from './work-report';
 
 // Invented demo step; the spec is written the way manuals write one (common practice).

@@ -1,7 +1,8 @@
 // Where a refused Result becomes an HTTP answer: the one mapping of failure kinds to statuses
 // ($lib/result.ts), for endpoints (error) and form actions (fail).
 import { error, fail, type ActionFailure } from '@sveltejs/kit';
-import { failureStatus, type Failure, type Result } from '$lib/result';
+import { isUuid } from '$lib/ids';
+import { failure, failureStatus, type Failure, type Result } from '$lib/result';
 
 export function statusOf(f: Pick<Failure, 'kind'>): number {
 	return failureStatus[f.kind];
@@ -19,4 +20,15 @@ export function failAction<D extends Record<string, unknown>>(
 	data?: D
 ): ActionFailure<D & { message: string }> {
 	return fail(statusOf(f), { ...(data as D), message: f.message });
+}
+
+/** The value, or a 404 with `message` when there is none (another shop's id reads the same). */
+export function found<T>(value: T | null | undefined, message: string): T {
+	if (value === null || value === undefined) orError(failure('not_found', message));
+	return value as T;
+}
+
+/** An id from the URL, or a 404 (a malformed id names nothing). */
+export function requireJobId(id: string): string {
+	return found(isUuid(id) ? id : null, 'No such job in this shop.');
 }

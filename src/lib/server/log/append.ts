@@ -7,7 +7,6 @@ import { isUuid } from '$lib/ids';
 import { dimensionOf } from '$lib/units';
 import type { BenchStep, EntryView } from '$lib/bench/types';
 import { beforeOpening, beforeOpeningMessage } from '$lib/schemas/dates';
-import { announceEntry } from '../announce';
 import { db } from '../db';
 import { isClosedRecord, isDatabaseUnavailable } from '../db/errors';
 import * as s from '../db/schema';
@@ -35,6 +34,7 @@ import {
 import { GroupCommit } from './group-commit';
 import { existingEntry, toEntry } from './read';
 import { retract } from './retract';
+import { announceStored, closedMeanwhileMessage } from './write';
 import { insertBatch, insertOne, type BatchRow } from './write-sql';
 
 export type AppendResult =
@@ -46,12 +46,7 @@ export type AppendResult =
 	  }
 	| { status: 403 | 404 | 409 | 422; message: string };
 
-/** A close that won a race with the write (drizzle/0013 refused it in the inserting statement). */
-const CLOSED_MEANWHILE = {
-	status: 409 as const,
-	message:
-		'This job was closed meanwhile: its record takes no more entries. Open a new job card for new work.'
-};
+const CLOSED_MEANWHILE = { status: 409 as const, message: closedMeanwhileMessage };
 
 /**
  * What an append needs of the job, in one query: who may write, state, the steps' version and
@@ -193,13 +188,7 @@ async function stored(
 	state: JobState
 ): Promise<AppendResult> {
 	const entry = toEntry(row);
-	void announceEntry({
-		seq: entry.seq,
-		id: entry.id,
-		shopId: actor.shopId,
-		jobId,
-		kind: entry.kind
-	});
+	announceStored(actor.shopId, entry);
 	if (state === 'open') await startWork(actor, jobId);
 	return { status: 201, entry };
 }

@@ -1,13 +1,11 @@
 // Retraction: a correction is a new entry naming the entry it withdraws (the log is append-only).
 import { sql } from 'drizzle-orm';
-import { announceEntry } from '../announce';
-import { db } from '../db';
-import * as s from '../db/schema';
 import type { Actor, BenchJob } from '../bench/job';
 import type { AppendResult } from './append';
 import type { AppendInput } from './entry';
 import { existingEntry, readEntry } from './read';
 import { isLive } from './live';
+import { closedMeanwhileMessage, writeEntries } from './write';
 
 /**
  * Appends a retraction: of the author's own last live entry ("undo"), or of a named entry
@@ -19,7 +17,7 @@ export async function retract(
 	input: AppendInput,
 	occurredAt: Date
 ): Promise<AppendResult> {
-	const outcome = await db.transaction(async (tx) => {
+	const written = await writeEntries(async (insert, tx) => {
 		await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${'retract:' + job.id}))`);
 		const live = sql`e.shop_id = ${actor.shopId} and e.job_id = ${job.id}
 			and e.kind <> 'retraction'
@@ -50,23 +48,21 @@ export async function retract(
 			}
 		}
 		const target = targetRows[0].id as string;
-		const inserted = await tx
-			.insert(s.logEntry)
-			.values({
-				id: input.id,
-				shopId: actor.shopId,
-				jobId: job.id,
-				authorId: actor.id,
-				kind: 'retraction',
-				rawText: input.text,
-				source: input.source,
-				retracts: target,
-				occurredAt
-			})
-			.onConflictDoNothing({ target: s.logEntry.id })
-			.returning({ seq: s.logEntry.seq });
-		return inserted.length ? { status: 201 as const, seq: inserted[0].seq } : null;
+		const inserted = await insert({
+			id: input.id,
+			shopId: actor.shopId,
+			jobId: job.id,
+			authorId: actor.id,
+			kind: 'retraction',
+			rawText: input.text,
+			source: input.source,
+			retracts: target,
+			occurredAt
+		});
+		return inserted ? { status: 201 as const } : null;
 	});
+	if (written.closed) return { status: 409, message: closedMeanwhileMessage };
+	const outcome = written.value;
 	if (outcome === null) {
 		return (
 			(await existingEntry(actor.shopId, job.id, input.id)) ?? {
@@ -76,13 +72,6 @@ export async function retract(
 		);
 	}
 	if (outcome.status !== 201) return outcome;
-	void announceEntry({
-		seq: outcome.seq,
-		id: input.id,
-		shopId: actor.shopId,
-		jobId: job.id,
-		kind: 'retraction'
-	});
 	const entry = await readEntry(actor.shopId, input.id);
 	return { status: 201, entry: entry! };
 }

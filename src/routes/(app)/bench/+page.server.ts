@@ -3,7 +3,7 @@ import { benchJobs, getJob, findJobIdByNumber, mayWrite } from '$lib/server/benc
 import { listSteps } from '$lib/server/bench/steps';
 import { listTools, shopTolerance } from '$lib/server/bench/tools';
 import { listEntries } from '$lib/server/log/read';
-import { listOpenRedos } from '$lib/server/floor';
+import { listOpenRedos } from '$lib/server/floor/queue';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

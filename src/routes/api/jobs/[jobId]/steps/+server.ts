@@ -2,7 +2,7 @@ import { error, json } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
 import { getJob } from '$lib/server/bench/job';
 import { listSteps } from '$lib/server/bench/steps';
-import { listOpenRedos } from '$lib/server/floor';
+import { listOpenRedos } from '$lib/server/floor/queue';
 import type { RequestHandler } from './$types';
 
 /** The job's steps with specs, done state and cautions, and the foreman's open redo orders. */
