@@ -22,12 +22,14 @@ export interface Failure {
 	ok: false;
 	kind: FailureKind;
 	message: string;
+	/** The form field the refusal is about, when there is one. */
+	field?: string;
 }
 
 export type Result<T extends object = object> = ({ ok: true } & T) | Failure;
 
-export function failure(kind: FailureKind, message: string): Failure {
-	return { ok: false, kind, message };
+export function failure(kind: FailureKind, message: string, field?: string): Failure {
+	return field === undefined ? { ok: false, kind, message } : { ok: false, kind, message, field };
 }
 
 /** The kind of refusal an HTTP status stands for (for results that still carry a status). */
