@@ -131,10 +131,11 @@ describe('photos on a closed record', () => {
 		const bytes = await jpeg();
 		const attach = (name: string) =>
 			attachPhoto(tech(f), f.job.id, stored.entry.id, { bytes, name }, storage);
-		expect((await attach('a.jpg')).status).toBe(201);
+		expect((await attach('a.jpg')).ok).toBe(true);
 		await db.update(s.job).set({ state: 'invoiced' }).where(eq(s.job.id, f.job.id));
 		expect(await attach('b.jpg')).toEqual({
-			status: 409,
+			ok: false,
+			kind: 'conflict',
 			message: expect.stringMatching(/record is closed/)
 		});
 		// the database refuses too, for a writer that did not look (intake photos, a race)

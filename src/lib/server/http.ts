@@ -1,6 +1,6 @@
 // Where a refused Result becomes an HTTP answer: the one mapping of failure kinds to statuses
-// ($lib/result.ts), for endpoints (error) and form actions (fail).
-import { error, fail, type ActionFailure } from '@sveltejs/kit';
+// ($lib/result.ts). Form actions answer with fail() and the failure's message and field.
+import { error } from '@sveltejs/kit';
 import { isUuid } from '$lib/ids';
 import { failure, failureStatus, type Failure, type Result } from '$lib/result';
 
@@ -12,14 +12,6 @@ export function statusOf(f: Pick<Failure, 'kind'>): number {
 export function orError<T extends object>(result: Result<T>): { ok: true } & T {
 	if (!result.ok) error(statusOf(result), result.message);
 	return result;
-}
-
-/** A form action's refusal: the failure's status, its message and the caller's extra data. */
-export function failAction<D extends Record<string, unknown>>(
-	f: Failure,
-	data?: D
-): ActionFailure<D & { message: string }> {
-	return fail(statusOf(f), { ...(data as D), message: f.message });
 }
 
 /** The value, or a 404 with `message` when there is none (another shop's id reads the same). */

@@ -9,6 +9,7 @@ import { uploads, type FileStorage } from './storage';
 import { keepThumb } from './thumbs';
 import { closedStates } from '$lib/jobs/states';
 import { isUuid } from '$lib/ids';
+import { failure, type Result } from '$lib/result';
 import type { EntryView } from '$lib/bench/types';
 import { getJob, mayWrite, NOT_FOUND, type Actor } from './bench/job';
 import { readEntry } from './log/read';
@@ -77,8 +78,7 @@ export function listIntakePhotos(shopId: string, jobId: string) {
 		.orderBy(asc(s.attachment.createdAt));
 }
 
-export type PhotoResult =
-	{ status: 201; entry: EntryView } | { status: 400 | 403 | 404 | 409; message: string };
+export type PhotoResult = Result<{ entry: EntryView }>;
 
 /** Attaches a photo to an entry of the job: type checked from the bytes, at most 10 MB. */
 export async function attachPhoto(
@@ -89,10 +89,10 @@ export async function attachPhoto(
 	storage: FileStorage = uploads()
 ): Promise<PhotoResult> {
 	const job = await getJob(actor.shopId, jobId);
-	if (!job) return { status: 404, message: NOT_FOUND };
-	if (!mayWrite(actor, job)) return { status: 403, message: 'This job is not assigned to you.' };
-	if (closedStates.includes(job.state)) return { status: 409, message: closedPhotoMessage };
-	if (!isUuid(entryId)) return { status: 404, message: 'No such entry on this job.' };
+	if (!job) return failure('not_found', NOT_FOUND);
+	if (!mayWrite(actor, job)) return failure('forbidden', 'This job is not assigned to you.');
+	if (closedStates.includes(job.state)) return failure('conflict', closedPhotoMessage);
+	if (!isUuid(entryId)) return failure('not_found', 'No such entry on this job.');
 	const [entry] = await db
 		.select({ id: s.logEntry.id })
 		.from(s.logEntry)
@@ -103,14 +103,14 @@ export async function attachPhoto(
 				eq(s.logEntry.id, entryId)
 			)
 		);
-	if (!entry) return { status: 404, message: 'No such entry on this job.' };
+	if (!entry) return failure('not_found', 'No such entry on this job.');
 	const stored = await storePhoto(
 		{ shopId: actor.shopId, jobId, entryId, uploadedBy: actor.id },
 		file,
 		storage
 	);
-	if (!stored.ok) return { status: stored.closed ? 409 : 400, message: stored.message };
-	return { status: 201, entry: (await readEntry(actor.shopId, entryId))! };
+	if (!stored.ok) return failure(stored.closed ? 'conflict' : 'invalid', stored.message);
+	return { ok: true, entry: (await readEntry(actor.shopId, entryId))! };
 }
 
 /** A stored photo of the shop, or null (another shop's photo reads as missing). */
