@@ -29,17 +29,21 @@ export interface BenchJob {
 
 export const NOT_FOUND = 'No such job.';
 
+/** A job with its technician, vehicle and customer, in the shape of `BenchJob` (toBenchJob). */
+const jobSelect = sql`
+	select j.id, j.number, j.state, j.technician_id, t.name as technician_name, j.bay, j.concern,
+		nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
+		v.registration, c.name as customer_name
+	from job j
+	left join "user" t on t.id = j.technician_id and t.shop_id = j.shop_id
+	left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
+	left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+`;
+
 /** The job when it belongs to the shop; null otherwise (callers answer 404). */
 export async function getJob(shopId: string, jobId: string): Promise<BenchJob | null> {
 	if (!isUuid(jobId)) return null;
-	const rows = await db.execute(sql`
-		select j.id, j.number, j.state, j.technician_id, t.name as technician_name, j.bay, j.concern,
-			nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
-			v.registration, c.name as customer_name
-		from job j
-		left join "user" t on t.id = j.technician_id and t.shop_id = j.shop_id
-		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
-		left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+	const rows = await db.execute(sql`${jobSelect}
 		where j.shop_id = ${shopId} and j.id = ${jobId}
 	`);
 	return rows[0] ? toBenchJob(rows[0]) : null;
@@ -80,14 +84,7 @@ export function mayWrite(actor: Actor, job: Pick<BenchJob, 'technicianId'>): boo
 /** Open jobs for the Bench's picker: a technician's own, or every active one for a foreman. */
 export async function benchJobs(actor: Actor): Promise<BenchJob[]> {
 	const mine = actor.role === 'technician' ? sql`and j.technician_id = ${actor.id}` : sql``;
-	const rows = await db.execute(sql`
-		select j.id, j.number, j.state, j.technician_id, t.name as technician_name, j.bay, j.concern,
-			nullif(trim(coalesce(v.make, '') || ' ' || coalesce(v.model, '')), '') as vehicle,
-			v.registration, c.name as customer_name
-		from job j
-		left join "user" t on t.id = j.technician_id and t.shop_id = j.shop_id
-		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
-		left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+	const rows = await db.execute(sql`${jobSelect}
 		where j.shop_id = ${actor.shopId} and j.state in ('open', 'in_work', 'final_inspection', 'on_hold')
 		${mine}
 		order by (j.state = 'in_work') desc, j.number desc

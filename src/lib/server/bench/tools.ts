@@ -74,5 +74,3 @@ function failedOr(
 	if (last && !last.passed) return { ...status, state: 'overdue', checkFailed: last.checkedOn };
 	return { ...status, checkFailed: null };
 }
-
-// --- the log ----------------------------------------------------------------------------------

@@ -162,18 +162,6 @@ async function appendToKnownJob(
 	return stored(actor, jobId, row, row.job_state as JobState);
 }
 
-// --- group commit -------------------------------------------------------------------------------
-//
-// Appends that arrive in the same turn of the event loop are written by one statement at the end
-// of that turn (setImmediate, no timer), and while that statement is on its way the next batch
-// gathers: under load, PostgreSQL parses, plans and commits once for many entries instead of once
-// each, this process sends one message instead of many, and batches do not contend with each
-// other for the same pages. Under light load a batch holds one entry and waits for nothing.
-// Each append still gets its own answer: its stored row, or null when its conditions did not
-// hold (appendEntry then decides alone). All entries of a batch commit together or not at all;
-// if the statement fails for a reason other than the database being away, every entry of the
-// batch is tried again on its own, so one bad entry cannot fail the others.
-
 /** The common case's appends of one moment, written together (group-commit.ts). */
 const together = new GroupCommit<BatchRow, Record<string, unknown>>(insertBatch, {
 	limit: 200,
