@@ -24,7 +24,7 @@ import {
 	stepReadingsSql,
 	toolReadingsSql
 } from '../src/lib/server/drift-sql';
-import { jobLogPageSql } from '../src/lib/server/entries-sql';
+import { jobLogPageSql } from '../src/lib/server/log/read-sql';
 import { logPageSql, openOutOfSpecCountSql, openOutOfSpecSql } from '../src/lib/server/floor-sql';
 import { jobSearchCountSql, jobSearchPageSql, listJobsSql } from '../src/lib/server/jobs-sql';
 import { jobTableQuerySchema } from '../src/lib/schemas/job';

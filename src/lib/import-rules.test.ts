@@ -39,7 +39,7 @@ describe('route files never read the database', () => {
 	}, 30_000);
 
 	it('lets them call the server modules', async () => {
-		const code = `import { getJob } from '$lib/server/entries';\nexport { getJob };\n`;
+		const code = `import { getJob } from '$lib/server/bench/job';\nexport { getJob };\n`;
 		expect(await refusals('src/routes/api/jobs/[jobId]/steps/+server.ts', code)).toEqual([]);
 	});
 });
@@ -47,13 +47,13 @@ describe('route files never read the database', () => {
 describe('client and shared code never imports server code', () => {
 	it('refuses $lib/server, type-only imports too, in pages, components and $lib modules', async () => {
 		const cases: [string, string][] = [
-			['src/lib/bench/view.ts', `import type { Actor } from '$lib/server/entries';`],
+			['src/lib/bench/view.ts', `import type { Actor } from '$lib/server/bench/job';`],
 			['src/lib/bench/view.ts', `import { db } from '../server/db';`],
 			['src/lib/phrase/x.ts', `import { client } from '../../lib/server/db/index';`],
 			['src/routes/(app)/bench/+page.ts', `import { requireUser } from '$lib/server/auth';`],
 			[
 				'src/routes/(app)/bench/step-list.svelte',
-				`<script lang="ts">\n\timport type { EntryView } from '$lib/server/entries';\n\tlet { e }: { e: EntryView } = $props();\n</script>\n\n<p>{e.id}</p>\n`
+				`<script lang="ts">\n\timport type { EntryView } from '$lib/server/log/read';\n\tlet { e }: { e: EntryView } = $props();\n</script>\n\n<p>{e.id}</p>\n`
 			]
 		];
 		for (const [path, code] of cases) {

@@ -1,12 +1,7 @@
 import ucum from '@lhncbc/ucum-lhc';
 import { describe, expect, it } from 'vitest';
-import {
-	buildDraftLines,
-	fluidQuantity,
-	liveEntries,
-	type LogRow,
-	type PriceListPart
-} from './draft';
+import { buildDraftLines, fluidQuantity, type LogRow, type PriceListPart } from './draft';
+import { liveEntries } from '$lib/log/live';
 
 const ucumUtils = ucum.UcumLhcUtils.getInstance();
 

@@ -3,6 +3,7 @@ import Fuse from 'fuse.js';
 import { canConvert, convert } from '$lib/units';
 import { clockTime } from './labour';
 import { pickByGrade } from './fluid';
+import { liveEntries } from '$lib/log/live';
 
 export type LineKind = 'part' | 'fluid' | 'labour' | 'sundry' | 'discount';
 export type LabourMode = 'flat_rate' | 'clock';
@@ -72,14 +73,6 @@ export interface DraftInput {
 	labourMode: LabourMode;
 	labourRateMinor: number;
 	idleGapMinutes: number;
-}
-
-/** Entries that count: not retractions and not withdrawn by one. */
-export function liveEntries<T extends Pick<LogRow, 'id' | 'kind' | 'retracts'>>(
-	entries: readonly T[]
-): T[] {
-	const retracted = new Set(entries.filter((e) => e.kind === 'retraction').map((e) => e.retracts));
-	return entries.filter((e) => e.kind !== 'retraction' && !retracted.has(e.id));
 }
 
 /** Price-list units in UCUM, for the units module. */

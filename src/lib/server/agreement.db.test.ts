@@ -6,8 +6,11 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, listSteps, type Actor } from './entries';
-import { acceptEntry, floorBoard, listOutOfSpec, orderRedo } from './floor';
+import type { Actor } from './bench/job';
+import { listSteps } from './bench/steps';
+import { appendEntry } from './log/append';
+import { floorBoard } from './floor/board';
+import { acceptEntry, listOutOfSpec, orderRedo } from './floor/queue';
 import { listJobs, transitionFacts } from './jobs';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;
@@ -72,7 +75,9 @@ describe('the Bench, the Jobs list, the state machine and the Floor agree', () =
 		const under = await log('rear axle 70 nm');
 		expectAgreement(await readers(f), 1, 1);
 		// the foreman orders a redo: the step is not done again, and nothing waits
-		await orderRedo(foreman, under.id, 'Torque it again to spec');
+		expect(await orderRedo(foreman, under.id, 'Torque it again to spec')).toMatchObject({
+			ok: true
+		});
 		expectAgreement(await readers(f), 0, 0);
 		// re-measured in spec: done, nothing waiting
 		await log('rear axle 88 nm');
@@ -81,7 +86,12 @@ describe('the Bench, the Jobs list, the state machine and the Floor agree', () =
 		// an "over" value the foreman accepts with a reason: done, nothing waiting
 		const over = await log('chain slack 38 mm');
 		expectAgreement(await readers(f), 2, 1);
-		await acceptEntry(foreman, over.id, 'Chain is new; slack settles within the first 500 km');
+		const accepted = await acceptEntry(
+			foreman,
+			over.id,
+			'Chain is new; slack settles within the first 500 km'
+		);
+		expect(accepted).toMatchObject({ ok: true });
 		expectAgreement(await readers(f), 2, 0);
 
 		// an in-spec value, then retracted: not done again

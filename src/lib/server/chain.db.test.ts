@@ -7,7 +7,8 @@ import { verifyChains, chainFields, eachChainRow } from './chain-verify';
 import { client, db } from './db';
 import * as s from './db/schema';
 import { logMeasurement, makeShop } from './db/fixtures';
-import { appendEntry, type Actor } from './entries';
+import type { Actor } from './bench/job';
+import { appendEntry } from './log/append';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;
 

@@ -10,7 +10,9 @@ import { describe, expect, it } from 'vitest';
 import { client, db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, attachPhoto, type Actor } from './entries';
+import type { Actor } from './bench/job';
+import { appendEntry } from './log/append';
+import { attachPhoto } from './photos';
 import { storePhoto } from './photos';
 import { localDiskStorage } from './storage';
 
@@ -129,10 +131,11 @@ describe('photos on a closed record', () => {
 		const bytes = await jpeg();
 		const attach = (name: string) =>
 			attachPhoto(tech(f), f.job.id, stored.entry.id, { bytes, name }, storage);
-		expect((await attach('a.jpg')).status).toBe(201);
+		expect((await attach('a.jpg')).ok).toBe(true);
 		await db.update(s.job).set({ state: 'invoiced' }).where(eq(s.job.id, f.job.id));
 		expect(await attach('b.jpg')).toEqual({
-			status: 409,
+			ok: false,
+			kind: 'conflict',
 			message: expect.stringMatching(/record is closed/)
 		});
 		// the database refuses too, for a writer that did not look (intake photos, a race)

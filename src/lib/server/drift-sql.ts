@@ -3,6 +3,7 @@
 // one time window; statistics are computed here, in the database, and the chart gets at most
 // about MAX_POINTS points (see driftPointsSql).
 import { sql, type SQL } from 'drizzle-orm';
+import { isLive } from './log/live';
 
 export interface Window {
 	from: Date;
@@ -25,7 +26,7 @@ export function stepReadingsSql(shopId: string, procedureStepId: string, unit: s
 		join job j on j.id = st.job_id
 		left join torque_tool t on t.id = e.torque_tool_id
 		where jl.shop_id = ${shopId} and jl.last_entry_at >= ${w.from.toISOString()}
-		  and not exists (select 1 from log_entry x where x.retracts = e.id)`;
+		  and ${isLive('e')}`;
 }
 
 /** Readings made with one torque tool in a window, each with its step's nominal. */
@@ -39,7 +40,7 @@ export function toolReadingsSql(shopId: string, toolId: string, w: Window) {
 		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId}
 		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = st.unit
 		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
-		  and not exists (select 1 from log_entry x where x.retracts = e.id)`;
+		  and ${isLive('e')}`;
 }
 
 /** Where the newest `n` readings of a tool begin (null when it has fewer). */

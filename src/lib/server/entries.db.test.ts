@@ -3,14 +3,11 @@ import { describe, expect, it } from 'vitest';
 import { client, db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import {
-	appendEntry,
-	listEntries,
-	listSteps,
-	sendToFinalInspection,
-	type Actor,
-	type AppendResult
-} from './entries';
+import { sendToFinalInspection } from './bench/hand-over';
+import type { Actor } from './bench/job';
+import { listSteps } from './bench/steps';
+import { appendEntry, type AppendResult } from './log/append';
+import { listEntries } from './log/read';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;
 
@@ -540,7 +537,7 @@ describe('sendToFinalInspection', () => {
 	it('needs a reason while steps are open and records who and when', async () => {
 		const f = await makeShop('Bench');
 		const refused = await sendToFinalInspection(as(f.tech), f.job.id);
-		expect(refused).toMatchObject({ ok: false, status: 422 });
+		expect(refused).toMatchObject({ ok: false, kind: 'unprocessable' });
 		const ok = await sendToFinalInspection(as(f.tech), f.job.id, 'Axle nut on back order');
 		expect(ok).toEqual({ ok: true, state: 'final_inspection' });
 		const changes = await db

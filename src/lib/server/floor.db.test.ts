@@ -1,22 +1,18 @@
 import { eq } from 'drizzle-orm';
+import { failureStatus, type Result } from '$lib/result';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import {
-	acceptEntry,
-	announcedEntries,
 	getInspection,
-	listLog,
-	listOpenRedos,
-	listOutOfSpec,
 	markReadyToInvoice,
-	entriesSince,
-	orderRedo,
 	readyToInvoiceBlockers,
 	setInspectionTick,
 	signOff
-} from './floor';
+} from './floor/inspection';
+import { announcedEntries, listLog, entriesSince } from './floor/log';
+import { acceptEntry, listOpenRedos, listOutOfSpec, orderRedo } from './floor/queue';
 import { listJobs } from './jobs';
 
 async function withForeman(f: Awaited<ReturnType<typeof makeShop>>) {
@@ -40,14 +36,17 @@ async function withForeman(f: Awaited<ReturnType<typeof makeShop>>) {
 	return { ...f, foreman: { id: foreman.id, shopId: f.shop.id, name: foreman.name }, items };
 }
 
-/** An HttpError from @sveltejs/kit carries its status. */
-async function statusOf(p: Promise<unknown>): Promise<number | null> {
-	try {
-		await p;
-		return null;
-	} catch (err) {
-		return (err as { status?: number }).status ?? -1;
-	}
+/** The HTTP status a refusal answers with (the one mapping, $lib/result), or null when done. */
+async function statusOf(p: Promise<Result>): Promise<number | null> {
+	const r = await p;
+	return r.ok ? null : failureStatus[r.kind];
+}
+
+/** A change that must succeed. */
+async function done<T extends Result>(p: Promise<T>): Promise<T> {
+	const r = await p;
+	expect(r).toMatchObject({ ok: true });
+	return r;
 }
 
 describe('out-of-spec queue', () => {
@@ -59,7 +58,7 @@ describe('out-of-spec queue', () => {
 		expect(queue.map((q) => q.entryId)).toEqual([over.id]);
 		expect(queue[0]).toMatchObject({ verdict: 'high', stepLabel: 'Rear axle nut', max: 96 });
 
-		await acceptEntry(f.foreman, over.id, 'Within the wheel maker tolerance, checked twice');
+		await done(acceptEntry(f.foreman, over.id, 'Within the wheel maker tolerance, checked twice'));
 		expect(await listOutOfSpec(f.shop.id)).toEqual([]);
 		// Answering twice is refused: the entry is no longer waiting.
 		expect(await statusOf(acceptEntry(f.foreman, over.id, 'again please'))).toBe(409);
@@ -75,7 +74,7 @@ describe('out-of-spec queue', () => {
 		const stepsDone = async () =>
 			(await listJobs(f.shop.id)).find((j) => j.id === f.job.id)?.stepsDone;
 		expect(await stepsDone()).toBe(1);
-		await orderRedo(f.foreman, low.id, 'Torque again with TW-02 and log it');
+		await done(orderRedo(f.foreman, low.id, 'Torque again with TW-02 and log it'));
 		expect(await listOutOfSpec(f.shop.id)).toEqual([]);
 		// The step counts as not done again until a new entry.
 		expect(await stepsDone()).toBe(0);
@@ -116,7 +115,7 @@ describe('out-of-spec queue', () => {
 		expect(await listOutOfSpec(b.shop.id)).toEqual([]);
 		expect((await listLog(b.shop.id, {})).entries).toEqual([]);
 		expect(await statusOf(acceptEntry(b.foreman, over.id, 'not mine'))).toBe(404);
-		expect(await statusOf(getInspection(b.shop.id, a.job.id))).toBe(404);
+		expect(await getInspection(b.shop.id, a.job.id)).toBeNull();
 	});
 });
 
@@ -172,26 +171,26 @@ describe('final inspection and sign-off', () => {
 		await db.update(s.job).set({ state: 'final_inspection' }).where(eq(s.job.id, f.job.id));
 		const over = await logMeasurement(f, 99, 'high');
 
-		expect(await readyToInvoiceBlockers(f.shop.id, f.job.id)).toHaveLength(2);
+		expect(readyToInvoiceBlockers((await getInspection(f.shop.id, f.job.id))!)).toHaveLength(2);
 		expect(await statusOf(markReadyToInvoice(f.foreman, f.job.id))).toBe(409);
 
-		await setInspectionTick(f.foreman, f.job.id, f.items[0].id, true);
-		await setInspectionTick(f.foreman, f.job.id, f.items[1].id, true);
-		await setInspectionTick(f.foreman, f.job.id, f.items[1].id, false);
-		let state = await getInspection(f.shop.id, f.job.id);
+		await done(setInspectionTick(f.foreman, f.job.id, f.items[0].id, true));
+		await done(setInspectionTick(f.foreman, f.job.id, f.items[1].id, true));
+		await done(setInspectionTick(f.foreman, f.job.id, f.items[1].id, false));
+		let state = (await getInspection(f.shop.id, f.job.id))!;
 		expect(state.items.map((i) => i.tickedBy)).toEqual(['Foreman', null]);
 		expect(await statusOf(signOff(f.foreman, f.job.id))).toBe(409);
 
-		await setInspectionTick(f.foreman, f.job.id, f.items[1].id, true);
+		await done(setInspectionTick(f.foreman, f.job.id, f.items[1].id, true));
 		expect(await statusOf(signOff(f.foreman, f.job.id))).toBe(409); // still out of spec
-		await acceptEntry(f.foreman, over.id, 'Nut is a new self-locking type, house rule');
-		await signOff(f.foreman, f.job.id);
-		state = await getInspection(f.shop.id, f.job.id);
+		await done(acceptEntry(f.foreman, over.id, 'Nut is a new self-locking type, house rule'));
+		await done(signOff(f.foreman, f.job.id));
+		state = (await getInspection(f.shop.id, f.job.id))!;
 		expect(state.job.signedOffBy).toBe('Foreman');
 		expect(state.job.signedOffAt).not.toBeNull();
 		expect(await statusOf(signOff(f.foreman, f.job.id))).toBe(409);
 
-		await markReadyToInvoice(f.foreman, f.job.id);
+		await done(markReadyToInvoice(f.foreman, f.job.id));
 		const [job] = await db.select().from(s.job).where(eq(s.job.id, f.job.id));
 		expect(job.state).toBe('ready_to_invoice');
 		const kinds = (await listLog(f.shop.id, {})).entries.map((e) => e.kind);

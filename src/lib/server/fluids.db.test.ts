@@ -3,8 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, listSteps, type AppendResult } from './entries';
-import { listOutOfSpec } from './floor';
+import { listSteps } from './bench/steps';
+import { appendEntry, type AppendResult } from './log/append';
+import { listOutOfSpec } from './floor/queue';
 import { workReport } from './work-report';
 
 // Invented demo step; the spec is written the way manuals write one (common practice).

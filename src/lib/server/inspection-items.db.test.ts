@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { getInspection, setInspectionTick } from './floor';
+import { getInspection, setInspectionTick } from './floor/inspection';
 import { changeInspectionItem, listInspectionItems, saveInspectionItem } from './inspection-items';
 
 const labels = async (shopId: string) => (await listInspectionItems(shopId)).map((i) => i.label);
@@ -40,10 +40,10 @@ describe('the shop-configurable final-inspection checklist', () => {
 		await saveInspectionItem(f.shop.id, { itemId: '', label: 'Cable routing' });
 		const [chain, cables] = await listInspectionItems(f.shop.id);
 		const owner = { id: f.owner.id, shopId: f.shop.id, name: f.owner.name };
-		await setInspectionTick(owner, f.job.id, chain.id, true);
+		expect(await setInspectionTick(owner, f.job.id, chain.id, true)).toEqual({ ok: true });
 		await changeInspectionItem(f.shop.id, chain.id, 'remove');
 		await changeInspectionItem(f.shop.id, cables.id, 'remove');
-		const state = await getInspection(f.shop.id, f.job.id);
+		const state = (await getInspection(f.shop.id, f.job.id))!;
 		expect(state.items.map((i) => [i.label, i.tickedBy])).toEqual([['Chain slack', 'Owner']]);
 	});
 

@@ -4,15 +4,9 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import {
-	addManualLine,
-	applyCheckoutCompleted,
-	creditInvoice,
-	getInvoice,
-	issueInvoice,
-	makeDraft,
-	recordPayment
-} from './invoices';
+import { addManualLine, makeDraft } from './invoice-lines';
+import { creditInvoice, getInvoice, issueInvoice } from './invoices';
+import { applyCheckoutCompleted, recordPayment } from './payments';
 import { handleWebhook } from './payments';
 
 /** A job of the fixture shop, ready to invoice, with a draft holding one sundry line. */
@@ -100,7 +94,7 @@ describe('issuing invoices', () => {
 		expect(await getInvoice(b.shop.id, d.invoiceId)).toBeNull();
 		expect(await issueInvoice(b.shop.id, d.invoiceId, b.owner.id)).toMatchObject({
 			ok: false,
-			status: 404
+			kind: 'not_found'
 		});
 	});
 });
@@ -164,7 +158,7 @@ describe('payments', () => {
 			amountMinor: 1000,
 			currency: 'EUR'
 		});
-		expect(r).toMatchObject({ ok: false, status: 404 });
+		expect(r).toMatchObject({ ok: false, kind: 'not_found' });
 	});
 
 	it('records counter payments until the total is reached', async () => {

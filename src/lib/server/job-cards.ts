@@ -1,7 +1,8 @@
 // Job cards: intake (customer, vehicle, procedures copied onto the job), assignment, the
 // job card page and extra work with the customer's approval. Scoped by shop id throughout.
-import { and, asc, desc, eq, ilike, inArray, isNull, or, sql } from 'drizzle-orm';
+import { and, asc, eq, ilike, inArray, isNull, or, sql } from 'drizzle-orm';
 import type { IntakeInput } from '$lib/schemas/job';
+import { failure, type Failure, type Result } from '$lib/result';
 import { db, type Tx } from './db';
 import { specFields } from './db/spec-fields';
 import {
@@ -11,7 +12,6 @@ import {
 	jobProcedure,
 	jobStateChange,
 	jobStep,
-	part,
 	procedure,
 	procedureStep,
 	shop,
@@ -114,7 +114,7 @@ export async function copyProcedures(
 	shopId: string,
 	jobId: string,
 	procedureIds: string[]
-): Promise<{ ok: true } | { ok: false; message: string }> {
+): Promise<Result> {
 	if (!procedureIds.length) return { ok: true };
 	const procs = await tx
 		.select()
@@ -127,7 +127,7 @@ export async function copyProcedures(
 			)
 		);
 	if (procs.length !== new Set(procedureIds).size) {
-		return { ok: false, message: 'A chosen procedure is not in the library (or is archived).' };
+		return failure('not_found', 'A chosen procedure is not in the library (or is archived).');
 	}
 	const [{ next }] = await tx
 		.select({ next: sql<number>`coalesce(max(${jobProcedure.position}), 0)::int` })
@@ -186,24 +186,21 @@ async function checkAssignment(tx: Tx, shopId: string, technicianId: string, bay
 					eq(user.active, true)
 				)
 			);
-		if (!t) return { field: 'technicianId', message: 'Pick an active technician of this shop.' };
+		if (!t) return failure('invalid', 'Pick an active technician of this shop.', 'technicianId');
 	}
 	if (bay) {
 		const [s] = await tx.select({ bays: shop.bays }).from(shop).where(eq(shop.id, shopId));
-		if (!s?.bays.includes(bay)) return { field: 'bay', message: 'Pick one of the shop’s bays.' };
+		if (!s?.bays.includes(bay)) return failure('invalid', 'Pick one of the shop’s bays.', 'bay');
 	}
 	return null;
 }
 
-export type IntakeResult =
-	{ ok: true; number: number; jobId: string } | { ok: false; field?: string; message: string };
+export type IntakeResult = Result<{ number: number; jobId: string }>;
 
+/** Thrown inside a transaction to roll it back and answer the refusal it carries. */
 class Refused extends Error {
-	constructor(
-		message: string,
-		readonly field?: string
-	) {
-		super(message);
+	constructor(readonly refusal: Failure) {
+		super(refusal.message);
 	}
 }
 
@@ -225,7 +222,8 @@ export async function createJobCard(
 					.select({ id: vehicle.id, customerId: vehicle.customerId })
 					.from(vehicle)
 					.where(and(eq(vehicle.shopId, shopId), eq(vehicle.id, input.pick.slice(2))));
-				if (!v?.customerId) throw new Refused('That vehicle is not in this shop.', 'pick');
+				if (!v?.customerId)
+					throw new Refused(failure('not_found', 'That vehicle is not in this shop.', 'pick'));
 				vehicleId = v.id;
 				customerId = v.customerId;
 			} else if (input.pick.startsWith('c:')) {
@@ -233,7 +231,8 @@ export async function createJobCard(
 					.select({ id: customer.id })
 					.from(customer)
 					.where(and(eq(customer.shopId, shopId), eq(customer.id, input.pick.slice(2))));
-				if (!c) throw new Refused('That customer is not in this shop.', 'pick');
+				if (!c)
+					throw new Refused(failure('not_found', 'That customer is not in this shop.', 'pick'));
 				customerId = c.id;
 			} else {
 				const [c] = await tx
@@ -264,7 +263,7 @@ export async function createJobCard(
 				vehicleId = v.id;
 			}
 			const bad = await checkAssignment(tx, shopId, input.technicianId, input.bay);
-			if (bad) throw new Refused(bad.message, bad.field);
+			if (bad) throw new Refused(bad);
 
 			await tx.execute(
 				sql`select pg_advisory_xact_lock(hashtextextended(${'job-number:' + shopId}, 0))`
@@ -296,11 +295,11 @@ export async function createJobCard(
 				.insert(jobStateChange)
 				.values({ shopId, jobId: row.id, fromState: null, toState: 'open', byUserId });
 			const copied = await copyProcedures(tx, shopId, row.id, input.procedureIds);
-			if (!copied.ok) throw new Refused(copied.message, 'procedureIds');
+			if (!copied.ok) throw new Refused({ ...copied, field: 'procedureIds' });
 			return { ok: true as const, number: row.number, jobId: row.id };
 		});
 	} catch (e) {
-		if (e instanceof Refused) return { ok: false, field: e.field, message: e.message };
+		if (e instanceof Refused) return e.refusal;
 		throw e;
 	}
 }
@@ -309,16 +308,16 @@ export async function assignJob(
 	shopId: string,
 	jobId: string,
 	input: { technicianId: string; bay: string }
-): Promise<{ ok: true } | { ok: false; field?: string; message: string }> {
+): Promise<Result> {
 	return db.transaction(async (tx) => {
 		const bad = await checkAssignment(tx, shopId, input.technicianId, input.bay);
-		if (bad) return { ok: false, ...bad };
+		if (bad) return bad;
 		const rows = await tx
 			.update(job)
 			.set({ technicianId: input.technicianId || null, bay: input.bay || null })
 			.where(and(eq(job.shopId, shopId), eq(job.id, jobId)))
 			.returning({ id: job.id });
-		return rows.length ? { ok: true } : { ok: false, message: 'No such job card in this shop.' };
+		return rows.length ? { ok: true } : failure('not_found', 'No such job card in this shop.');
 	});
 }
 
@@ -337,7 +336,7 @@ export async function addExtraWork(
 		channel: string;
 		approvedAt: Date;
 	}
-): Promise<{ ok: true } | { ok: false; message: string }> {
+): Promise<Result> {
 	try {
 		return await db.transaction(async (tx) => {
 			const [j] = await tx
@@ -345,9 +344,11 @@ export async function addExtraWork(
 				.from(job)
 				.where(and(eq(job.shopId, shopId), eq(job.id, jobId)))
 				.for('update');
-			if (!j) throw new Refused('No such job card in this shop.');
+			if (!j) throw new Refused(failure('not_found', 'No such job card in this shop.'));
 			if (!['open', 'in_work', 'on_hold', 'final_inspection'].includes(j.state)) {
-				throw new Refused('Work can be added only before the job is ready to invoice.');
+				throw new Refused(
+					failure('conflict', 'Work can be added only before the job is ready to invoice.')
+				);
 			}
 			await tx.insert(jobApproval).values({
 				shopId,
@@ -359,119 +360,11 @@ export async function addExtraWork(
 				recordedBy: byUserId
 			});
 			const copied = await copyProcedures(tx, shopId, jobId, [input.procedureId]);
-			if (!copied.ok) throw new Refused(copied.message);
+			if (!copied.ok) throw new Refused(copied);
 			return { ok: true as const };
 		});
 	} catch (e) {
-		if (e instanceof Refused) return { ok: false, message: e.message };
+		if (e instanceof Refused) return e.refusal;
 		throw e;
 	}
 }
-
-/** Everything the job card page shows. */
-export async function getJobCard(shopId: string, number: number) {
-	const [row] = await db
-		.select({
-			job,
-			customer,
-			vehicle,
-			technicianName: user.name
-		})
-		.from(job)
-		.leftJoin(customer, eq(customer.id, job.customerId))
-		.leftJoin(vehicle, eq(vehicle.id, job.vehicleId))
-		.leftJoin(user, eq(user.id, job.technicianId))
-		.where(and(eq(job.shopId, shopId), eq(job.number, number)))
-		.limit(1);
-	if (!row) return null;
-	const jobId = row.job.id;
-	const procedures = await db
-		.select()
-		.from(jobProcedure)
-		.where(and(eq(jobProcedure.shopId, shopId), eq(jobProcedure.jobId, jobId)))
-		.orderBy(asc(jobProcedure.position));
-	const steps = await db
-		.select({ step: jobStep, partCode: part.code, partDescription: part.description })
-		.from(jobStep)
-		.leftJoin(part, eq(part.id, jobStep.partId))
-		.where(and(eq(jobStep.shopId, shopId), eq(jobStep.jobId, jobId)))
-		.orderBy(asc(jobStep.position));
-	// A step's state: its latest live entry (not retracted, not itself a retraction).
-	const latest = await db.execute(sql`
-		select distinct on (e.job_step_id) e.job_step_id, e.kind, e.verdict, e.spec_value, e.spec_unit,
-			e.occurred_at
-		from log_entry e
-		where e.shop_id = ${shopId} and e.job_id = ${jobId} and e.job_step_id is not null
-		  and e.kind in ('measure', 'done', 'part')
-		  and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId})
-		order by e.job_step_id, e.seq desc
-	`);
-	const log = await db.execute(sql`
-		select e.id, e.seq, e.kind, e.raw_text, e.source, e.value, e.unit, e.spec_value, e.spec_unit,
-			e.verdict, e.note, e.occurred_at, e.retracts, u.name as author, s.label as step_label,
-			exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = ${shopId}) as retracted
-		from log_entry e
-		join "user" u on u.id = e.author_id
-		left join job_step s on s.id = e.job_step_id
-		where e.shop_id = ${shopId} and e.job_id = ${jobId}
-		order by e.seq desc
-		limit 500
-	`);
-	const approvals = await db
-		.select({
-			id: jobApproval.id,
-			description: jobApproval.description,
-			approvedBy: jobApproval.approvedBy,
-			channel: jobApproval.channel,
-			approvedAt: jobApproval.approvedAt,
-			recordedByName: user.name,
-			createdAt: jobApproval.createdAt
-		})
-		.from(jobApproval)
-		.leftJoin(user, eq(user.id, jobApproval.recordedBy))
-		.where(and(eq(jobApproval.shopId, shopId), eq(jobApproval.jobId, jobId)))
-		.orderBy(desc(jobApproval.createdAt));
-	const byStep = new Map(latest.map((l) => [l.job_step_id as string, l]));
-	return {
-		job: row.job,
-		customer: row.customer,
-		vehicle: row.vehicle,
-		technicianName: row.technicianName,
-		procedures: procedures.map((p) => ({
-			...p,
-			steps: steps
-				.filter((s) => s.step.jobProcedureId === p.id)
-				.map(({ step, partCode, partDescription }) => {
-					const l = byStep.get(step.id);
-					return {
-						...step,
-						partCode,
-						partDescription,
-						done: Boolean(l),
-						lastKind: (l?.kind as string | undefined) ?? null,
-						lastVerdict: (l?.verdict as string | null | undefined) ?? null,
-						lastValue: (l?.spec_value as number | null | undefined) ?? null
-					};
-				})
-		})),
-		log: log.map((e) => ({
-			id: e.id as string,
-			kind: e.kind as string,
-			rawText: e.raw_text as string,
-			source: e.source as string,
-			value: e.value as number | null,
-			unit: e.unit as string | null,
-			specValue: e.spec_value as number | null,
-			specUnit: e.spec_unit as string | null,
-			verdict: e.verdict as 'in' | 'low' | 'high' | 'no_spec' | null,
-			note: e.note as string | null,
-			occurredAt: new Date(e.occurred_at as string),
-			retracts: e.retracts as string | null,
-			retracted: Boolean(e.retracted),
-			author: e.author as string,
-			stepLabel: e.step_label as string | null
-		})),
-		approvals
-	};
-}
-export type JobCard = NonNullable<Awaited<ReturnType<typeof getJobCard>>>;

@@ -1,6 +1,7 @@
 // Job cards of one shop, with their progress. Every query is scoped by shop id.
 import { and, eq, sql } from 'drizzle-orm';
 import { checkTransition, type TransitionFacts } from '$lib/jobs/machine';
+import { failure, type Result } from '$lib/result';
 import type { JobState } from '$lib/jobs/states';
 import { db, type Tx } from './db';
 import { job, jobStateChange } from './db/schema';
@@ -56,8 +57,12 @@ export async function listJobs(shopId: string, filter: JobListFilter = {}): Prom
 	}));
 }
 
-export type TransitionResult =
-	{ ok: true; from: JobState; to: JobState } | { ok: false; message: string };
+/**
+ * Refused as `not_found` (no such job in the shop), `conflict` (the job's state does not allow
+ * the move, or changed meanwhile) or `unprocessable` (the move exists but a reason or a guard
+ * fact is missing).
+ */
+export type TransitionResult = Result<{ from: JobState; to: JobState }>;
 
 export interface TransitionOptions {
 	/** Who makes the change (recorded in job_state_change). */
@@ -119,18 +124,19 @@ export async function transitionJob(
 			.from(job)
 			.where(and(eq(job.shopId, shopId), eq(job.id, jobId)))
 			.for('update');
-		if (!current) return { ok: false, message: 'No such job card in this shop.' };
+		if (!current) return failure('not_found', 'No such job card in this shop.');
 		const from = current.state;
 		if (opts.expectedFrom && opts.expectedFrom !== from) {
-			return {
-				ok: false,
-				message: 'Someone else changed this job’s state meanwhile: look again and retry.'
-			};
+			return failure(
+				'conflict',
+				'Someone else changed this job’s state meanwhile: look again and retry.'
+			);
 		}
 		const facts = { ...(await transitionFacts(shopId, jobId, tx)), ...opts.facts };
 		const reason = opts.reason?.trim() || null;
 		const check = checkTransition(from, to, facts, reason);
-		if (!check.ok) return check;
+		if (!check.ok)
+			return failure(moveExists(from, to) ? 'unprocessable' : 'conflict', check.message);
 		await tx
 			.update(job)
 			.set({ state: to, stateReason: reason })
@@ -141,6 +147,18 @@ export async function transitionJob(
 		return { ok: true, from, to };
 	};
 	return opts.tx ? run(opts.tx) : db.transaction(run);
+}
+
+/** Whether the machine has the move `from → to` at all, given every fact and a reason. */
+function moveExists(from: JobState, to: JobState): boolean {
+	const all: TransitionFacts = {
+		stepsTotal: 0,
+		stepsDone: 0,
+		signedOff: true,
+		openOutOfSpec: 0,
+		heldFrom: to
+	};
+	return checkTransition(from, to, all, 'reason given').ok;
 }
 
 /** A job's state changes, newest first, with who made them. */

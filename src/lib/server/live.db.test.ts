@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { makeShop } from './db/fixtures';
-import { appendEntry, type Actor, type AppendResult } from './entries';
+import type { Actor } from './bench/job';
+import { appendEntry, type AppendResult } from './log/append';
 import { subscribe, type LiveEvent } from './live';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;

@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { listOutOfSpec } from './floor';
+import { listOutOfSpec } from './floor/queue';
 import { listJobs } from './jobs';
 
 type Kind = 'measure' | 'done' | 'part' | 'note' | 'redo' | 'accept' | 'retraction';

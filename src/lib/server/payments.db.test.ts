@@ -4,7 +4,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { addManualLine, creditInvoice, getInvoice, issueInvoice, makeDraft } from './invoices';
+import { addManualLine, makeDraft } from './invoice-lines';
+import { creditInvoice, getInvoice, issueInvoice } from './invoices';
 import { checkoutUrl, expireCheckout } from './payments';
 
 // The fake is plain JavaScript for the start scripts; loaded by path so type-checking stays out.

@@ -2,12 +2,20 @@
 // SDK points at the local fake provider that `npm start` / `npm test` run (STRIPE_API_HOST,
 // STRIPE_API_PORT, STRIPE_API_PROTOCOL); in production those are unset and it talks to the
 // real service with STRIPE_SECRET_KEY. Webhooks are verified with the SDK's constructEvent.
+// Payments are recorded here too, at the counter or from the provider's webhook, once each.
 import { env } from '$env/dynamic/private';
 import Stripe from 'stripe';
 import { z } from 'zod';
 import { isUuid } from '$lib/ids';
-import { MAX_AMOUNT_MINOR } from '$lib/money';
-import { applyCheckoutCompleted, setCheckoutSession, type InvoiceWithLines } from './invoices';
+import { and, eq, sql } from 'drizzle-orm';
+import { MAX_AMOUNT_MINOR, toDecimalString } from '$lib/money';
+import { failure, failureStatus, type Result } from '$lib/result';
+import { db, type Tx } from './db';
+import { invoice, job, payment, webhookEvent } from './db/schema';
+import { transitionJob } from './jobs';
+
+import { lockInvoice, refusal, Refused } from './invoice-change';
+import { refundDue, type InvoiceWithLines } from './invoices';
 
 export function paymentsClient(): Stripe | null {
 	const key = env.STRIPE_SECRET_KEY;
@@ -150,7 +158,156 @@ export async function handleWebhook(
 		amountMinor: s.amount_total,
 		currency: s.currency ?? ''
 	});
-	if (!r.ok) return { status: r.status ?? 400, body: r.message };
+	if (!r.ok) return { status: failureStatus[r.kind], body: r.message };
 	if (r.duplicate) return { status: 200, body: 'Already applied.' };
 	return { status: 200, body: r.refundDueMinor > 0 ? 'Applied: refund due.' : 'Applied.' };
+}
+
+/**
+ * Records a payment. With a provider reference it is recorded at most once (a repeated
+ * webhook finds the reference taken and changes nothing). Once the payments reach the total
+ * the invoice is paid and the job moves invoiced → paid.
+ *
+ * Money the provider already took is always recorded, whatever became of the invoice since the
+ * checkout began (credited, or paid another way): it then shows as a refund due. A payment at
+ * the counter is refused on an invoice that is paid or credited, and above what is still owed.
+ */
+export async function recordPayment(
+	shopId: string,
+	invoiceId: string,
+	p: {
+		method: 'cash' | 'card' | 'online';
+		amountMinor: number;
+		providerReference?: string | null;
+		byUserId?: string | null;
+	},
+	outer?: Tx
+): Promise<Result<{ recorded: boolean; paid: boolean }>> {
+	const run = async (tx: Tx): Promise<Result<{ recorded: boolean; paid: boolean }>> => {
+		const row = await lockInvoice(tx, shopId, invoiceId);
+		if (!row) return failure('not_found', 'No such invoice in this shop.');
+		const taken = Boolean(p.providerReference);
+		const open = row.status === 'issued' || row.status === 'paid';
+		if (row.kind !== 'invoice' || !(open || (taken && row.status === 'credited'))) {
+			return failure('invalid', 'Payments are taken on an issued invoice only.');
+		}
+		if (!Number.isInteger(p.amountMinor) || p.amountMinor <= 0) {
+			return failure('invalid', 'The amount must be more than zero.');
+		}
+		if (p.amountMinor > MAX_AMOUNT_MINOR) {
+			return failure('invalid', 'The amount is larger than any invoice Benchcall keeps.');
+		}
+		const [{ before }] = await tx
+			.select({ before: sql<string>`coalesce(sum(${payment.amountMinor}), 0)::bigint` })
+			.from(payment)
+			.where(and(eq(payment.shopId, shopId), eq(payment.invoiceId, invoiceId)));
+		if (!taken) {
+			if (row.status === 'paid') {
+				return failure('conflict', 'This invoice is paid in full: nothing is owed.');
+			}
+			const owed = row.totalMinor - Number(before);
+			if (p.amountMinor > owed) {
+				return failure(
+					'invalid',
+					`That is more than is owed (${toDecimalString(owed, row.currency)} ${row.currency}).`
+				);
+			}
+		}
+		const inserted = await tx
+			.insert(payment)
+			.values({
+				shopId,
+				invoiceId,
+				method: p.method,
+				amountMinor: p.amountMinor,
+				providerReference: p.providerReference ?? null,
+				recordedBy: p.byUserId ?? null
+			})
+			.onConflictDoNothing({ target: payment.providerReference })
+			.returning({ id: payment.id });
+		const recorded = inserted.length > 0;
+		const paid = Number(before) + (recorded ? p.amountMinor : 0);
+		const nowPaid = row.status !== 'credited' && paid >= row.totalMinor;
+		if (nowPaid && row.status === 'issued') {
+			await tx
+				.update(invoice)
+				.set({ status: 'paid', paidAt: new Date(), updatedAt: new Date() })
+				.where(eq(invoice.id, invoiceId));
+			const [j] = await tx.select({ state: job.state }).from(job).where(eq(job.id, row.jobId));
+			if (j?.state === 'invoiced') {
+				const moved = await transitionJob(shopId, row.jobId, 'paid', {
+					byUserId: p.byUserId ?? row.issuedBy ?? row.createdBy ?? '',
+					tx
+				});
+				if (!moved.ok) throw new Error(moved.message);
+			}
+		}
+		return { ok: true, recorded, paid: nowPaid };
+	};
+	return outer ? run(outer) : db.transaction(run);
+}
+
+export async function setCheckoutSession(shopId: string, invoiceId: string, sessionId: string) {
+	await db
+		.update(invoice)
+		.set({ checkoutSessionId: sessionId })
+		.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)));
+}
+
+/**
+ * A completed checkout from the provider's webhook, handled exactly once: the event id is
+ * recorded in the same transaction as the payment, so a repeat finds it and does nothing. A
+ * refused event leaves nothing behind (the transaction rolls back), so a repeat is refused too
+ * rather than answered as handled.
+ */
+type Applied = Result<{ duplicate: boolean; refundDueMinor: number }>;
+
+export async function applyCheckoutCompleted(ev: {
+	eventId: string;
+	type: string;
+	invoiceId: string;
+	shopId: string;
+	sessionId: string;
+	amountMinor: number;
+	currency: string;
+}): Promise<Applied> {
+	const answer: Promise<Applied> = db.transaction(async (tx) => {
+		const [inv] = await tx
+			.select()
+			.from(invoice)
+			.where(and(eq(invoice.shopId, ev.shopId), eq(invoice.id, ev.invoiceId)));
+		if (!inv) throw new Refused(failure('not_found', 'No such invoice.'));
+		if (inv.currency.toLowerCase() !== ev.currency.toLowerCase()) {
+			throw new Refused(failure('invalid', 'The payment is in another currency.'));
+		}
+		const fresh = await tx
+			.insert(webhookEvent)
+			.values({ eventId: ev.eventId, shopId: ev.shopId, type: ev.type })
+			.onConflictDoNothing()
+			.returning({ id: webhookEvent.eventId });
+		const r =
+			fresh.length === 0
+				? { ok: true as const, recorded: false }
+				: await recordPayment(
+						ev.shopId,
+						ev.invoiceId,
+						{ method: 'online', amountMinor: ev.amountMinor, providerReference: ev.sessionId },
+						tx
+					);
+		if (!r.ok) throw new Refused(r);
+		const [after] = await tx
+			.select({ status: invoice.status, total: invoice.totalMinor })
+			.from(invoice)
+			.where(eq(invoice.id, ev.invoiceId));
+		const [{ paid }] = await tx
+			.select({ paid: sql<string>`coalesce(sum(${payment.amountMinor}), 0)::bigint` })
+			.from(payment)
+			.where(and(eq(payment.shopId, ev.shopId), eq(payment.invoiceId, ev.invoiceId)));
+		return {
+			ok: true as const,
+			duplicate: !r.recorded,
+			refundDueMinor: refundDue(after.status, after.total, Number(paid))
+		};
+	});
+	return answer.catch(refusal);
 }

@@ -7,6 +7,12 @@ import { isClosedRecord } from './db/errors';
 import * as s from './db/schema';
 import { uploads, type FileStorage } from './storage';
 import { keepThumb } from './thumbs';
+import { closedStates } from '$lib/jobs/states';
+import { isUuid } from '$lib/ids';
+import { failure, type Result } from '$lib/result';
+import type { EntryView } from '$lib/bench/types';
+import { getJob, mayWrite, NOT_FOUND, type Actor } from './bench/job';
+import { readEntry } from './log/read';
 
 export type StoreResult =
 	| { ok: true; id: string }
@@ -70,4 +76,55 @@ export function listIntakePhotos(shopId: string, jobId: string) {
 			)
 		)
 		.orderBy(asc(s.attachment.createdAt));
+}
+
+export type PhotoResult = Result<{ entry: EntryView }>;
+
+/** Attaches a photo to an entry of the job: type checked from the bytes, at most 10 MB. */
+export async function attachPhoto(
+	actor: Actor,
+	jobId: string,
+	entryId: string,
+	file: { bytes: Uint8Array; name: string },
+	storage: FileStorage = uploads()
+): Promise<PhotoResult> {
+	const job = await getJob(actor.shopId, jobId);
+	if (!job) return failure('not_found', NOT_FOUND);
+	if (!mayWrite(actor, job)) return failure('forbidden', 'This job is not assigned to you.');
+	if (closedStates.includes(job.state)) return failure('conflict', closedPhotoMessage);
+	if (!isUuid(entryId)) return failure('not_found', 'No such entry on this job.');
+	const [entry] = await db
+		.select({ id: s.logEntry.id })
+		.from(s.logEntry)
+		.where(
+			and(
+				eq(s.logEntry.shopId, actor.shopId),
+				eq(s.logEntry.jobId, jobId),
+				eq(s.logEntry.id, entryId)
+			)
+		);
+	if (!entry) return failure('not_found', 'No such entry on this job.');
+	const stored = await storePhoto(
+		{ shopId: actor.shopId, jobId, entryId, uploadedBy: actor.id },
+		file,
+		storage
+	);
+	if (!stored.ok) return failure(stored.closed ? 'conflict' : 'invalid', stored.message);
+	return { ok: true, entry: (await readEntry(actor.shopId, entryId))! };
+}
+
+/** A stored photo of the shop, or null (another shop's photo reads as missing). */
+export async function readPhoto(
+	shopId: string,
+	id: string,
+	storage: FileStorage = uploads()
+): Promise<{ mime: string; bytes: Uint8Array } | null> {
+	if (!isUuid(id)) return null;
+	const [row] = await db
+		.select({ mime: s.attachment.mime, key: s.attachment.storageKey })
+		.from(s.attachment)
+		.where(and(eq(s.attachment.shopId, shopId), eq(s.attachment.id, id)));
+	if (!row) return null;
+	const bytes = await storage.get(row.key);
+	return bytes ? { mime: row.mime, bytes } : null;
 }

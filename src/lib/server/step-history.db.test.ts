@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry } from './entries';
+import { appendEntry } from './log/append';
 import { stepHistory } from './step-history';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;

@@ -3,7 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { makeShop } from './db/fixtures';
 import * as s from './db/schema';
-import { appendEntry, listTools, type Actor, type AppendResult } from './entries';
+import type { Actor } from './bench/job';
+import { listTools } from './bench/tools';
+import { appendEntry, type AppendResult } from './log/append';
 import { lastChecks, recordCheck, toolWithChecks } from './tool-checks';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;

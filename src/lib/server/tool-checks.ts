@@ -5,6 +5,7 @@ import { judgeCheck, permissiblePct, testPoints, type CheckResult } from '$lib/t
 import { calibrationDue } from '$lib/torque';
 import { db } from './db';
 import * as s from './db/schema';
+import { isLive } from './log/live';
 
 export interface ToolCheckView {
 	id: string;
@@ -215,7 +216,7 @@ export async function jobsToRevisit(
 		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
 		where e.shop_id = ${shopId} and e.torque_tool_id = ${toolId} and e.kind = 'measure'
 			and (${lastPass}::date is null or e.occurred_at >= ${lastPass}::date)
-			and not exists (select 1 from log_entry r where r.retracts = e.id and r.shop_id = e.shop_id)
+			and ${isLive('e')}
 		group by e.job_id, j.number, v.registration
 		order by max(e.occurred_at) desc
 		limit 200`);

@@ -2,6 +2,7 @@
 // out-of-spec entries, photos), what is due next, and the reminder e-mail. Scoped by shop id.
 import { shopFormat, type ShopStyle } from '$lib/format';
 import { client } from './db';
+import { liveCondition } from './log/live';
 import { getShop } from './shop';
 import { mailFrom, sendMail } from './mail';
 import { normalizeRegistration, normalizeVin, toDate } from '$lib/vehicles/vin';
@@ -123,8 +124,7 @@ export async function stepSeries(
 		where e.shop_id = ${shopId} and j.vehicle_id = ${vehicleId} and e.kind = 'measure'
 			and e.spec_value is not null
 			and (${labelLike ?? null}::text is null or lower(st.label) = lower(${labelLike ?? null}::text))
-			and not exists (select 1 from log_entry r where r.shop_id = e.shop_id
-				and r.retracts = e.id and r.kind = 'retraction')
+			and ${client.unsafe(liveCondition('e'))}
 		order by e.occurred_at`;
 	const groups = new Map<string, StepSeries>();
 	for (const r of rows) {
@@ -149,8 +149,7 @@ export async function outOfSpecHistory(shopId: string, vehicleId: string) {
 	const rows = await client`
 		select e.id, j.number, e.occurred_at, e.raw_text, e.spec_value, e.spec_unit, e.verdict,
 			st.label, a.kind as answer, a.note as answer_note, u.name as answered_by,
-			exists (select 1 from log_entry r where r.shop_id = e.shop_id and r.retracts = e.id
-				and r.kind = 'retraction') as retracted
+			not ${client.unsafe(liveCondition('e'))} as retracted
 		from log_entry e
 		join job j on j.id = e.job_id and j.shop_id = e.shop_id
 		left join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id

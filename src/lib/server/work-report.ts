@@ -5,6 +5,7 @@ import { entryKindWords, specText, verdictWords } from '$lib/invoice/report';
 import { formatQuantity } from '$lib/units';
 import { db } from './db';
 import { job, jobProcedure, jobStep, logEntry, user } from './db/schema';
+import { retractedIds } from '$lib/log/live';
 
 export interface ReportEntry {
 	id: string;
@@ -72,9 +73,7 @@ export async function workReport(shopId: string, jobId: string): Promise<WorkRep
 		.where(and(eq(logEntry.shopId, shopId), eq(logEntry.jobId, jobId)))
 		.orderBy(asc(logEntry.seq));
 
-	const retracted = new Set(
-		entries.filter((r) => r.e.kind === 'retraction').map((r) => r.e.retracts)
-	);
+	const retracted = retractedIds(entries.map((r) => r.e));
 	const byId = new Map(entries.map((r) => [r.e.id, r.e]));
 	const stepOf = (id: string | null): string | null => {
 		if (!id) return null;

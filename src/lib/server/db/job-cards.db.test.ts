@@ -1,7 +1,8 @@
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { intakeSchema } from '$lib/schemas/job';
-import { addExtraWork, createJobCard, getJobCard } from '../job-cards';
+import { getJobCard } from '../job-card-view';
+import { addExtraWork, createJobCard } from '../job-cards';
 import {
 	exportProcedures,
 	importProcedures,

@@ -53,13 +53,13 @@ describe('transitionJob', () => {
 		const b = await makeShop('B');
 		expect(
 			await transitionJob(b.shop.id, a.job.id, 'on_hold', { byUserId: b.owner.id, reason: 'x' })
-		).toEqual({ ok: false, message: 'No such job card in this shop.' });
+		).toEqual({ ok: false, kind: 'not_found', message: 'No such job card in this shop.' });
 		expect(
 			await transitionJob(a.shop.id, a.job.id, 'final_inspection', {
 				byUserId: a.owner.id,
 				reason: 'x',
 				expectedFrom: 'open'
 			})
-		).toMatchObject({ ok: false });
+		).toMatchObject({ ok: false, kind: 'conflict' });
 	});
 });

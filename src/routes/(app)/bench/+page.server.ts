@@ -1,15 +1,9 @@
 import { requireRole } from '$lib/server/auth';
-import {
-	benchJobs,
-	getJob,
-	findJobIdByNumber,
-	listEntries,
-	listSteps,
-	listTools,
-	mayWrite,
-	shopTolerance
-} from '$lib/server/entries';
-import { listOpenRedos } from '$lib/server/floor';
+import { benchJobs, getJob, findJobIdByNumber, mayWrite } from '$lib/server/bench/job';
+import { listSteps } from '$lib/server/bench/steps';
+import { listTools, shopTolerance } from '$lib/server/bench/tools';
+import { listEntries } from '$lib/server/log/read';
+import { listOpenRedos } from '$lib/server/floor/queue';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

@@ -1,7 +1,8 @@
 import { normalizeFilter } from '$lib/floor/log';
 import { logFilterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
-import { filterOptions, floorBoard, latestSeq, listLog } from '$lib/server/floor';
+import { floorBoard } from '$lib/server/floor/board';
+import { filterOptions, latestSeq, listLog } from '$lib/server/floor/log';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

@@ -5,13 +5,8 @@ import { assignSchema, extraWorkSchema, transitionSchema } from '$lib/schemas/jo
 import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
 import { readForm, tooLargeMessage } from '$lib/server/request';
-import {
-	addExtraWork,
-	assignJob,
-	getJobCard,
-	listBays,
-	listTechnicians
-} from '$lib/server/job-cards';
+import { getJobCard } from '$lib/server/job-card-view';
+import { addExtraWork, assignJob, listBays, listTechnicians } from '$lib/server/job-cards';
 import { stateHistory, transitionFacts, transitionJob } from '$lib/server/jobs';
 import { closedPhotoMessage, listIntakePhotos, storePhoto } from '$lib/server/photos';
 import { listProcedures } from '$lib/server/procedures';

@@ -1,7 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { queueAfterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
-import { floorBoard } from '$lib/server/floor';
+import { floorBoard } from '$lib/server/floor/board';
 import type { RequestHandler } from './$types';
 
 /**

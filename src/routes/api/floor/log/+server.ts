@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import { normalizeFilter } from '$lib/floor/log';
 import { logPageSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
-import { listLog } from '$lib/server/floor';
+import { listLog } from '$lib/server/floor/log';
 import type { RequestHandler } from './$types';
 
 /** A page of the running log, newest first, older than `before` (keyset pagination). */

@@ -3,7 +3,7 @@ import type { FloorEntry } from '$lib/floor/log';
 import { encodeResume, RESCAN_WINDOW, type ResumePoint } from '$lib/floor/resume';
 import { streamAfterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
-import { announcedEntries, entriesSince, latestSeq } from '$lib/server/floor';
+import { announcedEntries, entriesSince, latestSeq } from '$lib/server/floor/log';
 import { subscribe } from '$lib/server/live';
 import { eventStream } from '$lib/server/sse';
 import type { RequestHandler } from './$types';

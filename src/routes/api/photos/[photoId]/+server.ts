@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { readPhoto } from '$lib/server/entries';
+import { readPhoto } from '$lib/server/photos';
 import type { RequestHandler } from './$types';
 
 /** A photo, to signed-in people of the same shop only. */

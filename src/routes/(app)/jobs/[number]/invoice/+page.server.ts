@@ -15,19 +15,16 @@ import {
 import { requireRole } from '$lib/server/auth';
 import { readForm } from '$lib/server/request';
 import { invoicePdf } from '$lib/server/invoice-pdf';
+import { addManualLine, makeDraft, pickPart, removeLine } from '$lib/server/invoice-lines';
 import {
-	addManualLine,
 	creditInvoice,
 	findJobByNumber,
 	getInvoice,
 	issueInvoice,
 	jobInvoices,
-	makeDraft,
-	pickPart,
-	priceList,
-	recordPayment,
-	removeLine
+	priceList
 } from '$lib/server/invoices';
+import { recordPayment } from '$lib/server/payments';
 import { mailFrom, sendMail } from '$lib/server/mail';
 import { expireCheckout } from '$lib/server/payments';
 import { getShop } from '$lib/server/shop';

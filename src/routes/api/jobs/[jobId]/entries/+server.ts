@@ -1,6 +1,8 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole, requireUser } from '$lib/server/auth';
-import { appendEntry, getJob, listEntries } from '$lib/server/entries';
+import { getJob } from '$lib/server/bench/job';
+import { appendEntry } from '$lib/server/log/append';
+import { listEntries } from '$lib/server/log/read';
 import { readJson } from '$lib/server/request';
 import {
 	AUTHOR_HEADER,

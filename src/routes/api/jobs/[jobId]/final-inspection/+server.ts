@@ -1,6 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
-import { sendToFinalInspection } from '$lib/server/entries';
+import { sendToFinalInspection } from '$lib/server/bench/hand-over';
+import { orError } from '$lib/server/http';
 import { readJson } from '$lib/server/request';
 import { finalInspectionSchema, firstIssue } from '$lib/schemas/bench';
 import type { RequestHandler } from './$types';
@@ -11,7 +12,6 @@ export const POST: RequestHandler = async ({ params, request }) => {
 	const body = await readJson(request, 'The body must be JSON: { reason? }.');
 	const parsed = finalInspectionSchema.safeParse(body);
 	if (!parsed.success) error(400, firstIssue(parsed.error));
-	const result = await sendToFinalInspection(user, params.jobId, parsed.data.reason);
-	if (!result.ok) error(result.status, result.message);
-	return json({ state: result.state });
+	const moved = orError(await sendToFinalInspection(user, params.jobId, parsed.data.reason));
+	return json({ state: moved.state });
 };

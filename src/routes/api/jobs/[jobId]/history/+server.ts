@@ -2,7 +2,7 @@ import { error, json } from '@sveltejs/kit';
 import { z } from 'zod';
 import { firstIssue } from '$lib/schemas/bench';
 import { requireRole } from '$lib/server/auth';
-import { getJob } from '$lib/server/entries';
+import { getJob } from '$lib/server/bench/job';
 import { stepHistory } from '$lib/server/step-history';
 import type { RequestHandler } from './$types';
 

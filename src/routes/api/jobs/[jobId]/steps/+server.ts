@@ -1,7 +1,8 @@
 import { error, json } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { getJob, listSteps } from '$lib/server/entries';
-import { listOpenRedos } from '$lib/server/floor';
+import { getJob } from '$lib/server/bench/job';
+import { listSteps } from '$lib/server/bench/steps';
+import { listOpenRedos } from '$lib/server/floor/queue';
 import type { RequestHandler } from './$types';
 
 /** The job's steps with specs, done state and cautions, and the foreman's open redo orders. */

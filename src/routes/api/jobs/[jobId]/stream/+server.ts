@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth';
-import { getJob } from '$lib/server/entries';
+import { getJob } from '$lib/server/bench/job';
 import { subscribe } from '$lib/server/live';
 import { eventStream } from '$lib/server/sse';
 import type { RequestHandler } from './$types';

@@ -1,6 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
-import { attachPhoto } from '$lib/server/entries';
+import { orError } from '$lib/server/http';
+import { attachPhoto } from '$lib/server/photos';
 import { MAX_PHOTO_BYTES, isTooLarge } from '$lib/uploads/check';
 import type { RequestHandler } from './$types';
 
@@ -18,7 +19,8 @@ export const POST: RequestHandler = async ({ params, request }) => {
 	if (!(file instanceof File)) error(400, 'Choose a photo to attach.');
 	if (file.size > MAX_PHOTO_BYTES) error(400, 'The photo is larger than 10 MB.');
 	const bytes = new Uint8Array(await file.arrayBuffer());
-	const result = await attachPhoto(user, params.jobId, params.entryId, { bytes, name: file.name });
-	if ('message' in result) error(result.status, result.message);
-	return json({ entry: result.entry }, { status: 201 });
+	const { entry } = orError(
+		await attachPhoto(user, params.jobId, params.entryId, { bytes, name: file.name })
+	);
+	return json({ entry }, { status: 201 });
 };
