@@ -111,6 +111,17 @@ test.describe('the Bench', () => {
 		expect(r.n).toBe(1);
 	});
 
+	test('a closed job says so and offers no call bar', async ({ page }) => {
+		// job 1001 of the demo shop is paid (seed): its record takes no more entries
+		await signIn(page, demo.foreman);
+		await page.goto('/bench?job=1001');
+		await expect(page.getByRole('heading', { name: /Job 1001/ })).toBeVisible();
+		await expect(page.getByTestId('bench-closed')).toContainText('paid');
+		await expect(page.getByTestId('bench-closed')).toContainText('no more entries');
+		await expect(page.getByTestId('call-bar')).toHaveCount(0);
+		await expect(page.getByRole('button', { name: /Start listening/ })).toHaveCount(0);
+	});
+
 	test('a photo attaches to an entry; an .exe renamed .jpg is refused', async ({ page }) => {
 		await openBench(page, demo.tomasz, 1041);
 		await call(page, `note photo ${tag()}`);

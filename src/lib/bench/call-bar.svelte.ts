@@ -4,6 +4,7 @@
  * reading through the outbox; "next", "spec" and "history" answer without logging.
  */
 import { goto } from '$app/navigation';
+import { closedRecordNote, type JobState } from '$lib/jobs/states';
 import { isCancel } from '$lib/phrase';
 import { signedLength, type Adapter } from '$lib/torque/adapter';
 import { newId, nowIso } from './browser';
@@ -19,7 +20,7 @@ export interface CallBarContext {
 	job: BenchJobState;
 	outbox: BenchOutbox;
 	data: () => {
-		job: { id: string; number: number } | null;
+		job: { id: string; number: number; state: JobState } | null;
 		me: { id: string };
 		tolerancePct: number;
 	};
@@ -177,6 +178,12 @@ export class CallBar {
 		if (p.intent === 'spec') {
 			this.answer = { title: 'Spec', step: row.step };
 			this.clear();
+			return;
+		}
+		// a closed record takes no entries (the server answers 409): say so rather than queue one
+		const closed = closedRecordNote(open.state);
+		if (closed) {
+			this.message = { tone: 'error', text: closed };
 			return;
 		}
 		const tool = this.#ctx.tool();
