@@ -1,28 +1,16 @@
 import { expect, test, type Page } from '@playwright/test';
 import { demo, signIn } from './helpers/auth';
 import { db, entry, jobId } from './helpers/bench-db';
+import { call, callBar as bar, openBench } from './helpers/bench';
 
-const bar = (page: Page) => page.getByRole('combobox', { name: 'Call bar' });
 const rows = (page: Page) => page.getByTestId('log-entry');
 const tag = () => Math.random().toString(36).slice(2, 8);
-
-async function openJob(page: Page, number: number, who = demo.tomasz) {
-	await signIn(page, who);
-	await page.goto(`/bench?job=${number}`);
-	await expect(page.getByRole('heading', { name: new RegExp(`Job ${number}`) })).toBeVisible();
-	await expect(bar(page)).toBeFocused();
-}
-
-async function call(page: Page, text: string) {
-	await bar(page).fill(text);
-	await expect(page.getByTestId('candidate').first()).toBeVisible();
-}
 
 test.describe('the Bench', () => {
 	test('a typed phrase is previewed, logged with Enter and stored with the right verdict', async ({
 		page
 	}) => {
-		await openJob(page, 1042);
+		await openBench(page, demo.tomasz, 1042);
 		// 5.9 kgf·m × 9.80665 = 57.86 N·m (NIST SP 811 B.8), inside the demo band 50–60 N·m
 		await call(page, 'lower mount 5.9 kgf m');
 		const top = page.getByTestId('candidate').first();
@@ -54,7 +42,7 @@ test.describe('the Bench', () => {
 	});
 
 	test('arrow keys pick another matching step', async ({ page }) => {
-		await openJob(page, 1042);
+		await openBench(page, demo.tomasz, 1042);
 		await call(page, 'engine mount 3.4 kgf m');
 		await expect(page.getByTestId('candidate')).toHaveCount(3);
 		await page.keyboard.press('ArrowDown');
@@ -69,7 +57,7 @@ test.describe('the Bench', () => {
 	});
 
 	test('"next" and "spec" show a step without logging', async ({ page }) => {
-		await openJob(page, 1042);
+		await openBench(page, demo.tomasz, 1042);
 		const before = await rows(page).count();
 		await call(page, 'next');
 		await page.keyboard.press('Enter');
@@ -88,7 +76,7 @@ test.describe('the Bench', () => {
 		page
 	}) => {
 		// Job 1041's motorcycle has six past paid services with the rear axle nut torqued (seed).
-		await openJob(page, 1041);
+		await openBench(page, demo.tomasz, 1041);
 		const before = await rows(page).count();
 		await call(page, 'history rear axle');
 		await expect(page.getByTestId('candidate').first()).toContainText('Show past readings');
@@ -106,7 +94,7 @@ test.describe('the Bench', () => {
 	});
 
 	test('undo strikes through your last entry and keeps both in the log', async ({ page }) => {
-		await openJob(page, 1041);
+		await openBench(page, demo.tomasz, 1041);
 		const t = tag();
 		await call(page, `note undo check ${t}`);
 		await page.keyboard.press('Enter');
@@ -123,8 +111,19 @@ test.describe('the Bench', () => {
 		expect(r.n).toBe(1);
 	});
 
+	test('a closed job says so and offers no call bar', async ({ page }) => {
+		// job 1001 of the demo shop is paid (seed): its record takes no more entries
+		await signIn(page, demo.foreman);
+		await page.goto('/bench?job=1001');
+		await expect(page.getByRole('heading', { name: /Job 1001/ })).toBeVisible();
+		await expect(page.getByTestId('bench-closed')).toContainText('paid');
+		await expect(page.getByTestId('bench-closed')).toContainText('no more entries');
+		await expect(page.getByTestId('call-bar')).toHaveCount(0);
+		await expect(page.getByRole('button', { name: /Start listening/ })).toHaveCount(0);
+	});
+
 	test('a photo attaches to an entry; an .exe renamed .jpg is refused', async ({ page }) => {
-		await openJob(page, 1041);
+		await openBench(page, demo.tomasz, 1041);
 		await call(page, `note photo ${tag()}`);
 		await page.keyboard.press('Enter');
 		const first = rows(page).first();
@@ -190,7 +189,7 @@ test.describe('the Bench', () => {
 			}
 			(window as unknown as Record<string, unknown>).SpeechRecognition = FakeRecognition;
 		});
-		await openJob(page, 1041);
+		await openBench(page, demo.tomasz, 1041);
 		await page.getByRole('button', { name: /Start listening/ }).click();
 		await page.waitForFunction(() => '__rec' in window);
 		const say = (text: string, isFinal = true) =>
@@ -236,7 +235,7 @@ test.describe('the Bench', () => {
 		page,
 		context
 	}) => {
-		await openJob(page, 1041);
+		await openBench(page, demo.tomasz, 1041);
 		const t = tag();
 		await context.setOffline(true);
 		const madeAt = Date.now();
@@ -250,8 +249,12 @@ test.describe('the Bench', () => {
 		await page.route('**/api/jobs/*/entries', (route) =>
 			route.request().method() === 'POST' ? route.abort() : route.continue()
 		);
+		// back online, the outbox sends at once; the reload waits until that try has failed
+		const tried = page.waitForEvent('requestfailed', (req) => {
+			return req.method() === 'POST' && /\/api\/jobs\/[^/]+\/entries$/.test(req.url());
+		});
 		await context.setOffline(false);
-		await page.waitForTimeout(1500);
+		await tried;
 		await page.reload();
 		await expect(page.getByTestId('waiting')).toHaveText(/3 waiting/);
 		const onlineAt = Date.now();

@@ -1,16 +1,14 @@
 import { expect, test, type Page } from '@playwright/test';
-import { demo, signIn } from './helpers/auth';
+import { demo } from './helpers/auth';
 import { db, entry } from './helpers/bench-db';
+import { callBar as bar, openBench } from './helpers/bench';
 
-const bar = (page: Page) => page.getByRole('combobox', { name: 'Call bar' });
 const rows = (page: Page) => page.getByTestId('log-entry');
 
 test('the Bench previews the oil grade against the step spec and keeps it with the entry', async ({
 	page
 }) => {
-	await signIn(page, demo.tomasz);
-	await page.goto('/bench?job=1041');
-	await expect(bar(page)).toBeFocused();
+	await openBench(page, demo.tomasz, 1041);
 
 	// demo spec "SAE 10W-40, API SL or higher, JASO MA2": no grade said → the preview asks for it
 	await bar(page).fill('engine oil 1.1 l');

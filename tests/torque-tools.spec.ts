@@ -1,8 +1,7 @@
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { demo, signIn } from './helpers/auth';
 import { db, entry } from './helpers/bench-db';
-
-const bar = (page: Page) => page.getByRole('combobox', { name: 'Call bar' });
+import { callBar as bar, openBench } from './helpers/bench';
 
 async function toolId(identifier: string): Promise<string> {
 	const [row] = await db()`
@@ -14,9 +13,7 @@ async function toolId(identifier: string): Promise<string> {
 test('the Bench works out the wrench setting for an adapter and keeps it with the entry', async ({
 	page
 }) => {
-	await signIn(page, demo.tomasz);
-	await page.goto('/bench?job=1042');
-	await expect(bar(page)).toBeFocused();
+	await openBench(page, demo.tomasz, 1042);
 	// demo tool TW-01 has an effective length of 310 mm (demo value)
 	await page.getByLabel('Torque tool in use').selectOption(await toolId('TW-01'));
 	await bar(page).fill('lower mount 55 nm adapter 50 mm');

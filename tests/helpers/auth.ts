@@ -13,9 +13,12 @@ export const demo = {
 
 export { demoPassword };
 
-/** Signs in through the form, as a person would, and waits for the landing page. */
-export async function signIn(page: Page, email: string, password = demoPassword) {
-	await page.goto('/sign-in');
+/**
+ * Signs in through the form, as a person would, and waits for the landing page; `base` for a
+ * server other than the configured one.
+ */
+export async function signIn(page: Page, email: string, password = demoPassword, base = '') {
+	await page.goto(`${base}/sign-in`);
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();

@@ -1,8 +1,8 @@
 // Technicians of the test's own, each with a job in work (the demo periodic service), added to
 // the demo shop: a test that writes to their job logs never meets another test's entries.
-import { expect, type Page } from '@playwright/test';
+import type { Page } from '@playwright/test';
 import { makeCrew, type CrewMember } from '../../scripts/lib/harness';
-import { demoPassword } from './auth';
+import { demoPassword, signIn } from './auth';
 
 export const tag = () => Math.random().toString(36).slice(2, 8);
 
@@ -14,11 +14,7 @@ export async function crew(technicians: number): Promise<CrewMember[]> {
 	return c.technicians;
 }
 
-/** Signs in through the form; `base` for a server other than the configured one. */
-export async function signInAs(page: Page, who: { email: string }, base = '') {
-	await page.goto(`${base}/sign-in`);
-	await page.getByLabel('E-mail').fill(who.email);
-	await page.getByLabel('Password').fill(demoPassword);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page).not.toHaveURL(/\/sign-in/, { timeout: 15_000 });
+/** Signs a crew member in through the form; `base` for a server other than the configured one. */
+export function signInAs(page: Page, who: { email: string }, base = '') {
+	return signIn(page, who.email, demoPassword, base);
 }

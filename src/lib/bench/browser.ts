@@ -17,6 +17,9 @@ export function newId(): string {
 	return `${h.slice(0, 8)}-${h.slice(8, 12)}-${h.slice(12, 16)}-${h.slice(16, 20)}-${h.slice(20)}`;
 }
 
+/** When an entry is made: the device's clock, kept with the entry while it waits. */
+export const nowIso = () => new Date().toISOString();
+
 /** Sends one waiting entry to the entries endpoint. */
 export async function sendEntry(e: QueuedEntry) {
 	let res: Response;

@@ -94,3 +94,20 @@ export interface StepHistoryView {
 	/** All readings of the step on the vehicle (more than shown when over the limit). */
 	total: number;
 }
+
+/** A torque tool as the Bench offers it, with its calibration state on the shop's date. */
+export interface ToolView {
+	id: string;
+	identifier: string;
+	kind: string;
+	rangeMin: number;
+	rangeMax: number;
+	unit: string;
+	dueDate: string | null;
+	/** 'overdue' also when the tool's last check failed (`checkFailed`). */
+	state: 'ok' | 'due_soon' | 'overdue';
+	/** The date of the tool's last check when it failed; null otherwise. */
+	checkFailed: string | null;
+	/** For adapter settings; null when the owner has not given it. */
+	effectiveLengthMm: number | null;
+}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { describeSpec, plusMinusOf, toStoredSpec } from './spec';
+import { describeSpec, plusMinusOf, specLabel, toStoredSpec } from './spec';
 
 describe('toStoredSpec', () => {
 	it('turns nominal ± tolerance into min and max', () => {
@@ -73,5 +73,17 @@ describe('describeSpec', () => {
 			'≥ 20 mm'
 		);
 		expect(describeSpec({ nominal: null, min: null, max: null, unit: null }, fmt, sym)).toBe('—');
+	});
+});
+
+describe('specLabel', () => {
+	it('writes a spec with the trade’s unit symbols', () => {
+		// kgf·m and lbf·ft are the trade's symbols for UCUM kgf.m and [lbf_av].[ft_i] (UCUM)
+		expect(specLabel({ nominal: 3.3, min: 3, max: 3.6, unit: 'kgf.m' })).toBe(
+			'3–3.6 kgf·m (nominal 3.3)'
+		);
+		expect(specLabel({ nominal: null, min: 18, max: 22, unit: '[lbf_av].[ft_i]' })).toBe(
+			'18–22 lbf·ft'
+		);
 	});
 });

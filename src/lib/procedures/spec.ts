@@ -1,6 +1,8 @@
 // A step's spec as entered (nominal with min/max, or nominal ± tolerance) and as stored
 // (nominal, min, max). Pure: shared by the procedure editor, the imports and their tests.
 
+import { formatNumber, unitSymbol } from '../units/format';
+
 export interface SpecInput {
 	nominal?: number | null;
 	min?: number | null;
@@ -100,4 +102,9 @@ export function describeSpec(
 	if (max !== null) return `≤ ${fmt(max)}${u}`;
 	if (nominal !== null) return `${fmt(nominal)}${u}`;
 	return '—';
+}
+
+/** A spec as the screens show it: the app's number style and the trade's unit symbols. */
+export function specLabel(spec: StoredSpec & { unit: string | null }): string {
+	return describeSpec(spec, (n) => formatNumber(n), unitSymbol);
 }

@@ -47,3 +47,23 @@ export function optionalNumber(ok: (n: number) => boolean, message: string) {
 			return n;
 		});
 }
+
+/**
+ * What a failed action sent back, for the form that sent it: its field errors and the values
+ * typed; empty for every other form on the page. `match` singles out one of several forms of
+ * the same action (a step's, a setting's); an undefined entry matches any.
+ */
+export function actionAnswer(
+	form: unknown,
+	action: string,
+	match: Record<string, unknown> = {}
+): { errors: Record<string, string>; values: Record<string, string> } {
+	const f = (form ?? {}) as Record<string, unknown>;
+	const mine =
+		f.action === action &&
+		Object.entries(match).every(([key, want]) => want === undefined || f[key] === want);
+	return {
+		errors: (mine ? (f.errors ?? {}) : {}) as Record<string, string>,
+		values: (mine ? (f.values ?? {}) : {}) as Record<string, string>
+	};
+}
