@@ -4,6 +4,7 @@ import { sql } from 'drizzle-orm';
 import type { StepSpec, Verdict } from '$lib/phrase';
 import { formatQuantity } from '$lib/units';
 import type { BenchStep, StepDefinition } from '$lib/bench/types';
+import { toStepSpecs } from '$lib/bench/call';
 import { db } from '../db';
 
 /** The job's steps in order, each done once it has a live (not retracted) entry. */
@@ -44,20 +45,8 @@ function toStepDefinition(r: Record<string, unknown>): StepDefinition {
 	};
 }
 
-/** Steps in the phrase engine's shape (null limits left out; no done state: not done). */
-export function toStepSpecs(steps: (StepDefinition & { done?: boolean })[]): StepSpec[] {
-	return steps.map((st) => ({
-		id: st.id,
-		label: st.label,
-		aliases: st.aliases,
-		unit: st.unit ?? undefined,
-		nominal: st.nominal ?? undefined,
-		min: st.min ?? undefined,
-		max: st.max ?? undefined,
-		fluid: st.fluid ?? undefined,
-		done: st.done ?? false
-	}));
-}
+// the phrase engine's shape of steps: one definition for the server and the Bench's page
+export { toStepSpecs };
 
 // --- the job's steps, kept in memory between appends ------------------------------------------
 //

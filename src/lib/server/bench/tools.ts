@@ -1,26 +1,14 @@
 // The shop's torque tools for the Bench, with their calibration state, and the shop's
 // tolerance and calibration interval.
 import { and, eq } from 'drizzle-orm';
+import type { ToolView } from '$lib/bench/types';
 import { calibrationDue } from '$lib/torque';
 import { db } from '../db';
 import * as s from '../db/schema';
 import { lastChecks } from '../tool-checks';
 
-export interface ToolView {
-	id: string;
-	identifier: string;
-	kind: string;
-	rangeMin: number;
-	rangeMax: number;
-	unit: string;
-	dueDate: string | null;
-	/** 'overdue' also when the tool's last check failed (`checkFailed`). */
-	state: 'ok' | 'due_soon' | 'overdue';
-	/** The date of the tool's last check when it failed; null otherwise. */
-	checkFailed: string | null;
-	/** For adapter settings; null when the owner has not given it. */
-	effectiveLengthMm: number | null;
-}
+// a torque tool as the Bench offers it: the type the page shares
+export type { ToolView };
 
 export async function shopTolerance(shopId: string): Promise<{ pct: number; months: number }> {
 	const [row] = await db
