@@ -18,7 +18,7 @@ import { extractGrade, fluidJudgement } from './fluid';
 import { extractAdapter } from './adapter';
 import type { Adapter } from '../torque/adapter';
 import { findNumbers, type NumberSpan } from './numbers';
-import { namesNumber, readPair } from './pairs';
+import { numbersInNames, readPair } from './pairs';
 import { MAX_PHRASE_CHARS, normalizeText, tokenize } from './text';
 import { historyWords } from './history';
 import { defaultTimeZone, extractTime } from './time';
@@ -236,6 +236,25 @@ function endsWith(tokens: string[], suffixes: string[][]): number {
 interface Vocabulary {
 	steps: StepSpec[];
 	index: StepIndex;
+	/** Numbers that are part of a step's name, built on first use. */
+	numberNames?: Set<string>;
+	/** Steps by id (the first of a repeated id), built on first use. */
+	byId?: Map<string, StepSpec>;
+}
+
+function numberNamesOf(v: Vocabulary): Set<string> {
+	v.numberNames ??= numbersInNames(v.steps);
+	return v.numberNames;
+}
+
+/** The step with this id: the object itself, so `done`, units and limits are read live. */
+function stepById(v: Vocabulary, id: string | null): StepSpec | undefined {
+	if (id === null) return undefined;
+	if (!v.byId) {
+		v.byId = new Map();
+		for (const s of v.steps) if (!v.byId.has(String(s.id))) v.byId.set(String(s.id), s);
+	}
+	return v.byId.get(id);
 }
 
 const CACHE = new WeakMap<object, Vocabulary>();
@@ -461,7 +480,7 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 	let value = chooseValue(body, spans, vocabulary);
 	const pair = value
 		? readPair(body, spans, value, unitAfter(body, value.end)?.unit ?? null, (d) =>
-				namesNumber(vocabulary.steps, d)
+				numberNamesOf(vocabulary).has(d)
 			)
 		: null;
 	if (pair?.kind === 'pair') value = pair.span;
@@ -477,7 +496,7 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 			return r;
 		}
 		pickStep(r, words, vocabulary, null, 'done');
-		judgeFluid(r, steps, said.problems.length);
+		judgeFluid(r, vocabulary, said.problems.length);
 		return r;
 	}
 
@@ -501,13 +520,13 @@ function parse(text: unknown, ctx: PhraseContext, vocabulary: Vocabulary): Parse
 		return r;
 	}
 	measure(r, body, value, vocabulary, ctx);
-	judgeFluid(r, steps, said.problems.length);
+	judgeFluid(r, vocabulary, said.problems.length);
 	return r;
 }
 
 /** Sets fluidVerdict (and why it fails, its caution, or the prompt) for the matched step. */
-function judgeFluid(r: ParsedPhrase, steps: StepSpec[], saidProblems: number): void {
-	const step = r.stepId === null ? undefined : steps.find((s) => String(s.id) === r.stepId);
+function judgeFluid(r: ParsedPhrase, vocabulary: Vocabulary, saidProblems: number): void {
+	const step = stepById(vocabulary, r.stepId);
 	const j = step ? fluidJudgement(step, r.fluid) : null;
 	r.fluidVerdict = j ? j.verdict : null;
 	// an unknown grade's problem was said when it was read
@@ -594,15 +613,28 @@ const DEGREE_WORDS = new Set(['degrees', 'degree', 'deg', '°']);
 const GLUE_WORDS = new Set(['the', 'a', 'an', 'of', 'and']);
 const AFTER_VALUE_FILLERS = new Set(['done', 'ok', 'okay', 'filled', 'added', 'set']);
 
+const UNIT_WORDS = new Map<string, string | null>();
+
+/** unitFromWords, remembered: the unit table is fixed, and a phrase asks up to 7 × 3 times. */
+function unitOfWords(words: string): string | null {
+	let code = UNIT_WORDS.get(words);
+	if (code === undefined) {
+		code = unitFromWords(words);
+		if (UNIT_WORDS.size >= 4000) UNIT_WORDS.clear();
+		UNIT_WORDS.set(words, code);
+	}
+	return code;
+}
+
 /** The unit named by the words starting at token i (longest first), or null. */
 function unitAfter(tokens: string[], i: number): { unit: string; end: number } | null {
 	for (let k = Math.min(7, tokens.length - i); k >= 1; k--) {
-		const words = tokens.slice(i, i + k);
+		const last = tokens[i + k - 1] ?? '';
 		const next = tokens[i + k];
 		// "in" is the inch only where it cannot be the preposition ("1.1 in the sump")
-		if (k === 1 && words[0] === 'in' && next !== undefined && /^[a-z]/.test(next)) continue;
-		if (GLUE_WORDS.has(words[words.length - 1] ?? '')) continue;
-		const code = unitFromWords(words.join(' '));
+		if (k === 1 && last === 'in' && next !== undefined && /^[a-z]/.test(next)) continue;
+		if (GLUE_WORDS.has(last)) continue;
+		const code = unitOfWords(k === 1 ? last : tokens.slice(i, i + k).join(' '));
 		if (code) return { unit: code, end: i + k };
 	}
 	return null;

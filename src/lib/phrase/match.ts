@@ -93,6 +93,8 @@ const MIN_WORD_SIM = 0.7;
 const MIN_PAIR_SIM = 0.85;
 const FUSE_LIMIT = 40;
 const SIM_CACHE_MAX = 4000;
+/** Most said words a search reads. */
+const MAX_QUERY_TOKENS = 16;
 /** Steps whose estimate is below this are not scored (the match threshold is 0.55). */
 const MIN_ESTIMATE = 0.4;
 /** How many of the best estimates get the full score. */
@@ -104,6 +106,9 @@ export interface MatchName {
 	pairs: string[];
 	set: Set<string>;
 	hasDigits: boolean;
+	/** The tokens' and pairs' numbers in the index's word list, set when the index is built. */
+	ids: Int32Array;
+	pairIds: Int32Array;
 }
 
 export interface ScoredStep {
@@ -147,8 +152,17 @@ function nameOf(text: string): MatchName {
 			.filter((t) => /[\p{L}\p{N}]/u.test(t))
 			.map(stem);
 	}
-	return { tokens, pairs: pairsOf(tokens), set: new Set(tokens), hasDigits: tokens.some(isDigits) };
+	return {
+		tokens,
+		pairs: pairsOf(tokens),
+		set: new Set(tokens),
+		hasDigits: tokens.some(isDigits),
+		ids: NO_IDS,
+		pairIds: NO_IDS
+	};
 }
+
+const NO_IDS = new Int32Array(0);
 
 function pairsOf(tokens: string[]): string[] {
 	const pairs: string[] = [];
@@ -208,7 +222,9 @@ export class StepIndex {
 	private readonly buckets = new Map<string, string[]>();
 	private readonly fuses = new Map<string, Fuse<string>>();
 	private readonly postings = new Map<string, number[]>();
-	private readonly simCache = new Map<string, Map<string, number>>();
+	/** Each vocabulary word's number: its place in `postings`. */
+	private readonly wordIds = new Map<string, number>();
+	private readonly simCache = new Map<string, Similar>();
 	/** Shortest name (in tokens) per step, for the estimate. */
 	private readonly minLen: Int32Array;
 	// scratch space for search(), reused between calls
@@ -218,6 +234,15 @@ export class StepIndex {
 	private stamp = new Int32Array(0);
 	private seen = new Int32Array(0);
 	private allowed = new Int8Array(0);
+	/** Postings by word number. */
+	private readonly postingsById: number[][] = [];
+	/** Scratch for a search: each similar word's column in the tables below, else -1. */
+	private column = new Int32Array(0);
+	/** Per said word (row) and similar word (column): the similarity, 0 when none. */
+	private simTable = new Float64Array(0);
+	private pairTable = new Float64Array(0);
+	private readonly qBest = new Float64Array(MAX_QUERY_TOKENS);
+	private nBest = new Float64Array(0);
 	private epoch = 0;
 	private stampCounter = 0;
 
@@ -237,6 +262,17 @@ export class StepIndex {
 				}
 			}
 		});
+		let longest = 0;
+		for (const names of this.names) {
+			for (const name of names) {
+				name.ids = Int32Array.from(name.tokens, (w) => this.wordId(w));
+				name.pairIds = Int32Array.from(name.pairs, (w) => this.wordId(w));
+				longest = Math.max(longest, name.tokens.length);
+			}
+		}
+		this.nBest = new Float64Array(longest + 1);
+		for (const [w, list] of this.postings) this.postingsById[this.wordId(w)] = list;
+		this.column = new Int32Array(this.wordIds.size).fill(-1);
 		for (const w of this.postings.keys()) {
 			for (const key of bucketKeys(w)) {
 				const list = this.buckets.get(key);
@@ -244,6 +280,15 @@ export class StepIndex {
 				else this.buckets.set(key, [w]);
 			}
 		}
+	}
+
+	private wordId(w: string): number {
+		let id = this.wordIds.get(w);
+		if (id === undefined) {
+			id = this.wordIds.size;
+			this.wordIds.set(w, id);
+		}
+		return id;
 	}
 
 	private fuseFor(key: string): Fuse<string> | null {
@@ -268,6 +313,10 @@ export class StepIndex {
 
 	/** Vocabulary words similar to `word`, with their similarity. */
 	similar(word: string): Map<string, number> {
+		return this.similarTo(word).map;
+	}
+
+	private similarTo(word: string): Similar {
 		const cached = this.simCache.get(word);
 		if (cached) return cached;
 		const found = new Map<string, number>();
@@ -281,9 +330,17 @@ export class StepIndex {
 				}
 			}
 		}
+		const ids = new Int32Array(found.size);
+		const sims = new Float64Array(found.size);
+		let k = 0;
+		for (const [w, sim] of found) {
+			ids[k] = this.wordIds.get(w) ?? -1;
+			sims[k++] = sim;
+		}
+		const entry: Similar = { map: found, ids, sims };
 		if (this.simCache.size >= SIM_CACHE_MAX) this.simCache.clear();
-		this.simCache.set(word, found);
-		return found;
+		this.simCache.set(word, entry);
+		return entry;
 	}
 
 	/**
@@ -291,17 +348,11 @@ export class StepIndex {
 	 * steps considered (by index), e.g. to those measured in the said unit's kind.
 	 */
 	search(said: string[], accept?: (index: number) => boolean): ScoredStep[] {
-		const qTokens = said.slice(0, 16);
+		const qTokens = said.slice(0, MAX_QUERY_TOKENS);
 		if (qTokens.length === 0) return [];
 		const qPairs = pairsOf(qTokens);
-		const qSims = qTokens.map((w) => this.similar(w));
-		const pSims = qPairs.map((w) => this.similar(w));
-		const q: Query = {
-			tokens: qTokens,
-			sims: qSims,
-			pairSims: pSims,
-			hasDigits: qTokens.some(isDigits)
-		};
+		const qSims = qTokens.map((w) => this.similarTo(w));
+		const pSims = qPairs.map((w) => this.similarTo(w));
 
 		// Phase 1: a cheap estimate from the postings of every similar word, so that only the
 		// most promising steps get the full score (a 5,000-step vocabulary shares many words).
@@ -322,13 +373,18 @@ export class StepIndex {
 		}
 		const epoch = ++this.epoch;
 		const touched: number[] = [];
-		const units = [...qSims.map((m) => [m, 1] as const), ...pSims.map((m) => [m, 2] as const)];
-		for (const [sims, weight] of units) {
+		for (let u = 0; u < qSims.length + pSims.length; u++) {
+			const weight = u < qSims.length ? 1 : 2;
+			const { ids, sims } = (u < qSims.length ? qSims[u] : pSims[u - qSims.length]) as Similar;
 			const stamp = ++this.stampCounter;
-			for (const [w, sim] of sims) {
+			for (let m = 0; m < ids.length; m++) {
+				const sim = sims[m] as number;
 				if (weight === 2 && sim < MIN_PAIR_SIM) continue;
 				const s = sim * weight;
-				for (const i of this.postings.get(w) ?? []) {
+				const list = this.postingsById[ids[m] as number];
+				if (!list) continue;
+				for (let p = 0; p < list.length; p++) {
+					const i = list[p] as number;
 					if (this.seen[i] !== epoch) {
 						this.seen[i] = epoch;
 						this.acc[i] = 0;
@@ -363,63 +419,133 @@ export class StepIndex {
 		// equal estimates: shorter names first, as they will score higher on recall
 		estimates.sort((x, y) => y.est - x.est || x.len - y.len || x.index - y.index);
 
-		// Phase 2: the full score for the best estimates.
+		// Phase 2: the full score for the best estimates. Each said word's similarities go in a
+		// table with a column per similar word, so a name's words are looked up by index.
+		const columns: number[] = [];
+		for (const row of [...qSims, ...pSims]) {
+			for (const id of row.ids) {
+				if (id >= 0 && this.column[id] === -1) {
+					this.column[id] = columns.length;
+					columns.push(id);
+				}
+			}
+		}
+		const width = columns.length;
+		if (this.simTable.length < MAX_QUERY_TOKENS * width) {
+			this.simTable = new Float64Array(MAX_QUERY_TOKENS * width * 2);
+			this.pairTable = new Float64Array(MAX_QUERY_TOKENS * width * 2);
+		}
+		layOut(this.simTable, qSims, this.column, width);
+		layOut(this.pairTable, pSims, this.column, width);
+		const q: Query = {
+			tokens: qTokens,
+			sims: this.simTable,
+			pairSims: this.pairTable,
+			pairCount: pSims.length,
+			column: this.column,
+			width,
+			hasDigits: qTokens.some(isDigits),
+			qBest: this.qBest,
+			nBest: this.nBest
+		};
 		const out: ScoredStep[] = [];
-		for (const { index } of estimates.slice(0, FULL_SCORE_LIMIT)) {
+		const top = Math.min(estimates.length, FULL_SCORE_LIMIT);
+		for (let e = 0; e < top; e++) {
+			const index = (estimates[e] as { index: number }).index;
 			let best = 0;
 			for (const name of this.names[index] ?? []) best = Math.max(best, scoreName(name, q));
 			if (best > 0) out.push({ index, score: Math.round(best * 1000) / 1000 });
 		}
+		for (const id of columns) this.column[id] = -1;
 		out.sort((a, b) => b.score - a.score || a.index - b.index);
 		return out;
 	}
 }
 
+/** The similar words of a said word, as a map and as parallel arrays of word numbers. */
+interface Similar {
+	map: Map<string, number>;
+	ids: Int32Array;
+	sims: Float64Array;
+}
+
+/** Writes each row's similarities into `table`, row by row, a column per similar word. */
+function layOut(table: Float64Array, rows: Similar[], column: Int32Array, width: number): void {
+	table.fill(0, 0, rows.length * width);
+	for (let j = 0; j < rows.length; j++) {
+		const { ids, sims } = rows[j] as Similar;
+		for (let m = 0; m < ids.length; m++) {
+			const id = ids[m] as number;
+			if (id >= 0) table[j * width + (column[id] as number)] = sims[m] as number;
+		}
+	}
+}
+
 interface Query {
 	tokens: string[];
-	sims: Map<string, number>[];
-	pairSims: Map<string, number>[];
+	/** Row j, column c: how similar said word j is to the similar word in column c. */
+	sims: Float64Array;
+	/** The same for said words j and j + 1 run together. */
+	pairSims: Float64Array;
+	pairCount: number;
+	/** Each vocabulary word's column in the tables, or -1 when no said word is like it. */
+	column: Int32Array;
+	width: number;
 	hasDigits: boolean;
+	/** Scratch: the best match of each said word, and of each name word. */
+	qBest: Float64Array;
+	nBest: Float64Array;
 }
 
 function scoreName(name: MatchName, q: Query): number {
-	const { tokens: qTokens, sims: qSims, pairSims: pSims } = q;
-	const nT = name.tokens;
-	const qBest = new Array<number>(qTokens.length).fill(0);
-	const nBest = new Array<number>(nT.length).fill(0);
+	const { tokens: qTokens, sims, pairSims, column, width: V, qBest, nBest } = q;
+	// a name word like no said word has column -1 and similarity 0
+	const nCols = name.ids;
+	const pCols = name.pairIds;
+	const qLen = qTokens.length;
+	const nLen = nCols.length;
+	qBest.fill(0, 0, qLen);
+	nBest.fill(0, 0, nLen);
 
-	for (let j = 0; j < qTokens.length; j++) {
-		const sims = qSims[j];
-		if (!sims) continue;
-		for (let k = 0; k < nT.length; k++) {
-			const s = sims.get(nT[k] ?? '') ?? 0;
-			if (s > (qBest[j] ?? 0)) qBest[j] = s;
-			if (s > (nBest[k] ?? 0)) nBest[k] = s;
+	for (let j = 0; j < qLen; j++) {
+		const row = j * V;
+		for (let k = 0; k < nLen; k++) {
+			const c = column[nCols[k] as number] as number;
+			const s = c < 0 ? 0 : (sims[row + c] as number);
+			if (s > (qBest[j] as number)) qBest[j] = s;
+			if (s > (nBest[k] as number)) nBest[k] = s;
 		}
 		// a said word that matches two name words run together ("swingarm" ~ "swing arm")
-		for (let k = 0; k < name.pairs.length; k++) {
-			const s = sims.get(name.pairs[k] ?? '') ?? 0;
+		for (let k = 0; k < pCols.length; k++) {
+			const c = column[pCols[k] as number] as number;
+			if (c < 0) continue;
+			const s = sims[row + c] as number;
 			if (s < MIN_PAIR_SIM) continue;
-			if (s > (qBest[j] ?? 0)) qBest[j] = s;
-			if (s > (nBest[k] ?? 0)) nBest[k] = s;
-			if (s > (nBest[k + 1] ?? 0)) nBest[k + 1] = s;
+			if (s > (qBest[j] as number)) qBest[j] = s;
+			if (s > (nBest[k] as number)) nBest[k] = s;
+			if (s > (nBest[k + 1] as number)) nBest[k + 1] = s;
 		}
 	}
 	// two said words run together that match one name word ("swing arm" ~ "swingarm")
-	for (let j = 0; j < pSims.length; j++) {
-		const sims = pSims[j];
-		if (!sims) continue;
-		for (let k = 0; k < nT.length; k++) {
-			const s = sims.get(nT[k] ?? '') ?? 0;
+	for (let j = 0; j < q.pairCount; j++) {
+		const row = j * V;
+		for (let k = 0; k < nLen; k++) {
+			const c = column[nCols[k] as number] as number;
+			if (c < 0) continue;
+			const s = pairSims[row + c] as number;
 			if (s < MIN_PAIR_SIM) continue;
-			if (s > (qBest[j] ?? 0)) qBest[j] = s;
-			if (s > (qBest[j + 1] ?? 0)) qBest[j + 1] = s;
-			if (s > (nBest[k] ?? 0)) nBest[k] = s;
+			if (s > (qBest[j] as number)) qBest[j] = s;
+			if (s > (qBest[j + 1] as number)) qBest[j + 1] = s;
+			if (s > (nBest[k] as number)) nBest[k] = s;
 		}
 	}
 
-	const precision = qBest.reduce((a, b) => a + b, 0) / qTokens.length;
-	const recall = nBest.reduce((a, b) => a + b, 0) / Math.max(1, nT.length);
+	let qSum = 0;
+	for (let j = 0; j < qLen; j++) qSum += qBest[j] as number;
+	let nSum = 0;
+	for (let k = 0; k < nLen; k++) nSum += nBest[k] as number;
+	const precision = qSum / qLen;
+	const recall = nSum / Math.max(1, nLen);
 	if (precision === 0) return 0;
 	let score = 0.55 * precision + 0.45 * recall;
 

@@ -58,9 +58,14 @@ export interface TimeClause {
 }
 
 const dtfCache = new Map<string, Intl.DateTimeFormat>();
+/** The last answer per zone, by whole second: the offset depends on nothing finer. */
+const lastOffset = new Map<string, { second: number; offset: number }>();
 
 /** Minutes east of UTC for `timeZone` at `instant`; throws RangeError for an unknown zone. */
 export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
+	const second = Math.floor(instant.getTime() / 1000);
+	const last = lastOffset.get(timeZone);
+	if (last && last.second === second) return last.offset;
 	let dtf = dtfCache.get(timeZone);
 	if (!dtf) {
 		dtf = new Intl.DateTimeFormat('en-US', {
@@ -73,7 +78,10 @@ export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
 			minute: 'numeric',
 			second: 'numeric'
 		});
-		if (dtfCache.size > 50) dtfCache.clear();
+		if (dtfCache.size > 50) {
+			dtfCache.clear();
+			lastOffset.clear();
+		}
 		dtfCache.set(timeZone, dtf);
 	}
 	const p: Record<string, number> = {};
@@ -88,8 +96,9 @@ export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
 		p.minute ?? 0,
 		p.second ?? 0
 	);
-	const whole = Math.floor(instant.getTime() / 1000) * 1000;
-	return Math.round((asUtc - whole) / 60000);
+	const offset = Math.round((asUtc - second * 1000) / 60000);
+	lastOffset.set(timeZone, { second, offset });
+	return offset;
 }
 
 let zone: string | undefined;
