@@ -1,7 +1,3 @@
-import Fuse from 'fuse.js';
-import { findNumbers } from './numbers';
-import { normalizeText, stem, tokenize } from './text';
-
 /**
  * Step matching. Fuse.js finds, for each word said, the similar words in the vocabulary (the
  * words of every step label and alias, plus each adjacent pair run together so "swingarm"
@@ -10,87 +6,10 @@ import { normalizeText, stem, tokenize } from './text';
  * are ignored, and a word that contradicts the name (front against rear, cylinder 1 against
  * cylinder 2) counts against it. The index is built once per vocabulary.
  */
+import Fuse from 'fuse.js';
+import { layOut, nameOf, scoreName, type MatchName, type Query, type Similar } from './score';
+import { isDigits, MIN_PAIR_SIM, pairsOf, wordSimilarity } from './similarity';
 
-/** Words ignored on both sides, so "torqued to", "fill", "check the" never decide a match. */
-export const FILLER_WORDS: ReadonlySet<string> = new Set([
-	'torque',
-	'torqued',
-	'tightened',
-	'tighten',
-	'to',
-	'set',
-	'at',
-	'the',
-	'filled',
-	'fill',
-	'check',
-	'checked',
-	'a',
-	'an',
-	'of',
-	'for',
-	'on',
-	'is',
-	'was',
-	'and',
-	'with',
-	'it',
-	'its',
-	'i',
-	'my',
-	'um',
-	'uh',
-	'er',
-	'erm',
-	'please',
-	'measured',
-	'reading',
-	'reads',
-	'read',
-	'value',
-	'adjusted',
-	'adjust',
-	'added',
-	'topped',
-	'up',
-	'now',
-	'just',
-	'gave',
-	'got',
-	'came',
-	'out',
-	'in',
-	'spec',
-	'specification'
-]);
-
-/** Mutually exclusive qualifiers: saying one and reading the other is a contradiction. */
-const OPPOSITES: Record<string, string[]> = {
-	front: ['rear', 'back'],
-	rear: ['front'],
-	back: ['front'],
-	left: ['right', 'rh'],
-	right: ['left', 'lh'],
-	lh: ['rh', 'right'],
-	rh: ['lh', 'left'],
-	upper: ['lower'],
-	lower: ['upper'],
-	top: ['bottom'],
-	bottom: ['top'],
-	inner: ['outer'],
-	outer: ['inner'],
-	intake: ['exhaust'],
-	inlet: ['exhaust'],
-	exhaust: ['intake', 'inlet'],
-	min: ['max'],
-	max: ['min'],
-	primary: ['secondary'],
-	secondary: ['primary']
-};
-
-const MIN_WORD_SIM = 0.7;
-/** Words run together must match nearly whole: "fork" is a prefix of "forkoil", not a match. */
-const MIN_PAIR_SIM = 0.85;
 const FUSE_LIMIT = 40;
 const SIM_CACHE_MAX = 4000;
 /** Most said words a search reads. */
@@ -100,118 +19,13 @@ const MIN_ESTIMATE = 0.4;
 /** How many of the best estimates get the full score. */
 const FULL_SCORE_LIMIT = 64;
 
-export interface MatchName {
-	tokens: string[];
-	/** Adjacent token pairs run together: ['swingarm', 'armpivot']. */
-	pairs: string[];
-	set: Set<string>;
-	hasDigits: boolean;
-	/** The tokens' and pairs' numbers in the index's word list, set when the index is built. */
-	ids: Int32Array;
-	pairIds: Int32Array;
-}
-
 export interface ScoredStep {
 	index: number;
 	score: number;
 }
 
-/** Turns a label, alias or the said words into match tokens. */
-export function matchTokens(text: string): string[] {
-	return toMatchTokens(tokenize(normalizeText(String(text ?? ''))));
-}
-
-/** Match tokens from already tokenised words: numbers as digits, fillers out, plurals folded. */
-export function toMatchTokens(tokens: string[]): string[] {
-	const spans = findNumbers(tokens);
-	const out: string[] = [];
-	let i = 0;
-	let s = 0;
-	while (i < tokens.length) {
-		const span = spans[s];
-		if (span && span.start === i) {
-			out.push(span.decimal);
-			i = span.end;
-			s++;
-			continue;
-		}
-		const t = tokens[i] ?? '';
-		i++;
-		if (!/[\p{L}\p{N}]/u.test(t)) continue;
-		if (FILLER_WORDS.has(t)) continue;
-		out.push(stem(t).slice(0, 32));
-	}
-	return out;
-}
-
-function nameOf(text: string): MatchName {
-	// a name made only of filler words ("Check", "Set") keeps them
-	let tokens = matchTokens(text);
-	if (tokens.length === 0) {
-		tokens = tokenize(normalizeText(String(text ?? '')))
-			.filter((t) => /[\p{L}\p{N}]/u.test(t))
-			.map(stem);
-	}
-	return {
-		tokens,
-		pairs: pairsOf(tokens),
-		set: new Set(tokens),
-		hasDigits: tokens.some(isDigits),
-		ids: NO_IDS,
-		pairIds: NO_IDS
-	};
-}
-
-const NO_IDS = new Int32Array(0);
-
-function pairsOf(tokens: string[]): string[] {
-	const pairs: string[] = [];
-	for (let i = 0; i + 1 < tokens.length; i++) pairs.push((tokens[i] ?? '') + (tokens[i + 1] ?? ''));
-	return pairs;
-}
-
 function bucketKeys(w: string): string[] {
 	return w.length >= 2 ? ['1' + w[0], '2' + w[1]] : [];
-}
-
-const isDigits = (w: string) => /^-?[\d.]+$/.test(w);
-
-/** Damerau–Levenshtein (optimal string alignment) distance, for short words. */
-function editDistance(a: string, b: string): number {
-	const m = a.length;
-	const n = b.length;
-	if (m === 0) return n;
-	if (n === 0) return m;
-	let prev2: number[] = new Array<number>(n + 1).fill(0);
-	let prev: number[] = Array.from({ length: n + 1 }, (_, j) => j);
-	let cur: number[] = new Array<number>(n + 1).fill(0);
-	for (let i = 1; i <= m; i++) {
-		cur[0] = i;
-		for (let j = 1; j <= n; j++) {
-			const cost = a[i - 1] === b[j - 1] ? 0 : 1;
-			let v = Math.min((prev[j] ?? 0) + 1, (cur[j - 1] ?? 0) + 1, (prev[j - 1] ?? 0) + cost);
-			if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) {
-				v = Math.min(v, (prev2[j - 2] ?? 0) + 1);
-			}
-			cur[j] = v;
-		}
-		[prev2, prev, cur] = [prev, cur, prev2];
-	}
-	return prev[n] ?? Math.max(m, n);
-}
-
-/** Similarity of two words, 0..1: 1 identical, ~0.8 one typo, prefixes ("temp") count. */
-export function wordSimilarity(a: string, b: string): number {
-	if (a === b) return 1;
-	if (isDigits(a) || isDigits(b)) return 0;
-	const short = Math.min(a.length, b.length);
-	const long = Math.max(a.length, b.length);
-	if (short <= 2) return 0;
-	let sim = 1 - editDistance(a, b) / long;
-	if (short >= 3 && (a.startsWith(b) || b.startsWith(a))) {
-		sim = Math.max(sim, 0.72 + 0.2 * (short / long));
-	}
-	return sim >= MIN_WORD_SIM ? sim : 0;
 }
 
 export class StepIndex {
@@ -460,104 +274,4 @@ export class StepIndex {
 		out.sort((a, b) => b.score - a.score || a.index - b.index);
 		return out;
 	}
-}
-
-/** The similar words of a said word, as a map and as parallel arrays of word numbers. */
-interface Similar {
-	map: Map<string, number>;
-	ids: Int32Array;
-	sims: Float64Array;
-}
-
-/** Writes each row's similarities into `table`, row by row, a column per similar word. */
-function layOut(table: Float64Array, rows: Similar[], column: Int32Array, width: number): void {
-	table.fill(0, 0, rows.length * width);
-	for (let j = 0; j < rows.length; j++) {
-		const { ids, sims } = rows[j] as Similar;
-		for (let m = 0; m < ids.length; m++) {
-			const id = ids[m] as number;
-			if (id >= 0) table[j * width + (column[id] as number)] = sims[m] as number;
-		}
-	}
-}
-
-interface Query {
-	tokens: string[];
-	/** Row j, column c: how similar said word j is to the similar word in column c. */
-	sims: Float64Array;
-	/** The same for said words j and j + 1 run together. */
-	pairSims: Float64Array;
-	pairCount: number;
-	/** Each vocabulary word's column in the tables, or -1 when no said word is like it. */
-	column: Int32Array;
-	width: number;
-	hasDigits: boolean;
-	/** Scratch: the best match of each said word, and of each name word. */
-	qBest: Float64Array;
-	nBest: Float64Array;
-}
-
-function scoreName(name: MatchName, q: Query): number {
-	const { tokens: qTokens, sims, pairSims, column, width: V, qBest, nBest } = q;
-	// a name word like no said word has column -1 and similarity 0
-	const nCols = name.ids;
-	const pCols = name.pairIds;
-	const qLen = qTokens.length;
-	const nLen = nCols.length;
-	qBest.fill(0, 0, qLen);
-	nBest.fill(0, 0, nLen);
-
-	for (let j = 0; j < qLen; j++) {
-		const row = j * V;
-		for (let k = 0; k < nLen; k++) {
-			const c = column[nCols[k] as number] as number;
-			const s = c < 0 ? 0 : (sims[row + c] as number);
-			if (s > (qBest[j] as number)) qBest[j] = s;
-			if (s > (nBest[k] as number)) nBest[k] = s;
-		}
-		// a said word that matches two name words run together ("swingarm" ~ "swing arm")
-		for (let k = 0; k < pCols.length; k++) {
-			const c = column[pCols[k] as number] as number;
-			if (c < 0) continue;
-			const s = sims[row + c] as number;
-			if (s < MIN_PAIR_SIM) continue;
-			if (s > (qBest[j] as number)) qBest[j] = s;
-			if (s > (nBest[k] as number)) nBest[k] = s;
-			if (s > (nBest[k + 1] as number)) nBest[k + 1] = s;
-		}
-	}
-	// two said words run together that match one name word ("swing arm" ~ "swingarm")
-	for (let j = 0; j < q.pairCount; j++) {
-		const row = j * V;
-		for (let k = 0; k < nLen; k++) {
-			const c = column[nCols[k] as number] as number;
-			if (c < 0) continue;
-			const s = pairSims[row + c] as number;
-			if (s < MIN_PAIR_SIM) continue;
-			if (s > (qBest[j] as number)) qBest[j] = s;
-			if (s > (qBest[j + 1] as number)) qBest[j + 1] = s;
-			if (s > (nBest[k] as number)) nBest[k] = s;
-		}
-	}
-
-	let qSum = 0;
-	for (let j = 0; j < qLen; j++) qSum += qBest[j] as number;
-	let nSum = 0;
-	for (let k = 0; k < nLen; k++) nSum += nBest[k] as number;
-	const precision = qSum / qLen;
-	const recall = nSum / Math.max(1, nLen);
-	if (precision === 0) return 0;
-	let score = 0.55 * precision + 0.45 * recall;
-
-	// contradictions: "rear" said, "front" in the name; "cylinder 2" said, "cylinder 1" named
-	const nameSet = name.set;
-	for (const t of qTokens) {
-		if (nameSet.has(t)) continue;
-		const opp = OPPOSITES[t];
-		if (opp && opp.some((o) => nameSet.has(o))) score *= 0.4;
-	}
-	if (q.hasDigits && name.hasDigits && !qTokens.some((d) => isDigits(d) && nameSet.has(d))) {
-		score *= 0.4;
-	}
-	return Math.min(1, score);
 }
