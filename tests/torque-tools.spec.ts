@@ -53,6 +53,44 @@ test('the Bench works out the wrench setting for an adapter and keeps it with th
 	);
 });
 
+test('a step that calls for a crowfoot shows the wrench setting without it being said', async ({
+	page
+}) => {
+	await signIn(page, demo.tomasz);
+	await page.goto('/bench?job=1042');
+	await expect(bar(page)).toBeFocused();
+	await page.getByLabel('Torque tool in use').selectOption(await toolId('TW-01'));
+	// demo step: exhaust header nuts, 18–22 N·m, done with a 45 mm crowfoot along the wrench
+	await bar(page).fill('header nuts 20 nm');
+	const top = page.getByTestId('candidate').first();
+	// T × L / (L + E) = 20 × 310 / 355 = 17.46 N·m (the formula of US Army TM 1-1500-204-23-9's worked example)
+	await expect(top.getByTestId('preview-setting')).toHaveText('17.5 N·m');
+	await expect(top.getByTestId('preview-adapter')).toContainText('the step calls for this adapter');
+	// an adapter said in the phrase overrides the step's
+	await bar(page).fill('header nuts 20 nm crowfoot at 90');
+	await expect(page.getByTestId('candidate').first().getByTestId('preview-setting')).toHaveText(
+		'20 N·m'
+	);
+	await expect(
+		page.getByTestId('candidate').first().getByTestId('preview-adapter')
+	).not.toContainText('the step calls for');
+	// logged without saying it: the entry records the step's adapter as it records a said one
+	await bar(page).fill('header nuts 20 nm');
+	await page.keyboard.press('Enter');
+	const first = page.getByTestId('log-entry').first();
+	await expect(first.getByTestId('entry-adapter')).toHaveText('adapter 45 mm · set 17.5 N·m');
+	const stored = await entry((await first.getAttribute('data-entry-id'))!);
+	expect(stored).toMatchObject({ adapter_mm: 45, tool_length_mm: 310, wrench_setting_unit: 'N.m' });
+	expect(stored!.wrench_setting).toBeCloseTo((20 * 310) / 355, 9);
+	// leave the demo job's log as it was seen by the other tests
+	await bar(page).fill('undo');
+	await page.keyboard.press('Enter');
+	await expect(page.locator(`[data-entry-id="${stored!.id}"]`)).toHaveAttribute(
+		'data-retracted',
+		'yes'
+	);
+});
+
 test('a torque tool’s check: the failed tool names the jobs to revisit; a new check is judged', async ({
 	page
 }) => {

@@ -15,7 +15,14 @@ import {
 } from '$lib/phrase';
 import { isUuid } from '$lib/ids';
 import { calibrationDue } from '$lib/torque';
-import { adapterFromMm, signedLength, wrenchSetting } from '$lib/torque/adapter';
+import {
+	adapterFromMm,
+	adapterInUse,
+	signedLength,
+	stepAdapter,
+	wrenchSetting,
+	type AdapterDirection
+} from '$lib/torque/adapter';
 import { dimensionOf, formatQuantity } from '$lib/units';
 import type { BenchStep, EntryView, StepDefinition } from '$lib/bench/types';
 import { announceEntry } from './announce';
@@ -147,7 +154,7 @@ export async function listSteps(shopId: string, jobId: string): Promise<BenchSte
 	// the Bench, the state machine, the Jobs list and the Floor (a redo makes a step not done).
 	const rows = await db.execute(sql`
 		select st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min, st.max, st.caution,
-			st.fluid, jp.id as procedure_id, jp.name as procedure_name,
+			st.fluid, st.adapter_length_mm, st.adapter_direction, jp.id as procedure_id, jp.name as procedure_name,
 			coalesce(ss.done, false) as done, ss.latest_verdict as last_verdict
 		from job_step st
 		join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id
@@ -175,7 +182,9 @@ function toStepDefinition(r: Record<string, unknown>): StepDefinition {
 		min: r.min as number | null,
 		max: r.max as number | null,
 		caution: r.caution as string | null,
-		fluid: (r.fluid as string | null) ?? null
+		fluid: (r.fluid as string | null) ?? null,
+		adapterLengthMm: (r.adapter_length_mm as number | null) ?? null,
+		adapterDirection: (r.adapter_direction as AdapterDirection | null) ?? null
 	};
 }
 
@@ -217,7 +226,8 @@ const stepSets = new Map<string, { version: number; set: Promise<StepSet> }>();
 async function readStepSet(shopId: string, jobId: string): Promise<StepSet> {
 	const rows = await db.execute(sql`
 		select j.steps_version, st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min,
-			st.max, st.caution, st.fluid, jp.id as procedure_id, jp.name as procedure_name
+			st.max, st.caution, st.fluid, st.adapter_length_mm, st.adapter_direction, jp.id as procedure_id,
+			jp.name as procedure_name
 		from job j
 		left join (job_step st join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id)
 			on st.job_id = j.id and st.shop_id = j.shop_id
@@ -528,6 +538,8 @@ async function appendToKnownJob(
 	if (read.parsed.occurredAt) return null;
 	const step = stepOf(set.steps, read.parsed);
 	if (refusal(read.parsed, step)) return null;
+	// the step's own adapter is recorded like a said one: by the full path
+	if (step && stepAdapter(step.adapterLengthMm, step.adapterDirection)) return null;
 	const entry = newEntry(actor, jobId, input, read, step, null, now);
 	const row = await appendTogether({
 		...entry,
@@ -735,7 +747,13 @@ function newEntry(
 		input.adapterMm !== undefined && input.adapterMm !== null
 			? adapterFromMm(input.adapterMm)
 			: null;
-	const adapter = torque ? (parsed.adapter ?? picked) : null;
+	// said, else picked on the Bench, else the step's own
+	const inUse = adapterInUse(
+		parsed.adapter,
+		picked,
+		stepAdapter(step?.adapterLengthMm, step?.adapterDirection)
+	);
+	const adapter = torque ? (inUse?.adapter ?? null) : null;
 	const setting =
 		adapter && parsed.specValue
 			? wrenchSetting(parsed.specValue.value, tool?.lengthMm, adapter).setting

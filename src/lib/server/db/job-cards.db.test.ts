@@ -35,6 +35,7 @@ async function shopWithProcedure() {
 					max: 26,
 					caution: null,
 					fluid: null,
+					adapter: null,
 					part: { code: 'DPW-12', quantity: 1 }
 				},
 				{
@@ -46,6 +47,7 @@ async function shopWithProcedure() {
 					max: null,
 					caution: null,
 					fluid: null,
+					adapter: null,
 					part: null
 				}
 			]
@@ -96,6 +98,8 @@ describe('job cards', () => {
 			plusMinus: 1,
 			caution: 'new caution',
 			fluid: '',
+			adapterLengthMm: null,
+			adapterDirection: '',
 			partId: '',
 			partQuantity: null
 		});
@@ -168,6 +172,7 @@ describe('job cards', () => {
 						max: null,
 						caution: null,
 						fluid: null,
+						adapter: null,
 						part: { code: 'NOPE', quantity: 1 }
 					}
 				]
