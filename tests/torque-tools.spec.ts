@@ -4,6 +4,13 @@ import { db, entry } from './helpers/bench-db';
 
 const bar = (page: Page) => page.getByRole('combobox', { name: 'Call bar' });
 
+/** Retracts the entry just logged, leaving the demo job's log as the other tests see it. */
+async function undoEntry(page: Page, id: string) {
+	await bar(page).fill('undo');
+	await page.keyboard.press('Enter');
+	await expect(page.locator(`[data-entry-id="${id}"]`)).toHaveAttribute('data-retracted', 'yes');
+}
+
 async function toolId(identifier: string): Promise<string> {
 	const [row] = await db()`
 		select t.id from torque_tool t join shop s on s.id = t.shop_id
@@ -44,13 +51,7 @@ test('the Bench works out the wrench setting for an adapter and keeps it with th
 		'47.4 N·m'
 	);
 	await page.getByTestId('adapter-direction').selectOption('none');
-	// leave the demo job's log as it was seen by the other tests
-	await bar(page).fill('undo');
-	await page.keyboard.press('Enter');
-	await expect(page.locator(`[data-entry-id="${stored!.id}"]`)).toHaveAttribute(
-		'data-retracted',
-		'yes'
-	);
+	await undoEntry(page, stored!.id as string);
 });
 
 test('a step that calls for a crowfoot shows the wrench setting without it being said', async ({
@@ -82,13 +83,7 @@ test('a step that calls for a crowfoot shows the wrench setting without it being
 	const stored = await entry((await first.getAttribute('data-entry-id'))!);
 	expect(stored).toMatchObject({ adapter_mm: 45, tool_length_mm: 310, wrench_setting_unit: 'N.m' });
 	expect(stored!.wrench_setting).toBeCloseTo((20 * 310) / 355, 9);
-	// leave the demo job's log as it was seen by the other tests
-	await bar(page).fill('undo');
-	await page.keyboard.press('Enter');
-	await expect(page.locator(`[data-entry-id="${stored!.id}"]`)).toHaveAttribute(
-		'data-retracted',
-		'yes'
-	);
+	await undoEntry(page, stored!.id as string);
 });
 
 test('a torque tool’s check: the failed tool names the jobs to revisit; a new check is judged', async ({

@@ -4,7 +4,7 @@ import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { intakeSchema } from '$lib/schemas/job';
 import { db } from './db';
-import { makeShop } from './db/fixtures';
+import { addTorqueTool, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import { appendEntry, type Actor, type AppendResult } from './entries';
 import { createJobCard } from './job-cards';
@@ -134,19 +134,7 @@ describe("an entry on a step with its own adapter (the fixture's tool: 300 mm)",
 			.update(s.jobStep)
 			.set({ adapterLengthMm: lengthMm, adapterDirection: direction })
 			.where(eq(s.jobStep.id, f.step.id));
-		const [tool] = await db
-			.insert(s.torqueTool)
-			.values({
-				shopId: f.shop.id,
-				identifier: 'TW-1 (demo)',
-				kind: 'Type II class A click',
-				rangeMin: 40,
-				rangeMax: 200,
-				unit: 'N.m',
-				calibratedOn: '2026-06-01',
-				effectiveLengthMm: 300
-			})
-			.returning();
+		const tool = await addTorqueTool(f);
 		return { f, tool };
 	}
 
