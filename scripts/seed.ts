@@ -46,6 +46,8 @@ type StepSeed = {
 	caution?: string;
 	/** Demo value: an invented fluid spec, written the way manuals write one. */
 	fluid?: string;
+	/** Demo value: the adapter the step is done with (a crowfoot), length in mm. */
+	adapter?: { lengthMm: number; direction: 'out' | 'back' | 'square' };
 	part?: string;
 	qty?: number;
 };
@@ -229,6 +231,7 @@ const procedures: {
 				min: 18,
 				max: 22,
 				caution: C.exhaust,
+				adapter: { lengthMm: 45, direction: 'out' }, // demo value: a crowfoot past the frame
 				part: 'EXG-32',
 				qty: 1
 			},
@@ -554,6 +557,8 @@ async function main() {
 						max: st.max ?? null,
 						caution: st.caution ?? null,
 						fluid: st.fluid ?? null,
+						adapterLengthMm: st.adapter?.lengthMm ?? null,
+						adapterDirection: st.adapter?.direction ?? null,
 						partId: partId(st.part),
 						partQuantity: st.qty ?? null
 					}))
@@ -744,6 +749,8 @@ async function main() {
 							max: st.max,
 							caution: st.caution,
 							fluid: st.fluid,
+							adapterLengthMm: st.adapterLengthMm,
+							adapterDirection: st.adapterDirection,
 							partId: st.partId,
 							partQuantity: st.partQuantity
 						}))

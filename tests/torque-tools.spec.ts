@@ -1,7 +1,14 @@
-import { expect, test } from '@playwright/test';
+import { expect, test, type Page } from '@playwright/test';
 import { demo, signIn } from './helpers/auth';
 import { db, entry } from './helpers/bench-db';
 import { callBar as bar, openBench } from './helpers/bench';
+
+/** Retracts the entry just logged, leaving the demo job's log as the other tests see it. */
+async function undoEntry(page: Page, id: string) {
+	await bar(page).fill('undo');
+	await page.keyboard.press('Enter');
+	await expect(page.locator(`[data-entry-id="${id}"]`)).toHaveAttribute('data-retracted', 'yes');
+}
 
 async function toolId(identifier: string): Promise<string> {
 	const [row] = await db()`
@@ -41,13 +48,39 @@ test('the Bench works out the wrench setting for an adapter and keeps it with th
 		'47.4 N·m'
 	);
 	await page.getByTestId('adapter-direction').selectOption('none');
-	// leave the demo job's log as it was seen by the other tests
-	await bar(page).fill('undo');
-	await page.keyboard.press('Enter');
-	await expect(page.locator(`[data-entry-id="${stored!.id}"]`)).toHaveAttribute(
-		'data-retracted',
-		'yes'
+	await undoEntry(page, stored!.id as string);
+});
+
+test('a step that calls for a crowfoot shows the wrench setting without it being said', async ({
+	page
+}) => {
+	await signIn(page, demo.tomasz);
+	await page.goto('/bench?job=1042');
+	await expect(bar(page)).toBeFocused();
+	await page.getByLabel('Torque tool in use').selectOption(await toolId('TW-01'));
+	// demo step: exhaust header nuts, 18–22 N·m, done with a 45 mm crowfoot along the wrench
+	await bar(page).fill('header nuts 20 nm');
+	const top = page.getByTestId('candidate').first();
+	// T × L / (L + E) = 20 × 310 / 355 = 17.46 N·m (the formula of US Army TM 1-1500-204-23-9's worked example)
+	await expect(top.getByTestId('preview-setting')).toHaveText('17.5 N·m');
+	await expect(top.getByTestId('preview-adapter')).toContainText('the step calls for this adapter');
+	// an adapter said in the phrase overrides the step's
+	await bar(page).fill('header nuts 20 nm crowfoot at 90');
+	await expect(page.getByTestId('candidate').first().getByTestId('preview-setting')).toHaveText(
+		'20 N·m'
 	);
+	await expect(
+		page.getByTestId('candidate').first().getByTestId('preview-adapter')
+	).not.toContainText('the step calls for');
+	// logged without saying it: the entry records the step's adapter as it records a said one
+	await bar(page).fill('header nuts 20 nm');
+	await page.keyboard.press('Enter');
+	const first = page.getByTestId('log-entry').first();
+	await expect(first.getByTestId('entry-adapter')).toHaveText('adapter 45 mm · set 17.5 N·m');
+	const stored = await entry((await first.getAttribute('data-entry-id'))!);
+	expect(stored).toMatchObject({ adapter_mm: 45, tool_length_mm: 310, wrench_setting_unit: 'N.m' });
+	expect(stored!.wrench_setting).toBeCloseTo((20 * 310) / 355, 9);
+	await undoEntry(page, stored!.id as string);
 });
 
 test('a torque tool’s check: the failed tool names the jobs to revisit; a new check is judged', async ({

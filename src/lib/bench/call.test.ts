@@ -22,6 +22,8 @@ function step(over: Partial<BenchStep> & Pick<BenchStep, 'id' | 'label'>): Bench
 		max: null,
 		caution: null,
 		fluid: null,
+		adapterLengthMm: null,
+		adapterDirection: null,
 		done: false,
 		lastVerdict: null,
 		...over

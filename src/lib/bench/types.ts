@@ -1,6 +1,7 @@
 // View types the Bench page and its components share with the server, whose entries module
 // fills them: client code reads them from here, never from a server-only module.
 import type { FluidVerdict, Verdict } from '$lib/phrase';
+import type { AdapterDirection } from '$lib/torque/adapter';
 
 /** log_entry.kind and log_entry.source (the pgEnums in db/schema.ts). */
 export type EntryKind =
@@ -30,6 +31,9 @@ export interface StepDefinition {
 	caution: string | null;
 	/** The fluid spec as the manual writes it, or null. */
 	fluid: string | null;
+	/** The adapter the step is done with (a crowfoot): length in mm and how it sits, or nulls. */
+	adapterLengthMm: number | null;
+	adapterDirection: AdapterDirection | null;
 }
 
 export interface BenchStep extends StepDefinition {

@@ -14,7 +14,7 @@ import {
 } from '../oil/fluid';
 import { parseSaeGrade } from '../oil/index';
 import { isNumberWord, readNumberAt } from './numbers';
-import type { StepSpec } from './index';
+import type { StepSpec } from './types';
 
 export type FluidVerdict = 'meets' | 'fails' | 'not_stated';
 

@@ -1,7 +1,9 @@
 // Engine speeds said in pairs, as workshops say them: "thirteen fifty" for 1350 rpm (common
 // practice, like "eleven hundred" for 1100). Never keep the last number of two silently.
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { parsePhrase, type StepSpec } from './index';
+import { numbersInNames } from './pairs';
 
 // Demo values, invented for the test: idle 1300–1500 rpm; a torque step for contrast.
 const steps: StepSpec[] = [
@@ -39,5 +41,30 @@ describe('revs said in pairs', () => {
 		expect(p('idle speed 1350 rpm').quantity?.value).toBe(1350);
 		expect(p('idle fourteen hundred').quantity?.value).toBe(1400);
 		expect(p('rear axle nut 88 nm').quantity?.value).toBe(88);
+	});
+});
+
+describe('numbers in step names', () => {
+	// the rule as a pattern: a number standing alone, or after '#' or '-', then a space or the end
+	const inName = (names: string[], decimal: string) =>
+		names.some((l) => new RegExp(`(^|[\\s#-])${decimal.replace('.', '\\.')}($|\\s)`).test(l));
+
+	it('finds the same numbers as the pattern, read once per vocabulary', () => {
+		const names = ['Upper caliper screw 1234', 'Brake pad #2 thickness', 'Cylinder 1-2 gap 0.15'];
+		const set = numbersInNames(names.map((label) => ({ label })));
+		for (const decimal of ['1234', '2', '1', '0.15', '12', '34', '-2', '15', '3']) {
+			expect(set.has(decimal), decimal).toBe(inName(names, decimal));
+		}
+		fc.assert(
+			fc.property(
+				fc.array(fc.stringMatching(/^[a-z0-9 #.-]{0,12}$/), { maxLength: 4 }),
+				fc.stringMatching(/^-?\d{1,3}(\.\d{1,2})?$/),
+				(labels, decimal) => {
+					const set = numbersInNames(labels.map((label) => ({ label })));
+					expect(set.has(decimal)).toBe(inName(labels, decimal));
+				}
+			),
+			{ numRuns: 2000 }
+		);
 	});
 });

@@ -6,10 +6,25 @@
  */
 import type { NumberSpan } from './numbers';
 
-/** Whether a number is part of some step's name ("upper caliper screw 1234"). */
-export function namesNumber(steps: { label: string; aliases?: string[] }[], decimal: string) {
-	const word = new RegExp(`(^|[\\s#-])${decimal.replace('.', '\\.')}($|\\s)`);
-	return steps.some((st) => [st.label, ...(st.aliases ?? [])].some((l) => word.test(l)));
+/**
+ * The numbers that are part of some step's name ("upper caliper screw 1234", "pad #2"): each
+ * word of a label or alias, and its tail after a '#' or '-'. Built once per vocabulary, so a
+ * phrase asks a set rather than testing every name.
+ */
+export function numbersInNames(steps: { label: string; aliases?: string[] }[]): Set<string> {
+	const out = new Set<string>();
+	for (const st of steps) {
+		const names = [st.label, ...(Array.isArray(st.aliases) ? st.aliases : [])];
+		for (const name of names) {
+			for (const word of String(name).split(/\s/)) {
+				out.add(word);
+				for (let k = 0; k < word.length; k++) {
+					if (word[k] === '#' || word[k] === '-') out.add(word.slice(k + 1));
+				}
+			}
+		}
+	}
+	return out;
 }
 
 export type PairReading =

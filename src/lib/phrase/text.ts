@@ -5,11 +5,22 @@ export const MAX_PHRASE_CHARS = 400;
 /** Most tokens read from a phrase. */
 export const MAX_TOKENS = 48;
 
+const PRINTABLE_ASCII_RE = /^[\x20-\x7e]*$/;
+
 /**
  * Lower case, compatibility forms folded (full-width digits, ℃, ², ³), accents dropped,
  * dashes, quotes and unit separators unified.
  */
 export function normalizeText(text: string): string {
+	// printable ASCII needs none of the Unicode folding: only case, backquotes and '*'
+	if (PRINTABLE_ASCII_RE.test(text)) {
+		return text.toLowerCase().replace(/`/g, "'").replace(/\*/g, ' ');
+	}
+	return foldText(text);
+}
+
+/** normalizeText's full path, for any text (exported for its test). */
+export function foldText(text: string): string {
 	return text
 		.replace(/º/g, '°')
 		.normalize('NFKC')

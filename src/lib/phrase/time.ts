@@ -1,11 +1,12 @@
-import * as chrono from 'chrono-node';
 import { wordsToNumber } from './numbers';
 
 /**
  * Back-dating: "… at 10:30", "… at 3 pm", "… yesterday at 16:05", "… 5 minutes ago",
  * "… twenty minutes ago", "… half an hour ago". The clause is cut out of the phrase by a narrow
- * pattern (so "torqued at 80" is never read as a time) and resolved with chrono-node against
- * `now` in the shop's time zone.
+ * pattern (so "torqued at 80" is never read as a time) and resolved against `now` in the shop's
+ * time zone, with the zone's offset at `now`. The pattern has already read every field, so the
+ * instant is worked out directly: a general date parser costs more than the rest of the phrase
+ * (time.test.ts checks the result against chrono-node on the same clause).
  */
 
 const NUM_WORD =
@@ -19,6 +20,36 @@ const AGO_RE = new RegExp(
 const CLOCK_RE =
 	/(?:^|\s)((?:(yesterday|today)\s+)?(?:at\s+)?(?:(\d{1,2})(?::|h)(\d{2})\s*(am|pm|a\.m\.|p\.m\.)?|(\d{1,2})\s*(am|pm|a\.m\.|p\.m\.)|(\d{1,2})\s+o'?clock))(?=\s|$|[.,!?])/;
 
+const MINUTE_MS = 60_000;
+const HOUR_MS = 60 * MINUTE_MS;
+const DAY_MS = 24 * HOUR_MS;
+
+export type Meridiem = '' | 'am' | 'pm';
+
+/**
+ * The instant of a wall-clock time said today or yesterday, in a zone `offsetMinutes` east of
+ * UTC: 12 am is midnight, 12 pm noon. Null for a time no clock shows (25:00, 8:60, 13:00 pm).
+ */
+export function clockInstant(
+	now: Date,
+	offsetMinutes: number,
+	t: { yesterday: boolean; hour: number; minute: number; meridiem: Meridiem }
+): number | null {
+	let hour = t.hour;
+	if (!Number.isInteger(hour) || !Number.isInteger(t.minute) || t.minute > 59) return null;
+	if (t.meridiem) {
+		if (hour > 12) return null;
+		hour = (hour % 12) + (t.meridiem === 'pm' ? 12 : 0);
+	} else if (hour > 23) return null;
+	const local = new Date(now.getTime() + offsetMinutes * MINUTE_MS);
+	const day = Date.UTC(
+		local.getUTCFullYear(),
+		local.getUTCMonth(),
+		local.getUTCDate() - (t.yesterday ? 1 : 0)
+	);
+	return day + hour * HOUR_MS + t.minute * MINUTE_MS - offsetMinutes * MINUTE_MS;
+}
+
 export interface TimeClause {
 	/** The phrase with the time clause cut out. */
 	rest: string;
@@ -27,9 +58,14 @@ export interface TimeClause {
 }
 
 const dtfCache = new Map<string, Intl.DateTimeFormat>();
+/** The last answer per zone, by whole second: the offset depends on nothing finer. */
+const lastOffset = new Map<string, { second: number; offset: number }>();
 
 /** Minutes east of UTC for `timeZone` at `instant`; throws RangeError for an unknown zone. */
 export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
+	const second = Math.floor(instant.getTime() / 1000);
+	const last = lastOffset.get(timeZone);
+	if (last && last.second === second) return last.offset;
 	let dtf = dtfCache.get(timeZone);
 	if (!dtf) {
 		dtf = new Intl.DateTimeFormat('en-US', {
@@ -42,7 +78,10 @@ export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
 			minute: 'numeric',
 			second: 'numeric'
 		});
-		if (dtfCache.size > 50) dtfCache.clear();
+		if (dtfCache.size > 50) {
+			dtfCache.clear();
+			lastOffset.clear();
+		}
 		dtfCache.set(timeZone, dtf);
 	}
 	const p: Record<string, number> = {};
@@ -57,8 +96,9 @@ export function zoneOffsetMinutes(instant: Date, timeZone: string): number {
 		p.minute ?? 0,
 		p.second ?? 0
 	);
-	const whole = Math.floor(instant.getTime() / 1000) * 1000;
-	return Math.round((asUtc - whole) / 60000);
+	const offset = Math.round((asUtc - second * 1000) / 60000);
+	lastOffset.set(timeZone, { second, offset });
+	return offset;
 }
 
 let zone: string | undefined;
@@ -99,16 +139,13 @@ export function extractTime(text: string, now: Date, timeZone: string): TimeClau
 		problems.push(`Unknown time zone '${timeZone}'; the time was read as UTC.`);
 	}
 
-	let canonical: string;
+	let when: number | null;
 	if (ago) {
 		const amount = (ago[2] ?? '').trim();
 		const unit = ago[3] ?? 'minutes';
-		let n: number | null;
-		if (/^half an?$/.test(amount)) {
-			canonical = '30 minutes ago';
-			n = 30;
-		} else {
-			n = /^\d+$/.test(amount)
+		const n = /^half an?$/.test(amount)
+			? 30
+			: /^\d+$/.test(amount)
 				? Number(amount)
 				: /^an?$/.test(amount)
 					? 1
@@ -117,35 +154,34 @@ export function extractTime(text: string, now: Date, timeZone: string): TimeClau
 						: amount === 'a few'
 							? 3
 							: wordsToNumber(amount);
-			const unitWord = unit.startsWith('h')
-				? 'hours'
-				: unit.startsWith('s')
-					? 'seconds'
-					: 'minutes';
-			canonical = `${n ?? 0} ${unitWord} ago`;
-		}
 		if (n === null) return { rest, occurredAt: null, problems };
+		// "half an hour" is thirty minutes, whatever unit word follows it
+		const unitMs = /^half an?$/.test(amount)
+			? MINUTE_MS
+			: unit.startsWith('h')
+				? HOUR_MS
+				: unit.startsWith('s')
+					? 1000
+					: MINUTE_MS;
+		when = now.getTime() - n * unitMs;
 	} else {
-		const day = clock?.[2];
-		const hour = clock?.[3] ?? clock?.[6] ?? clock?.[8];
-		const minute = clock?.[4] ?? '00';
-		const meridiem = (clock?.[5] ?? clock?.[7] ?? '').replace(/\./g, '');
-		canonical = `${day ?? 'today'} at ${hour}:${minute}${meridiem ? ' ' + meridiem : ''}`;
+		when = clockInstant(now, offset, {
+			yesterday: clock?.[2] === 'yesterday',
+			hour: Number(clock?.[3] ?? clock?.[6] ?? clock?.[8]),
+			minute: Number(clock?.[4] ?? '00'),
+			meridiem: (clock?.[5] ?? clock?.[7] ?? '').replace(/\./g, '') as Meridiem
+		});
 	}
-
-	const ref = { instant: now, timezone: offset };
-	const date = chrono.parseDate(canonical, ref, { forwardDate: false });
-	if (!date || Number.isNaN(date.getTime())) {
+	if (when === null) {
 		problems.push(`Could not read the time '${clause}'.`);
 		return { rest, occurredAt: null, problems };
 	}
-	let when = date.getTime();
 	const explicitDay = !ago && clock?.[2] !== undefined;
 	// A clock time later than now means the same time yesterday ("at 23:50" said after midnight),
 	// unless it is only a little ahead, which is a clock difference, not a back-date.
-	if (!ago && when > now.getTime() + 60_000) {
-		if (!explicitDay && when - now.getTime() > 60 * 60_000) {
-			when -= 24 * 60 * 60_000;
+	if (!ago && when > now.getTime() + MINUTE_MS) {
+		if (!explicitDay && when - now.getTime() > HOUR_MS) {
+			when -= DAY_MS;
 		} else {
 			problems.push(`${clause} is later than now; the entry keeps the current time.`);
 			return { rest, occurredAt: null, problems };

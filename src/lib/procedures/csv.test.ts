@@ -32,6 +32,38 @@ describe('spec table CSV', () => {
 		expect(r.procedures[0].steps[1].fluid).toBe('DOT 4');
 	});
 
+	it('reads a step adapter from adapter_mm and adapter_direction, and names what is missing', () => {
+		const withAdapter = header.replace('caution,', 'caution,adapter_mm,adapter_direction,');
+		const csv = [
+			withAdapter,
+			'Brake lines (demo),,,Brake line flare nut,,N.m,16,,,,,45,square,,',
+			'Brake lines (demo),,,Union bolt,,N.m,20,,,,,50,Back,,',
+			'Brake lines (demo),,,Bleed nipple,,N.m,6,,,,,,,,'
+		].join('\n');
+		const r = readSpecCsv(csv);
+		expect(r.ok).toBe(true);
+		expect(r.procedures[0].steps.map((s) => s.adapter)).toEqual([
+			{ lengthMm: 45, direction: 'square' },
+			{ lengthMm: 50, direction: 'back' },
+			null
+		]);
+		const bad = readSpecCsv(
+			[
+				withAdapter,
+				'Brake lines (demo),,,Flare nut,,N.m,16,,,,,45,,,',
+				'Brake lines (demo),,,Union bolt,,N.m,20,,,,,,out,,',
+				'Brake lines (demo),,,Bleed nipple,,N.m,6,,,,,2000,out,,'
+			].join('\n')
+		);
+		expect(bad.ok).toBe(false);
+		expect(bad.rows.map((row) => row.problems.map((p) => p.column))).toEqual([
+			['adapter_direction'],
+			['adapter_mm'],
+			['adapter_mm']
+		]);
+		expect(bad.rows[2].problems[0].message).toBe('The adapter length is at most 1000 mm.');
+	});
+
 	it("lists every row's problems with row and column, and imports nothing", () => {
 		const csv = [
 			header,

@@ -17,6 +17,8 @@ export const csvColumns = [
 	'tolerance',
 	'caution',
 	'fluid',
+	'adapter_mm',
+	'adapter_direction',
 	'part_code',
 	'part_quantity'
 ] as const;
@@ -134,6 +136,12 @@ export function readSpecCsv(text: string): CsvResult {
 		const hours = numberOf('flat_rate_hours');
 		const partQuantity = numberOf('part_quantity');
 		const partCode = get('part_code') || null;
+		// the adapter's length and direction; the file's checks name the one missing
+		const adapterMm = numberOf('adapter_mm');
+		const adapter =
+			get('adapter_mm') || get('adapter_direction')
+				? { lengthMm: adapterMm, direction: get('adapter_direction').toLowerCase() || undefined }
+				: null;
 		if (partCode && partQuantity === null && !problems.some((p) => p.column === 'part_quantity')) {
 			problem('part_quantity', 'Give the quantity billed for the part.');
 		}
@@ -149,6 +157,7 @@ export function readSpecCsv(text: string): CsvResult {
 			max,
 			caution: get('caution') || null,
 			fluid: get('fluid') || null,
+			adapter,
 			part: partCode ? { code: partCode, quantity: partQuantity ?? 0 } : null,
 			...(tolerance !== null ? { plusMinus: tolerance } : {})
 		};
@@ -205,6 +214,8 @@ export function readSpecCsv(text: string): CsvResult {
 			max: 'max',
 			caution: 'caution',
 			fluid: 'fluid',
+			lengthMm: 'adapter_mm',
+			direction: 'adapter_direction',
 			code: 'part_code',
 			quantity: 'part_quantity',
 			aliases: 'aliases',

@@ -36,6 +36,7 @@ describe('procedure file', () => {
 			max: null,
 			caution: null,
 			fluid: null,
+			adapter: null,
 			part: null
 		});
 	});
@@ -52,6 +53,33 @@ describe('procedure file', () => {
 			problems: [{ where: 'procedures[0].steps[1].fluid' }]
 		});
 		expect(!bad.ok && bad.problems[0].message).toContain('DOT 6 is not a brake fluid class');
+	});
+
+	it('keeps a step adapter and says where a bad one is', () => {
+		const withAdapter = structuredClone(good);
+		(withAdapter.procedures[0].steps[0] as Record<string, unknown>).adapter = {
+			lengthMm: 45,
+			direction: 'back'
+		};
+		const r = readProcedureFile(JSON.stringify(withAdapter));
+		expect(r.ok && r.file.procedures[0].steps[0].adapter).toEqual({
+			lengthMm: 45,
+			direction: 'back'
+		});
+		(withAdapter.procedures[0].steps[0] as Record<string, unknown>).adapter = {
+			lengthMm: 45,
+			direction: 'sideways'
+		};
+		const bad = readProcedureFile(JSON.stringify(withAdapter));
+		expect(bad).toMatchObject({
+			ok: false,
+			problems: [
+				{
+					where: 'procedures[0].steps[0].adapter.direction',
+					message: 'The adapter direction is out, back or square.'
+				}
+			]
+		});
 	});
 
 	it('says where each problem is', () => {
@@ -86,6 +114,7 @@ describe('procedure file', () => {
 		expect(schema.title).toBe('Benchcall procedure file');
 		expect(JSON.stringify(schema)).toContain('"flatRateHours"');
 		expect(JSON.stringify(schema)).toContain('"fluid"');
+		expect(JSON.stringify(schema)).toContain('"adapter"');
 		expect((schema.required as string[]).sort()).toEqual(['format', 'procedures', 'version']);
 	});
 });
@@ -108,5 +137,32 @@ describe('step form', () => {
 		expect(r.error?.issues[0]).toMatchObject({ path: ['max'] });
 		const r2 = stepFormSchema.safeParse({ label: 'x', nominal: '3' });
 		expect(r2.error?.issues[0]).toMatchObject({ path: ['unit'], message: 'A value needs a unit.' });
+	});
+
+	it('takes an adapter as a length with its direction, and says which one is missing', () => {
+		const ok = stepFormSchema.safeParse({
+			label: 'Brake line flare nut',
+			unit: 'N.m',
+			nominal: '16',
+			adapterLengthMm: '45',
+			adapterDirection: 'square'
+		});
+		expect(ok.data).toMatchObject({ adapterLengthMm: 45, adapterDirection: 'square' });
+		const noDirection = stepFormSchema.safeParse({ label: 'x', adapterLengthMm: '45' });
+		expect(noDirection.error?.issues[0]).toMatchObject({ path: ['adapterDirection'] });
+		const noLength = stepFormSchema.safeParse({ label: 'x', adapterDirection: 'out' });
+		expect(noLength.error?.issues[0]).toMatchObject({ path: ['adapterLengthMm'] });
+		const tooLong = stepFormSchema.safeParse({
+			label: 'x',
+			adapterLengthMm: '1200',
+			adapterDirection: 'out'
+		});
+		expect(tooLong.error?.issues[0]?.message).toBe('The adapter length is at most 1000 mm.');
+		const sideways = stepFormSchema.safeParse({
+			label: 'x',
+			adapterLengthMm: '45',
+			adapterDirection: 'sideways'
+		});
+		expect(sideways.success).toBe(false);
 	});
 });

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { toStoredSpec } from '$lib/procedures/spec';
 import { isKnownUnit } from '$lib/units';
 import { parseFluidSpec } from '$lib/oil/fluid';
+import { ADAPTER_DIRECTIONS, MAX_ADAPTER_MM } from '$lib/torque/adapter';
 
 export const PROCEDURE_FILE_FORMAT = 'benchcall.procedures';
 export const PROCEDURE_FILE_VERSION = 1;
@@ -32,6 +33,15 @@ const fluidSpec = text(300, 'The fluid spec').superRefine((v, ctx) => {
 	if (problem) ctx.addIssue({ code: 'custom', message: problem });
 });
 
+const ADAPTER_HELP =
+	"An adapter the step is done with (a crowfoot on a flare nut, an extension): its length in mm from the wrench's drive to the fastener's centre, and how it sits on the wrench: out (along it, away from the hand), back (towards the hand) or square (at 90°, no correction). The Bench shows the wrench setting from it; an adapter said or picked at the bench overrides it.";
+const adapterLength = num('The adapter length')
+	.min(0, 'The adapter length cannot be negative.')
+	.max(MAX_ADAPTER_MM, `The adapter length is at most ${MAX_ADAPTER_MM} mm.`);
+const adapterDirection = z.enum(ADAPTER_DIRECTIONS, {
+	error: 'The adapter direction is out, back or square.'
+});
+
 /** One step of a procedure in the file. Values are in `unit`. */
 export const procedureFileStep = z
 	.object({
@@ -50,6 +60,11 @@ export const procedureFileStep = z
 				description:
 					'The fluid spec as the manual writes it (SAE J300 grade, API category, JASO class; or the DOT class of brake fluid).'
 			}),
+		adapter: z
+			.object({ lengthMm: adapterLength, direction: adapterDirection })
+			.nullable()
+			.default(null)
+			.meta({ description: ADAPTER_HELP }),
 		part: z
 			.object({
 				code: text(60, 'The part code').min(1, 'A part needs its price-list code.'),
@@ -208,6 +223,8 @@ export const stepFormSchema = z
 		plusMinus: optionalNumber('The ± tolerance'),
 		caution: text(2000, 'The caution').default(''),
 		fluid: fluidSpec.default(''),
+		adapterLengthMm: optionalNumber('The adapter length').pipe(adapterLength.nullable()),
+		adapterDirection: z.union([adapterDirection, z.literal('')]).default(''),
 		partId: z.union([z.uuid('Pick a part from the price list.'), z.literal('')]).default(''),
 		partQuantity: optionalNumber('The quantity')
 	})
@@ -216,6 +233,20 @@ export const stepFormSchema = z
 		if (!spec.ok) ctx.addIssue({ code: 'custom', path: [spec.field], message: spec.message });
 		if (v.unit === '' && (v.nominal !== null || v.min !== null || v.max !== null)) {
 			ctx.addIssue({ code: 'custom', path: ['unit'], message: 'A value needs a unit.' });
+		}
+		if (v.adapterLengthMm !== null && v.adapterDirection === '') {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['adapterDirection'],
+				message: 'Say how the adapter sits on the wrench.'
+			});
+		}
+		if (v.adapterLengthMm === null && v.adapterDirection !== '') {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['adapterLengthMm'],
+				message: 'Give the adapter’s length in mm (any length for one at 90°).'
+			});
 		}
 		if (v.partId && (v.partQuantity === null || v.partQuantity <= 0)) {
 			ctx.addIssue({

@@ -11,6 +11,7 @@ import {
 	type StepForm
 } from '$lib/schemas/procedure';
 import { toStoredSpec } from '$lib/procedures/spec';
+import { stepAdapter } from '$lib/torque/adapter';
 import { db, type Tx } from './db';
 import { specFields } from './db/spec-fields';
 import { part, procedure, procedureStep } from './db/schema';
@@ -68,6 +69,8 @@ export async function getProcedure(shopId: string, id: string) {
 			max: procedureStep.max,
 			caution: procedureStep.caution,
 			fluid: procedureStep.fluid,
+			adapterLengthMm: procedureStep.adapterLengthMm,
+			adapterDirection: procedureStep.adapterDirection,
 			partId: procedureStep.partId,
 			partQuantity: procedureStep.partQuantity,
 			partCode: part.code,
@@ -213,6 +216,8 @@ export async function saveStep(
 			max: spec.max,
 			caution: input.caution || null,
 			fluid: input.fluid || null,
+			adapterLengthMm: input.adapterDirection ? input.adapterLengthMm : null,
+			adapterDirection: input.adapterLengthMm !== null ? input.adapterDirection || null : null,
 			partId: input.partId || null,
 			partQuantity: input.partId ? input.partQuantity : null
 		};
@@ -346,6 +351,8 @@ export async function importProcedures(
 						max: s.max,
 						caution: s.caution,
 						fluid: s.fluid,
+						adapterLengthMm: s.adapter?.lengthMm ?? null,
+						adapterDirection: s.adapter?.direction ?? null,
 						partId: s.part ? byCode.get(s.part.code)! : null,
 						partQuantity: s.part?.quantity ?? null
 					}))
@@ -404,6 +411,7 @@ export async function exportProcedures(shopId: string, ids?: string[]): Promise<
 					max: s.max,
 					caution: s.caution,
 					fluid: s.fluid,
+					adapter: stepAdapter(s.adapterLengthMm, s.adapterDirection),
 					part: code && s.partQuantity ? { code, quantity: s.partQuantity } : null
 				}))
 		}))

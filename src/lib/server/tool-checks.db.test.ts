@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
-import { makeShop } from './db/fixtures';
+import { addTorqueTool, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import type { Actor } from './bench/job';
 import { listTools } from './bench/tools';
@@ -21,23 +21,7 @@ const post = (text: string, torqueToolId: string) => ({
 	torqueToolId
 });
 
-async function addTool(f: Fixture, over: Partial<typeof s.torqueTool.$inferInsert> = {}) {
-	const [tool] = await db
-		.insert(s.torqueTool)
-		.values({
-			shopId: f.shop.id,
-			identifier: 'TW-1 (demo)',
-			kind: 'Type II class A click',
-			rangeMin: 40,
-			rangeMax: 200,
-			unit: 'N.m',
-			calibratedOn: '2026-06-01',
-			effectiveLengthMm: 300,
-			...over
-		})
-		.returning();
-	return tool;
-}
+const addTool = addTorqueTool;
 
 // ISO 6789-1 Type II class A above 10 N·m: ±4 % (ISO 6789-1:2017, per a tool maker's summary); readings invented.
 const good = [

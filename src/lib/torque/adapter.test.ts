@@ -1,10 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import {
 	adapterFromMm,
+	adapterInUse,
 	adapterLine,
 	adapterPreview,
+	adapterWords,
 	inToolUnit,
 	signedLength,
+	stepAdapter,
 	wrenchSetting
 } from './adapter';
 
@@ -114,5 +117,68 @@ describe('the adapter on screen', () => {
 		expect(adapterLine(0, 22, 'N.m')).toBe('crowfoot at 90° · no correction');
 		expect(adapterLine(50, null, null)).toMatch(/not worked out/);
 		expect(adapterFromMm(-12)).toEqual({ lengthMm: 12, direction: 'back' });
+	});
+});
+
+describe("a step's own adapter (a crowfoot the procedure calls for)", () => {
+	// lengths in mm as Benchcall stores them: 1 in = 25.4 mm exactly (NIST SP 811 App. B.8)
+	const IN = 25.4;
+
+	it('US Army TM 1-1500-204-23-9 on a step: 300 in·lb, wrench 10 in, crowfoot 4 in → 214', () => {
+		// US Army TM 1-1500-204-23-9's worked example, with the adapter on the step, not said
+		const step = stepAdapter(4 * IN, 'out');
+		expect(step).toEqual({ lengthMm: 101.6, direction: 'out' });
+		const inUse = adapterInUse(null, null, step);
+		expect(inUse?.from).toBe('step');
+		const p = adapterPreview(
+			inUse!.adapter,
+			null,
+			{ unit: '[lbf_av].[in_i]', nominal: 300, min: null, max: null },
+			{ effectiveLengthMm: 10 * IN, unit: '[lbf_av].[in_i]' }
+		);
+		expect(p.from).toBe('spec');
+		expect(p.setting).toBeCloseTo(214.2857, 4);
+		expect(signedLength(inUse!.adapter)).toBeCloseTo(101.6, 10);
+	});
+
+	it('Robinson R66 ch. 20 on a step pointing back: 135 in·lb, L 10, E 1.5 → 158.82', () => {
+		// Robinson R66 maintenance manual ch. 20, worked example (shortening: L − E)
+		const step = stepAdapter(1.5 * IN, 'back');
+		const p = adapterPreview(
+			step!,
+			{ value: 135, unit: '[lbf_av].[in_i]' },
+			{ unit: '[lbf_av].[in_i]', nominal: null, min: 130, max: 140 },
+			{ effectiveLengthMm: 10 * IN, unit: '[lbf_av].[in_i]' }
+		);
+		expect(p.from).toBe('said');
+		expect(p.setting).toBeCloseTo(158.82, 2);
+		expect(signedLength(step!)).toBeCloseTo(-38.1, 10);
+	});
+
+	it('a said adapter overrides a picked one, and both override the step’s', () => {
+		const said = { lengthMm: 50, direction: 'out' as const };
+		const picked = { lengthMm: 30, direction: 'back' as const };
+		const step = { lengthMm: 45, direction: 'square' as const };
+		expect(adapterInUse(said, picked, step)).toEqual({ adapter: said, from: 'said' });
+		expect(adapterInUse(null, picked, step)).toEqual({ adapter: picked, from: 'picked' });
+		expect(adapterInUse(undefined, null, step)).toEqual({ adapter: step, from: 'step' });
+		expect(adapterInUse(null, null, null)).toBeNull();
+	});
+
+	it('a step without both fields, or with a length out of range, has no adapter', () => {
+		expect(stepAdapter(null, null)).toBeNull();
+		expect(stepAdapter(45, null)).toBeNull();
+		expect(stepAdapter(null, 'square')).toBeNull();
+		expect(stepAdapter(45, 'sideways')).toBeNull();
+		expect(stepAdapter(-1, 'out')).toBeNull();
+		expect(stepAdapter(1001, 'out')).toBeNull();
+		expect(stepAdapter(Number.NaN, 'out')).toBeNull();
+		// a crowfoot at 90° keeps its length, though it needs no correction (common practice)
+		expect(stepAdapter(45, 'square')).toEqual({ lengthMm: 45, direction: 'square' });
+		expect(adapterWords({ lengthMm: 45, direction: 'square' })).toBe('crowfoot 45 mm at 90°');
+		expect(adapterWords(adapterFromMm(0))).toBe('crowfoot at 90°');
+		expect(adapterWords({ lengthMm: 38.5, direction: 'back' })).toBe(
+			'adapter 38.5 mm pointing back'
+		);
 	});
 });

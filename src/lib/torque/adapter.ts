@@ -21,6 +21,44 @@ export interface Adapter {
 	direction: 'out' | 'back' | 'square';
 }
 
+export const ADAPTER_DIRECTIONS = ['out', 'back', 'square'] as const;
+export type AdapterDirection = (typeof ADAPTER_DIRECTIONS)[number];
+
+/** Longest adapter Benchcall takes (a metre); the database refuses more (drizzle/0014). */
+export const MAX_ADAPTER_MM = 1000;
+
+/**
+ * A step's adapter from its two stored fields, or null when it has none (or they do not make
+ * one: a length without a direction, a direction without a length).
+ */
+export function stepAdapter(
+	lengthMm: number | null | undefined,
+	direction: string | null | undefined
+): Adapter | null {
+	if (typeof lengthMm !== 'number' || !Number.isFinite(lengthMm)) return null;
+	if (lengthMm < 0 || lengthMm > MAX_ADAPTER_MM) return null;
+	if (!ADAPTER_DIRECTIONS.includes(direction as AdapterDirection)) return null;
+	return { lengthMm, direction: direction as AdapterDirection };
+}
+
+/** Where the adapter of a torque entry came from. */
+export type AdapterSource = 'said' | 'picked' | 'step';
+
+/**
+ * The adapter a torque entry is made with: one said in the phrase, else one picked on the
+ * Bench, else the step's own (the procedure says the step is done with it). Null when none.
+ */
+export function adapterInUse(
+	said: Adapter | null | undefined,
+	picked: Adapter | null | undefined,
+	step: Adapter | null | undefined
+): { adapter: Adapter; from: AdapterSource } | null {
+	if (said) return { adapter: said, from: 'said' };
+	if (picked) return { adapter: picked, from: 'picked' };
+	if (step) return { adapter: step, from: 'step' };
+	return null;
+}
+
 /** E for the formula: signed length along the lever, in mm. */
 export function signedLength(a: Adapter): number {
 	if (a.direction === 'square') return 0;
@@ -85,10 +123,14 @@ export function adapterFromMm(mm: number): Adapter {
 	return { lengthMm: Math.abs(mm), direction: mm < 0 ? 'back' : 'out' };
 }
 
-/** The adapter in words: "adapter 50 mm", "adapter 50 mm pointing back", "crowfoot at 90°". */
+/**
+ * The adapter in words: "adapter 50 mm", "adapter 50 mm pointing back", "crowfoot 45 mm at 90°"
+ * ("crowfoot at 90°" when its length was not given).
+ */
 export function adapterWords(a: Adapter): string {
-	if (a.direction === 'square') return 'crowfoot at 90°';
 	const len = `${formatNumber(a.lengthMm, { maxDecimals: 1 })} mm`;
+	if (a.direction === 'square')
+		return a.lengthMm > 0 ? `crowfoot ${len} at 90°` : 'crowfoot at 90°';
 	return a.direction === 'back' ? `adapter ${len} pointing back` : `adapter ${len}`;
 }
 

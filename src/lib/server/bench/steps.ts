@@ -2,6 +2,7 @@
 // them, and a per-process copy of their definitions between appends.
 import { sql } from 'drizzle-orm';
 import type { StepSpec, Verdict } from '$lib/phrase';
+import type { AdapterDirection } from '$lib/torque/adapter';
 import { formatQuantity } from '$lib/units';
 import type { BenchStep, StepDefinition } from '$lib/bench/types';
 import { toStepSpecs } from '$lib/bench/call';
@@ -13,7 +14,7 @@ export async function listSteps(shopId: string, jobId: string): Promise<BenchSte
 	// the Bench, the state machine, the Jobs list and the Floor (a redo makes a step not done).
 	const rows = await db.execute(sql`
 		select st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min, st.max, st.caution,
-			st.fluid, jp.id as procedure_id, jp.name as procedure_name,
+			st.fluid, st.adapter_length_mm, st.adapter_direction, jp.id as procedure_id, jp.name as procedure_name,
 			coalesce(ss.done, false) as done, ss.latest_verdict as last_verdict
 		from job_step st
 		join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id
@@ -41,7 +42,9 @@ function toStepDefinition(r: Record<string, unknown>): StepDefinition {
 		min: r.min as number | null,
 		max: r.max as number | null,
 		caution: r.caution as string | null,
-		fluid: (r.fluid as string | null) ?? null
+		fluid: (r.fluid as string | null) ?? null,
+		adapterLengthMm: (r.adapter_length_mm as number | null) ?? null,
+		adapterDirection: (r.adapter_direction as AdapterDirection | null) ?? null
 	};
 }
 
@@ -71,7 +74,8 @@ const stepSets = new Map<string, { version: number; set: Promise<StepSet> }>();
 async function readStepSet(shopId: string, jobId: string): Promise<StepSet> {
 	const rows = await db.execute(sql`
 		select j.steps_version, st.id, st.position, st.label, st.aliases, st.unit, st.nominal, st.min,
-			st.max, st.caution, st.fluid, jp.id as procedure_id, jp.name as procedure_name
+			st.max, st.caution, st.fluid, st.adapter_length_mm, st.adapter_direction, jp.id as procedure_id,
+			jp.name as procedure_name
 		from job j
 		left join (job_step st join job_procedure jp on jp.id = st.job_procedure_id and jp.shop_id = st.shop_id)
 			on st.job_id = j.id and st.shop_id = j.shop_id

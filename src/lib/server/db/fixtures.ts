@@ -115,3 +115,25 @@ export async function logMeasurement(
 		.returning();
 	return row;
 }
+
+/** A torque tool of the shop: an invented demo click wrench, 40–200 N·m, 300 mm to its mark. */
+export async function addTorqueTool(
+	f: Awaited<ReturnType<typeof makeShop>>,
+	over: Partial<typeof s.torqueTool.$inferInsert> = {}
+) {
+	const [tool] = await db
+		.insert(s.torqueTool)
+		.values({
+			shopId: f.shop.id,
+			identifier: 'TW-1 (demo)',
+			kind: 'Type II class A click',
+			rangeMin: 40,
+			rangeMax: 200,
+			unit: 'N.m',
+			calibratedOn: '2026-06-01',
+			effectiveLengthMm: 300,
+			...over
+		})
+		.returning();
+	return tool;
+}

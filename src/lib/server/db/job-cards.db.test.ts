@@ -36,6 +36,7 @@ async function shopWithProcedure() {
 					max: 26,
 					caution: null,
 					fluid: null,
+					adapter: null,
 					part: { code: 'DPW-12', quantity: 1 }
 				},
 				{
@@ -47,6 +48,7 @@ async function shopWithProcedure() {
 					max: null,
 					caution: null,
 					fluid: null,
+					adapter: null,
 					part: null
 				}
 			]
@@ -97,6 +99,8 @@ describe('job cards', () => {
 			plusMinus: 1,
 			caution: 'new caution',
 			fluid: '',
+			adapterLengthMm: null,
+			adapterDirection: '',
 			partId: '',
 			partQuantity: null
 		});
@@ -169,6 +173,7 @@ describe('job cards', () => {
 						max: null,
 						caution: null,
 						fluid: null,
+						adapter: null,
 						part: { code: 'NOPE', quantity: 1 }
 					}
 				]

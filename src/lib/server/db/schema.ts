@@ -261,6 +261,13 @@ const specColumns = () => ({
 	caution: text('caution'),
 	/** The fluid spec as the manual writes it ("SAE 10W-30, API SJ or higher, JASO MA", "DOT 4"). */
 	fluid: text('fluid'),
+	/**
+	 * An adapter the step is done with (a crowfoot on a flare nut): its length in mm and how it
+	 * sits on the wrench ('out', 'back', 'square'); both null when none. A said or picked adapter
+	 * overrides it.
+	 */
+	adapterLengthMm: doublePrecision('adapter_length_mm'),
+	adapterDirection: text('adapter_direction'),
 	partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
 	partQuantity: doublePrecision('part_quantity')
 });

@@ -11,6 +11,8 @@ export type SpecFields = Pick<
 	| 'max'
 	| 'caution'
 	| 'fluid'
+	| 'adapterLengthMm'
+	| 'adapterDirection'
 	| 'partId'
 	| 'partQuantity'
 >;
@@ -26,6 +28,8 @@ export function specFields(s: SpecFields): SpecFields {
 		max: s.max,
 		caution: s.caution,
 		fluid: s.fluid,
+		adapterLengthMm: s.adapterLengthMm,
+		adapterDirection: s.adapterDirection,
 		partId: s.partId,
 		partQuantity: s.partQuantity
 	};

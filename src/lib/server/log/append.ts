@@ -36,6 +36,7 @@ import { existingEntry, toEntry } from './read';
 import { retract } from './retract';
 import { announceStored, closedMeanwhileMessage } from './write';
 import { insertBatch, insertOne, type BatchRow } from './write-sql';
+import { stepAdapter } from '$lib/torque/adapter';
 
 export type AppendResult =
 	| { status: 200 | 201; entry: EntryView }
@@ -151,6 +152,8 @@ async function appendToKnownJob(
 	if (read.parsed.occurredAt) return null;
 	const step = stepOf(set.steps, read.parsed);
 	if (refusal(read.parsed, step)) return null;
+	// the step's own adapter is recorded like a said one: by the full path
+	if (step && stepAdapter(step.adapterLengthMm, step.adapterDirection)) return null;
 	const entry = newEntry(actor, jobId, input, read, step, null, now);
 	const row = await together.add({
 		...entry,

@@ -8,7 +8,13 @@ import {
 	type StepSpec,
 	type Verdict
 } from '$lib/phrase';
-import { adapterFromMm, signedLength, wrenchSetting } from '$lib/torque/adapter';
+import {
+	adapterFromMm,
+	adapterInUse,
+	signedLength,
+	stepAdapter,
+	wrenchSetting
+} from '$lib/torque/adapter';
 import { dimensionOf } from '$lib/units';
 import type { StepDefinition } from '$lib/bench/types';
 import type { Actor } from '../bench/job';
@@ -125,7 +131,13 @@ export function newEntry(
 		input.adapterMm !== undefined && input.adapterMm !== null
 			? adapterFromMm(input.adapterMm)
 			: null;
-	const adapter = torque ? (parsed.adapter ?? picked) : null;
+	// said, else picked on the Bench, else the step's own
+	const inUse = adapterInUse(
+		parsed.adapter,
+		picked,
+		stepAdapter(step?.adapterLengthMm, step?.adapterDirection)
+	);
+	const adapter = torque ? (inUse?.adapter ?? null) : null;
 	const setting =
 		adapter && parsed.specValue
 			? wrenchSetting(parsed.specValue.value, tool?.lengthMm, adapter).setting
