@@ -65,8 +65,13 @@ export class BenchVoice {
 			isCancel
 		);
 		if (out?.kind === 'check') {
-			// a note heard offline: the technician reads it and sends it by hand
-			this.#bar.check(out.text, 'Heard a note: check its words, then press Enter.');
+			// the technician reads it and sends it by hand
+			this.#bar.check(
+				out.text,
+				out.why === 'note'
+					? 'Heard a note: check its words, then press Enter.'
+					: 'Heard a value out of spec, not for sure: check it, then press Enter.'
+			);
 			return;
 		}
 		if (out?.kind !== 'confirm' && out?.kind !== 'cancel') return;

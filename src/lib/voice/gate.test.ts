@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { parsePhrase, type StepSpec } from '../phrase/index';
-import { gatePhrase, isWrongScale, MIN_CONFIDENCE } from './gate';
+import { gatePhrase, isWrongScale, MIN_CONFIDENCE, MIN_OUT_OF_SPEC_CONFIDENCE } from './gate';
 
 // Demo steps (invented demo values, not a maker's specs).
 const steps: StepSpec[] = [
@@ -128,6 +128,27 @@ describe('the confidence gate', () => {
 		expect(
 			gatePhrase({ heard: 'next', parsed, step: null, confidence: undefined as never })
 		).toMatchObject({ reason: 'low_confidence' });
+	});
+});
+
+describe('out of spec needs a surer ear, or a hand', () => {
+	// the rear axle nut's demo band is 80–96 N·m
+	it('marks an out-of-spec value heard at 0.85 unsure, and not the same value heard at 0.9', () => {
+		expect(gate('rear axle nut seventy newton metres', 0.85)).toEqual({ ok: true, unsure: true });
+		expect(gate('rear axle nut seventy newton metres', MIN_OUT_OF_SPEC_CONFIDENCE)).toEqual({
+			ok: true
+		});
+	});
+	it('takes an in-spec value at the ordinary floor', () => {
+		expect(gate('rear axle nut eighty eight newton metres', 0.8)).toEqual({ ok: true });
+	});
+	it('lets Web Speech pass its own floor for both', () => {
+		const heard = 'rear axle nut seventy newton metres';
+		const parsed = parsePhrase(heard, { steps });
+		const args = { heard, parsed, step: steps[0], confidence: 0.7 };
+		expect(gatePhrase({ ...args, minConfidence: 0.5, minOutOfSpecConfidence: 0.5 })).toEqual({
+			ok: true
+		});
 	});
 });
 

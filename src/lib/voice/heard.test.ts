@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { isCancel } from '../phrase/index';
 import type { Intent } from '../phrase/index';
-import { MIN_CONFIDENCE, type GateReason } from './gate';
+import { MIN_CONFIDENCE, MIN_OUT_OF_SPEC_CONFIDENCE, type GateReason } from './gate';
 import {
 	WEB_SPEECH_MIN_CONFIDENCE,
 	confidenceFor,
@@ -156,7 +156,8 @@ describe('decideHeard', () => {
 		const offline = { text: 'note chain worn on the rear', confidence: 0.9, offline: true };
 		expect(decideHeard(offline, okAs('note'), push)).toEqual({
 			kind: 'check',
-			text: 'note chain worn on the rear'
+			text: 'note chain worn on the rear',
+			why: 'note'
 		});
 		// a value heard offline, and a note dictated through the browser, are confirmed as before
 		expect(decideHeard({ ...offline, text: 'chain 30' }, okAs('measure'), push).kind).toBe(
@@ -165,6 +166,17 @@ describe('decideHeard', () => {
 		expect(decideHeard(h('note chain worn'), okAs('note'), push).kind).toBe('confirm');
 		// hands-free still ignores it
 		expect(decideHeard(offline, okAs('note'), free).kind).toBe('ignored');
+	});
+
+	it('an out-of-spec value the gate passed unsure goes to the call bar, hands-free too', () => {
+		const unsure = { ok: true as const, unsure: true as const, intent: 'measure' as const };
+		const heard = { text: 'rear axle nut seventy newton metres', confidence: 0.85, offline: true };
+		for (const mode of [push, free])
+			expect(decideHeard(heard, unsure, mode)).toEqual({
+				kind: 'check',
+				text: heard.text,
+				why: 'unsure_out_of_spec'
+			});
 	});
 
 	it('reads the refusal aloud with what it heard', () => {
@@ -198,7 +210,8 @@ describe('confidenceFor', () => {
 	it('offline voice: the decoder’s confidence against the gate’s own threshold', () => {
 		expect(confidenceFor({ text: 'next', confidence: 0.8, offline: true })).toEqual({
 			confidence: 0.8,
-			minConfidence: MIN_CONFIDENCE
+			minConfidence: MIN_CONFIDENCE,
+			minOutOfSpecConfidence: MIN_OUT_OF_SPEC_CONFIDENCE
 		});
 		expect(confidenceFor({ text: 'next', confidence: null, offline: true }).confidence).toBe(0);
 	});
@@ -206,11 +219,13 @@ describe('confidenceFor', () => {
 	it('Web Speech: its own threshold, and no confidence test when the engine gave none', () => {
 		expect(confidenceFor({ text: 'next', confidence: 0.4 })).toEqual({
 			confidence: 0.4,
-			minConfidence: WEB_SPEECH_MIN_CONFIDENCE
+			minConfidence: WEB_SPEECH_MIN_CONFIDENCE,
+			minOutOfSpecConfidence: WEB_SPEECH_MIN_CONFIDENCE
 		});
 		expect(confidenceFor({ text: 'next', confidence: null })).toEqual({
 			confidence: 0,
-			minConfidence: 0
+			minConfidence: 0,
+			minOutOfSpecConfidence: 0
 		});
 	});
 });

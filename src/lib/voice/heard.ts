@@ -5,7 +5,12 @@
  */
 
 import type { Intent } from '../phrase/index';
-import { MIN_CONFIDENCE, type GateReason, type GateResult } from './gate';
+import {
+	MIN_CONFIDENCE,
+	MIN_OUT_OF_SPEC_CONFIDENCE,
+	type GateReason,
+	type GateResult
+} from './gate';
 
 /** The gate's answer for one phrase, with what the phrase engine read it as. */
 export type GateAnswer = GateResult & { intent: Intent };
@@ -41,15 +46,29 @@ export interface Heard {
 export const WEB_SPEECH_MIN_CONFIDENCE = 0.5;
 
 /**
- * The confidence and threshold the gate judges a phrase by. Offline voice: its decoder's
- * confidence against the gate's own threshold. Web Speech: its confidence against
- * WEB_SPEECH_MIN_CONFIDENCE, or, when the engine gave none, no confidence test at all (the
- * value checks, the confirm window and the read-back still apply).
+ * The confidence and thresholds the gate judges a phrase by. Offline voice: its decoder's
+ * confidence against the gate's own thresholds (a surer one for out-of-spec values). Web
+ * Speech: its confidence against WEB_SPEECH_MIN_CONFIDENCE for any value (its scale is not
+ * measured here), or, when the engine gave none, no confidence test at all (the value checks,
+ * the confirm window and the read-back still apply).
  */
-export function confidenceFor(h: Heard): { confidence: number; minConfidence: number } {
-	if (h.offline) return { confidence: h.confidence ?? 0, minConfidence: MIN_CONFIDENCE };
-	if (h.confidence === null) return { confidence: 0, minConfidence: 0 };
-	return { confidence: h.confidence, minConfidence: WEB_SPEECH_MIN_CONFIDENCE };
+export function confidenceFor(h: Heard): {
+	confidence: number;
+	minConfidence: number;
+	minOutOfSpecConfidence: number;
+} {
+	if (h.offline)
+		return {
+			confidence: h.confidence ?? 0,
+			minConfidence: MIN_CONFIDENCE,
+			minOutOfSpecConfidence: MIN_OUT_OF_SPEC_CONFIDENCE
+		};
+	if (h.confidence === null) return { confidence: 0, minConfidence: 0, minOutOfSpecConfidence: 0 };
+	return {
+		confidence: h.confidence,
+		minConfidence: WEB_SPEECH_MIN_CONFIDENCE,
+		minOutOfSpecConfidence: WEB_SPEECH_MIN_CONFIDENCE
+	};
 }
 
 export type HeardOutcome =
@@ -59,9 +78,10 @@ export type HeardOutcome =
 	/**
 	 * Put in the call bar to be checked and sent by hand, never logged by itself: a note heard
 	 * by offline voice, whose grammar knows only a few dozen words besides the job's own, so a
-	 * note it hears is often not what was said (voice corpus: most of its wrong entries).
+	 * note it hears is often not what was said (voice corpus: most of its wrong entries); or a
+	 * value out of spec heard without the surer confidence such a value needs (gate.ts).
 	 */
-	| { kind: 'check'; text: string }
+	| { kind: 'check'; text: string; why: 'note' | 'unsure_out_of_spec' }
 	/** Not logged: the Bench shows and says "say it again" with what it heard. */
 	| { kind: 'say_again'; heard: string; message: string; reason: GateReason }
 	/** Hands-free only: not a command it acts on, or not heard well enough. Shown faintly. */
@@ -112,7 +132,9 @@ export function decideHeard(
 	if (answer.ok && opts.handsFree && !HANDS_FREE_INTENTS.has(answer.intent)) {
 		return { kind: 'ignored', heard: text, reason: 'not_hands_free' };
 	}
-	if (answer.ok && heard.offline && answer.intent === 'note') return { kind: 'check', text };
+	if (answer.ok && answer.unsure) return { kind: 'check', text, why: 'unsure_out_of_spec' };
+	if (answer.ok && heard.offline && answer.intent === 'note')
+		return { kind: 'check', text, why: 'note' };
 	if (answer.ok) return { kind: 'confirm', text };
 	if (
 		opts.handsFree &&
