@@ -39,6 +39,9 @@ export async function ensureBuild({ force = false } = {}) {
 	const current = existsSync(stampFile) ? readFileSync(stampFile, 'utf8') : '';
 	if (!force && current === stamp && existsSync(join(root, 'build', 'index.js'))) return false;
 	step('Building the app (vite build)');
+	// the generated tsconfig first: on a fresh clone the config's and the capture worklet's
+	// bundling read tsconfig.json, which extends it, and warned that it was missing
+	await must(join(root, 'node_modules', '.bin', 'svelte-kit'), ['sync']);
 	await must(join(root, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn']);
 	writeFileSync(stampFile, stamp);
 	return true;

@@ -17,7 +17,12 @@ export const client = postgres(url ?? 'postgres://127.0.0.1/unset', {
 	// Seconds before a lost connection is tried again. postgres.js's default grows to 20 s after
 	// a few failed tries (the count is shared by the pool), so after a short restart of the
 	// database some requests waited that long; the database is local: retry within 2 s.
-	backoff: (retries: number) => Math.min(0.1 * 2 ** retries, 2)
+	backoff: (retries: number) => Math.min(0.1 * 2 ** retries, 2),
+	// Seconds a new connection may take. The default, 30 s, let requests made while the database
+	// restarted hang for 35–39 s (test:faults: a stopped server then waited for them past its
+	// 10 s); the database is local and connects in milliseconds, so a slow connect is a failed
+	// one: CONNECT_TIMEOUT answers 503 with Retry-After (db/errors.ts) and the outbox tries again.
+	connect_timeout: 5
 });
 
 export const db = drizzle(client, { schema });
