@@ -13,6 +13,7 @@ import { parsePhrase, type StepSpec } from '../phrase/index';
 import { CaptureCore, type CapturedBlock } from './capture';
 import { createDecoder, decodePhrase, readWavForModel, useGrammar, type Decoder } from './decoder';
 import { createDenoiser, loadRnnoise, type RnnoiseModule } from './denoise';
+import { joined } from './endpoint';
 
 const dir = fileURLToPath(new URL('../../../tests/fixtures/voice/', import.meta.url));
 const BLOCK = 1600; // 100 ms at 16 kHz, as the worklet makes them
@@ -35,16 +36,6 @@ function capture(core: CaptureCore, samples: Float32Array, quantum = 128): Captu
 		out.push(...core.push(samples.subarray(at, at + quantum)));
 	return out;
 }
-
-const joined = (blocks: Float32Array[]) => {
-	const out = new Float32Array(blocks.reduce((n, b) => n + b.length, 0));
-	let at = 0;
-	for (const b of blocks) {
-		out.set(b, at);
-		at += b.length;
-	}
-	return out;
-};
 
 describe('capture worklet core', () => {
 	const speech = readWavForModel(readFileSync(dir + 'noisy-rear-axle-92-nm.wav'));

@@ -12,6 +12,7 @@ import { readWavForModel, SAMPLE_RATE } from './audio';
 import {
 	HeldEndpoint,
 	LevelEndpoint,
+	joined,
 	MAX_UTTERANCE_MS,
 	VadEndpoint,
 	type Endpoint,
@@ -39,16 +40,6 @@ function hiss(n: number, level = 0.002, seed = 7): Float32Array {
 	return out;
 }
 
-function concat(...parts: Float32Array[]): Float32Array {
-	const out = new Float32Array(parts.reduce((n, p) => n + p.length, 0));
-	let at = 0;
-	for (const p of parts) {
-		out.set(p, at);
-		at += p.length;
-	}
-	return out;
-}
-
 /** Feeds 100 ms blocks (the same samples as raw and clean, so alignment can be checked). */
 function cut(ep: Endpoint, samples: Float32Array): Utterance[] {
 	const out: Utterance[] = [];
@@ -72,13 +63,13 @@ describe.each([
 ])('%s endpoint', (_name, make) => {
 	it('cuts two phrases with a pause between them into two calls', () => {
 		const second = 1 * SAMPLE_RATE;
-		const stream = concat(
+		const stream = joined([
 			hiss(second),
 			phrase,
 			hiss(2 * second, 0.002, 9),
 			phrase,
 			hiss(second, 0.002, 11)
-		);
+		]);
 		const calls = cut(make(), stream);
 		expect(calls).toHaveLength(2);
 		for (const c of calls) {
@@ -105,7 +96,7 @@ describe('longest call', () => {
 	});
 
 	it('held key: everything until release is one call, quiet included', () => {
-		const stream = concat(hiss(8000), phrase, hiss(16000), phrase);
+		const stream = joined([hiss(8000), phrase, hiss(16000), phrase]);
 		const calls = cut(new HeldEndpoint(), stream);
 		expect(calls).toHaveLength(1);
 		expect(calls[0].raw.length).toBe(stream.length);
