@@ -227,13 +227,21 @@ test('a new deploy is picked up on the next online load; the voice model stays c
 
 	const context = await browser.newContext({ baseURL: base });
 	const page = await context.newPage();
+	// a question sent to a worker that is just being replaced gets no answer: give up after 2 s
+	// and let the poll ask again, rather than wait on it past the poll's own timeout
 	const version = () =>
 		page.evaluate(
 			() =>
 				new Promise<string>((resolve) => {
-					navigator.serviceWorker.addEventListener('message', (e) => resolve(e.data.version), {
-						once: true
-					});
+					const timer = setTimeout(() => resolve('no answer'), 2_000);
+					navigator.serviceWorker.addEventListener(
+						'message',
+						(e) => {
+							clearTimeout(timer);
+							resolve(e.data.version);
+						},
+						{ once: true }
+					);
 					navigator.serviceWorker.controller?.postMessage('version');
 				})
 		);
