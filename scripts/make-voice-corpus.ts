@@ -8,6 +8,8 @@
  *
  *   npm run voice:corpus             (everything)
  *   npm run voice:corpus -- --quick  (two voices only: a quick look while tuning)
+ *   npm run voice:corpus -- --curve  (also: every phrase by every flite voice in each noise at
+ *                                     20, 15, 10, 5 and 0 dB, for `bench:voice -- --curve`)
  *
  * Needs Debian's flite, espeak-ng and sox (`sudo apt-get install flite espeak-ng sox`).
  * Each voice × noise cell uses every phrase once, the noise type rotating phrase by phrase;
@@ -36,6 +38,8 @@ export interface CorpusItem {
 	noise: string | null;
 	/** the SNR measured after mixing, dB */
 	measuredSnr: number | null;
+	/** part of the SNR curve (`--curve`), not of the corpus the main table reads */
+	curve?: boolean;
 }
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -236,6 +240,28 @@ for (const v of voices) {
 		}
 	}
 	console.log(`${v.name}: ${texts.length} texts, clean and at 10 and 5 dB`);
+}
+
+// --- the SNR curve: each phrase in each noise at each level, so no level mixes noises unevenly
+export const CURVE_SNRS = [20, 15, 10, 5, 0];
+if (process.argv.includes('--curve')) {
+	seed = 20261205;
+	for (const v of voices.filter((v) => v.name.startsWith('flite-'))) {
+		mkdirSync(`${out}${v.name}/curve`, { recursive: true });
+		for (const t of list.phrases) {
+			const speech = readWavForModel(readFileSync(`${out}${v.name}/${t.id}.wav`));
+			for (const noise of NOISE_NAMES)
+				for (const snr of CURVE_SNRS) {
+					const file = `${v.name}/curve/${t.id}-${noise}-${snr}db.wav`;
+					const m = mix(speech, noises[noise], snr);
+					if (!existsSync(out + file)) writeWav16(out + file, m.samples, SAMPLE_RATE);
+					snrs.push(m.measured - snr);
+					const measuredSnr = Math.round(m.measured * 100) / 100;
+					items.push({ file, id: t.id, voice: v.name, snr, noise, measuredSnr, curve: true });
+				}
+		}
+		console.log(`${v.name}: the SNR curve, ${CURVE_SNRS.join(', ')} dB in each noise`);
+	}
 }
 const worst = Math.max(...snrs.map(Math.abs));
 console.log(

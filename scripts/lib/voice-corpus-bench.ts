@@ -37,6 +37,9 @@ interface Item {
 	id: string;
 	voice: string;
 	snr: number | null;
+	noise: string | null;
+	/** made by `voice:corpus -- --curve`: each phrase at every level and noise, for the curve */
+	curve?: boolean;
 }
 interface Phrase {
 	id: string;
@@ -48,6 +51,8 @@ interface Row {
 	file: string;
 	voice: string;
 	level: string;
+	/** pink, brown or impact; null for clean speech */
+	noise: string | null;
 	split: 'tune' | 'held' | 'talk';
 	right: boolean;
 	wrong: boolean;
@@ -72,6 +77,11 @@ export interface CorpusBenchOptions {
 	verbose: boolean;
 	/** use every n-th phrase only */
 	every: number;
+	/** only these levels ('clean', '10', '5', …) and noises ('pink', …); null: all */
+	levels: string[] | null;
+	noises: string[] | null;
+	/** the SNR curve (`voice:corpus -- --curve`) instead of the corpus */
+	curve: boolean;
 	/** weight of the out-of-grammar path; undefined: the grammar's default */
 	garbage: number | undefined;
 	/** write every row (file, heard, confidence, verdicts) to this JSON file */
@@ -100,6 +110,9 @@ export function corpusOptions(argv: string[]): CorpusBenchOptions {
 		split: (arg('split') as 'tune' | 'held' | undefined) ?? 'all',
 		verbose: argv.includes('--verbose'),
 		every: Number(arg('every') ?? 1),
+		levels: arg('level')?.split(',') ?? null,
+		noises: arg('noise')?.split(',') ?? null,
+		curve: argv.includes('--curve'),
 		garbage: arg('garbage') === undefined ? undefined : Number(arg('garbage')),
 		dump: arg('dump') ?? null,
 		endpoint: arg('endpoint') ?? null
@@ -155,6 +168,14 @@ export async function corpusBench(ss: SoundSwallowerModule, o: CorpusBenchOption
 	// one grammar per job: sort so each job's grammar is set once per voice
 	const items = corpus.items
 		.filter((it) => !o.only || it.voice.includes(o.only))
+		// the curve: its own files, and the clean phrases of the same voices as its top
+		.filter((it) =>
+			o.curve
+				? it.curve || (it.snr === null && it.voice.startsWith('flite-') && phrases.has(it.id))
+				: !it.curve
+		)
+		.filter((it) => !o.levels || o.levels.includes(it.snr === null ? 'clean' : String(it.snr)))
+		.filter((it) => !o.noises || !it.noise || o.noises.includes(it.noise))
 		.map((it) => {
 			const p = phrases.get(it.id);
 			return { it, p, job: p?.job ?? 1041, n: p ? p.n : Number(it.id.slice(5)) };
@@ -195,6 +216,7 @@ export async function corpusBench(ss: SoundSwallowerModule, o: CorpusBenchOption
 			file: it.file,
 			voice: it.voice,
 			level,
+			noise: it.noise,
 			again: !acted,
 			accepted: acted,
 			ms: h.ms,
@@ -267,6 +289,7 @@ function handsFreeRow(
 		file: it.file,
 		voice: it.voice,
 		level: it.snr === null ? 'clean' : `${it.snr} dB`,
+		noise: it.noise,
 		split: p ? (p.held ? 'held' : 'tune') : 'talk',
 		right: right.length > 0 && wrong.length === 0,
 		wrong: wrong.length > 0,
@@ -282,12 +305,17 @@ function handsFreeRow(
 
 function report(rows: Row[], o: CorpusBenchOptions) {
 	const voices = [...new Set(rows.map((r) => r.voice))];
-	const levels = ['clean', '10 dB', '5 dB'];
+	// clean first, then from the highest SNR down
+	const levels = [...new Set(rows.map((r) => r.level))].sort(
+		(a, b) => (b === 'clean' ? 1 : 0) - (a === 'clean' ? 1 : 0) || parseFloat(b) - parseFloat(a)
+	);
+	const noises = [...new Set(rows.map((r) => r.noise).filter((n) => n !== null))].sort();
 	const head = (s: string) => `${s} right WRONG again`;
 	console.log(
 		`\n${'voice'.padEnd(18)} ${'level'.padEnd(6)} │ ${head('tune:')} │ ${head('held:')} │ p50 ms p95 ms cpu95`
 	);
 	const line = (name: string, level: string, rs: Row[]) => {
+		if (!rs.length) return;
 		const t = rs.filter((r) => r.split === 'tune');
 		const h = rs.filter((r) => r.split === 'held');
 		const ms = rs.map((r) => r.ms).sort((a, b) => a - b);
@@ -321,6 +349,17 @@ function report(rows: Row[], o: CorpusBenchOptions) {
 			calls.filter((r) => r.level === l)
 		);
 	line('everything', 'all', calls);
+	// the same phrase at one level meets one noise only, so a split's level mixes noises unevenly:
+	// per noise, the figures compare
+	console.log('─'.repeat(96));
+	for (const fam of ['flite', 'espeak'])
+		for (const n of noises)
+			for (const l of levels.filter((l) => l !== 'clean'))
+				line(
+					`${fam} ${n}`,
+					l,
+					calls.filter((r) => r.voice.startsWith(fam) && r.level === l && r.noise === n)
+				);
 	const talk = rows.filter((r) => r.split === 'talk');
 	if (talk.length) {
 		console.log('\nshop talk (hands-free false accepts: hands-free would act on it)');
