@@ -17,7 +17,10 @@ export default defineConfig({
 					name: 'unit',
 					environment: 'node',
 					include: ['src/**/*.test.ts'],
-					exclude: ['src/**/*.db.test.ts']
+					exclude: ['src/**/*.db.test.ts'],
+					// the voice tests decode speech (RNNoise and the recogniser, 1–3 s a phrase on a
+					// loaded 2-core machine): a slow machine is not a failure
+					testTimeout: 30_000
 				}
 			},
 			{

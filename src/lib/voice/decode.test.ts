@@ -28,6 +28,8 @@ interface Phrase {
 	unit: string | null;
 	verdict: string | null;
 	noise?: boolean;
+	fluid?: string;
+	fluidVerdict?: string;
 }
 type FixtureStep = Omit<StepSpec, 'id'>;
 
@@ -113,6 +115,11 @@ describe('spoken phrases', () => {
 				expect(r.quantity?.value ?? null, heard).toBe(p.value);
 				expect(r.quantity?.unit ?? null, heard).toBe(p.unit);
 				expect(r.verdict, heard).toBe(p.verdict);
+				// the grade said after the unit (grammar.ts), judged apart from the quantity
+				if (p.fluid) {
+					expect(r.fluid, heard).toBe(p.fluid);
+					expect(r.fluidVerdict, heard).toBe(p.fluidVerdict);
+				}
 			}
 			row.ok = true;
 		}, 30_000);

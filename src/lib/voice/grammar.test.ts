@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { wordsToNumber } from '../phrase/index';
+import { parsePhrase, wordsToNumber } from '../phrase/index';
 import { unitFromWords } from '../units/index';
 import {
 	SPOKEN_UNITS,
 	buildGrammar,
+	gradePhrases,
 	numberWords,
 	pronounce,
 	spokenWords,
@@ -127,7 +128,7 @@ describe('buildGrammar', () => {
 		expect(g.jsgf).toContain(
 			'<valuename> = (rear axle nut) | (axle nut) | (rear wheel spindle) | (engine oil fill) | oil'
 		);
-		expect(g.jsgf).toMatch(/^<unit> = .*\(newton metres\).*litres.*\(r p m\)/m);
+		expect(g.jsgf).toMatch(/^<valueunit> = .*\(newton metres\).*litres.*\(r p m\)/m);
 		expect(g.jsgf).not.toMatch(/newton centimetres|volts|kilopascals/);
 		// a check step is done, never given a value
 		expect(g.jsgf).toContain('<checkname> (<donetail> | <parttail>)');
@@ -137,13 +138,67 @@ describe('buildGrammar', () => {
 		}
 		expect(g.jsgf).toMatch(/<prefix> = .*spec.*\(mark done\).*\(fitted new\)/);
 		expect(g.jsgf).toContain(
-			'<call> = <valuename> (<number> [<unit>] | <donetail> | <parttail>) | <checkname> ('
+			'<call> = <valuename> (<number> [<valueunit>] | <donetail> | <parttail>) | <checkname> ('
 		);
 		expect(g.jsgf).toContain('| <prefix> <name> | note <noteword>+');
 		expect(g.jsgf).toContain('<number> = <whole> [<decimals>] | <decimals>;');
 		expect(g.jsgf).toContain('<decimals> = point <digit> [<digit> [<digit>]];');
 		expect(g.jsgf).toContain('(hundred | thousand [<one> hundred]) [[and] <below100>]');
 		expect(g.missing).toEqual([]);
+	});
+	it('lets a fill with a fluid spec be given its grade after the unit', () => {
+		const withFluid = [
+			steps[0],
+			{ ...steps[1], fluid: 'SAE 10W-40, API SL or higher, JASO MA2' },
+			{ label: 'Front brake fluid', aliases: [], unit: 'mL', fluid: 'DOT 4' }
+		];
+		const g = buildGrammar({ steps: withFluid }, () => 'AH');
+		expect(g.jsgf).toContain(
+			'<fluidname> (<number> [<fluidunit> [<grade>]] | <donetail> | <parttail>)'
+		);
+		expect(g.jsgf).toContain('<fluidname> = (engine oil fill) | oil | (front brake fluid);');
+		// the torque step keeps its own units only, the fills theirs
+		expect(g.jsgf).toMatch(/^<valueunit> = \(newton metres\)[^;]*;$/m);
+		expect(g.jsgf).not.toMatch(/^<valueunit> = [^;]*litres/m);
+		expect(g.jsgf).toMatch(/^<fluidunit> = [^;]*litres[^;]*millilitres/m);
+		expect(g.jsgf).toMatch(/^<gradepart> = .*\(ten w forty\).*\(api s l\).*\(jaso m a two\)/m);
+		expect(g.jsgf).toContain('(dot five point one)');
+		// no grade words in a job without a fluid spec
+		expect(buildGrammar({ steps }, () => 'AH').jsgf).not.toContain('<grade>');
+	});
+	it('says each grade so the phrase engine reads it back (SAE J300, API 1509, JASO T 903, FMVSS 116)', () => {
+		for (const [label, spec, unit, said] of [
+			['Engine oil fill', 'SAE 10W-40, API SL or higher, JASO MA2', 'L', 'one point one litres'],
+			['Front brake fluid', 'DOT 4', 'mL', 'one hundred millilitres']
+		]) {
+			const fill = [{ id: 'fill', label, unit, fluid: spec }];
+			const phrases = gradePhrases([spec]);
+			expect(phrases.length, spec).toBeGreaterThan(3);
+			// one, two and three parts after the unit
+			const calls = phrases.flatMap((g) => [
+				`${label} ${said} ${g}`,
+				// an oil's grade has up to three parts (viscosity, API, JASO); a brake fluid's one
+				...(unit === 'L' ? phrases.slice(0, 8).map((h) => `${label} ${said} ${g} ${h}`) : [])
+			]);
+			for (const call of calls) {
+				const r = parsePhrase(call, { steps: fill });
+				expect(r.stepId, call).toBe('fill');
+				expect(r.quantity?.value, call).toBe(unit === 'L' ? 1.1 : 100);
+				expect(r.fluid, call).not.toBeNull();
+				expect(r.fluidVerdict, call).not.toBe('not_stated');
+				expect(r.problems.join(' '), call).not.toMatch(/not a (grade|class) .*known|unknown/i);
+			}
+		}
+		// worked cases: 10W-40 is a J300 grade the spec lists and JASO T 903's MA2 meets MA2;
+		// MB never meets MA (common practice: the wet clutch slips)
+		const oil = [{ id: 'oil', label: 'Engine oil fill', unit: 'L', fluid: 'SAE 10W-40, JASO MA2' }];
+		const r = parsePhrase('engine oil fill one point one litres ten w forty jaso m a two', {
+			steps: oil
+		});
+		expect(r.fluid).toBe('SAE 10W-40 · JASO MA2');
+		expect(r.fluidVerdict).toBe('meets');
+		const mb = parsePhrase('engine oil fill one point one litres jaso m b', { steps: oil });
+		expect(mb.fluidVerdict).toBe('fails');
 	});
 	it('has an out-of-grammar path of single phones beside the calls, unless told not to', () => {
 		const g = buildGrammar({ steps }, lookup);

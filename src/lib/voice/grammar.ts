@@ -13,6 +13,8 @@ export interface GrammarStep {
 	label: string;
 	aliases?: string[];
 	unit?: string | null;
+	/** The fluid spec as the manual writes it ("SAE 10W-40, JASO MA2", "DOT 4"). */
+	fluid?: string | null;
 }
 
 export interface GrammarInput {
@@ -154,6 +156,28 @@ const NOTE_WORDS = (
 	'low high ok good needs check customer told seal gasket hose cable bolt nut washer'
 ).split(' ');
 
+// --- fluid grades -------------------------------------------------------------------------------
+
+/**
+ * How a grade is said, by the families a job's fluid specs name: SAE J300 viscosity grades
+ * ("ten w forty"), API S service categories (API 1509: "api s l"), JASO T 903 classes
+ * ("jaso m a two") and FMVSS 116 brake fluid classes ("dot five point one"), up to three parts
+ * after the quantity's unit: before the value, "ten w forty one point one" would read as 41.1. The phrase
+ * engine reads them (`phrase/fluid.ts`) and judges them against the step's spec.
+ */
+export function gradePhrases(specs: readonly string[]): string[] {
+	const text = specs.join(' ').toUpperCase();
+	const out: string[] = [];
+	if (/\d+W-\d+|SAE/.test(text)) {
+		for (const w of [0, 5, 10, 15, 20, 25])
+			for (const h of [20, 30, 40, 50, 60]) out.push(`${numberWords(w)} w ${numberWords(h)}`);
+	}
+	if (/API/.test(text)) out.push(...'g h j l m n p'.split(' ').map((c) => `api s ${c}`));
+	if (/JASO/.test(text)) out.push('jaso m a', 'jaso m a one', 'jaso m a two', 'jaso m b');
+	if (/DOT/.test(text)) out.push('dot three', 'dot four', 'dot five', 'dot five point one');
+	return out;
+}
+
 // --- words and pronunciations -------------------------------------------------------------------
 
 /** Lower-case words of a label: letters and apostrophes; digits said as numbers. */
@@ -261,10 +285,14 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 	// of <number> into a copy of its own, and one group a unit doubled the decode time (CPU p50
 	// 198 → 367 ms a phrase on job 1041). Step and part names still make one list for "spec …",
 	// "done …" and "new …" (the phrase engine, not the grammar, tells a step from a part).
+	// A fill with a fluid spec is a third group: its grade may follow the value.
 	const groups = new Map<string, { names: Set<string>; units: Set<string>; value: boolean }>();
 	const jobUnits = input.steps.flatMap((s) => (s.unit ? [s.unit] : []));
+	const grades = keep(
+		gradePhrases(input.steps.flatMap((s) => (s.unit && s.fluid ? [s.fluid] : [])))
+	);
 	for (const s of input.steps) {
-		const key = s.unit ? 'value' : 'check';
+		const key = s.unit ? (s.fluid && grades.size ? 'fluid' : 'value') : 'check';
 		const g = groups.get(key) ?? { names: new Set<string>(), units: new Set(), value: !!s.unit };
 		for (const u of keep(stepUnitPhrases(s, jobUnits))) g.units.add(u);
 		for (const n of keep([s.label, ...(s.aliases ?? [])])) g.names.add(n);
@@ -293,11 +321,20 @@ export function buildGrammar(input: GrammarInput, lookup: Lookup): VoiceGrammar 
 	const calls: string[] = [];
 	for (const [key, g] of groups) {
 		// a step with no unit is a check: it is done, never given a value
-		const unit = g.units.size ? ' [<unit>]' : '';
-		const value = g.value ? `<number>${unit} | ` : '';
+		const unit = g.units.size ? ` [<${key}unit>]` : '';
+		// a grade only after the unit: "one point one five w thirty" would read as 1.15
+		const value = !g.value
+			? ''
+			: key === 'fluid'
+				? `<number> [<${key}unit> [<grade>]] | `
+				: `<number>${unit} | `;
 		calls.push(`<${key}name> (${value}<donetail> | <parttail>)`);
 		groupRules.push(`<${key}name> = ${alternatives(g.names)};`);
-		if (g.units.size) groupRules.push(`<unit> = ${alternatives(g.units)};`);
+		if (g.units.size) groupRules.push(`<${key}unit> = ${alternatives(g.units)};`);
+	}
+	if (groups.has('fluid')) {
+		groupRules.push('<grade> = <gradepart> [<gradepart> [<gradepart>]];');
+		groupRules.push(`<gradepart> = ${alternatives(grades)};`);
 	}
 	if (partsOnly.length) {
 		calls.push('<partname> <parttail>');
