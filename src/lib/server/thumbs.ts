@@ -1,10 +1,15 @@
-// Downscaled copies of photos (sharp), kept next to each photo as `<shop>/<id>.thumb`: made when
-// the photo is stored, so an evidence pack with hundreds of photos only reads small files. Photos
-// stored before copies existed (or whose copy failed) are shrunk when a pack first needs them, or
-// ahead of time by `npm run photos:thumbs`.
+// Downscaled copies of photos (sharp), kept next to each photo as `<shop>/<id>.thumb` and recorded
+// in `attachment.thumb_key` with the original's SHA-256, so an evidence pack with hundreds of
+// photos reads small files only and knows which photos have a copy without probing storage.
+// The copy is made when the photo is stored (photos.ts); a copy that failed, and photos stored
+// before copies were recorded, are made by the background backfill (thumbs-backfill.ts) or by
+// the first pack that needs them, within the pack's time budget.
+// Relative imports only: scripts (photos:thumbs, bench:evidence) use this outside SvelteKit.
+import { createHash } from 'node:crypto';
 import { availableParallelism } from 'node:os';
+import type { Sql } from 'postgres';
 import sharp from 'sharp';
-import type { FileStorage } from './storage';
+import type { FileStorage } from './storage-disk';
 
 /** Pixels on a photo's long side in the copy: enough to see a witness mark or a leak. */
 export const PHOTO_LONG_SIDE = 640;
@@ -15,6 +20,16 @@ export const PHOTO_LONG_SIDE = 640;
  */
 export const SHRINK_POOL = Math.min(availableParallelism(), 4) + 1;
 
+/** Failed tries after which the background backfill leaves a photo alone (a pack still tries). */
+export const MAX_COPY_TRIES = 3;
+
+/**
+ * Milliseconds from the start of a pack after which it starts no more copies: the goal is the
+ * whole pack within 10 s, and after this the copies in flight (a pool of at most SHRINK_POOL,
+ * 50–300 ms each) and drawing the rest from kept copies (about 2 s at load 4) must still fit.
+ */
+export const PACK_COPY_BUDGET_MS = 6000;
+
 // A photo is shrunk once and its copy kept, so libvips' operation cache would only hold memory.
 sharp.cache(false);
 
@@ -23,10 +38,34 @@ export function thumbKeyOf(storageKey: string): string {
 	return storageKey.replace(/\.[a-z0-9]{1,5}$/, '.thumb');
 }
 
+/** SHA-256 of a file's bytes, hex (FIPS 180-4, through node:crypto). */
+export function sha256Hex(bytes: Uint8Array): string {
+	return createHash('sha256').update(bytes).digest('hex');
+}
+
+/** A photo row as the pack and the backfill read it. */
+export interface PhotoCopyRow {
+	id: string;
+	storageKey: string;
+	/** The recorded copy, or null: none yet (or it failed). */
+	thumbKey: string | null;
+	sha256: string | null;
+}
+
 export type SmallPhoto =
-	| { ok: true; bytes: Buffer; made: boolean }
-	/** `missing`: no file under the key; `unreadable`: a file sharp cannot decode (damaged, HEIC…) */
-	| { ok: false; reason: 'missing' | 'unreadable' };
+	| { ok: true; bytes: Buffer; made: boolean; sha256: string | null }
+	/**
+	 * `missing`: no file under the key; `unreadable`: a file sharp cannot decode (damaged, HEIC…);
+	 * `later`: no copy yet and the pack's time budget is spent (the original is kept as it is).
+	 */
+	| { ok: false; reason: 'missing' | 'unreadable' | 'later'; sha256: string | null };
+
+/** What a look at one photo found, for `recordCopy`; null when the row already says it all. */
+export interface CopyRecord {
+	thumbKey: string | null;
+	sha256: string | null;
+	failed: boolean;
+}
 
 async function shrink(bytes: Uint8Array): Promise<Buffer> {
 	// autoOrient in the constructor (not .rotate() before .resize()) keeps libjpeg's
@@ -37,46 +76,142 @@ async function shrink(bytes: Uint8Array): Promise<Buffer> {
 		.toBuffer();
 }
 
+const read = (storage: FileStorage, key: string) => storage.get(key).catch(() => null);
+
 /**
- * The downscaled JPEG of a stored photo: the kept copy, or made now and kept (a phone photo costs
- * 50–65 ms of CPU, nearly all of it reading the JPEG's entropy-coded data). Never throws.
+ * Makes a photo's copy from its original bytes and keeps it. `thumbKey` is null when the copy
+ * could not be stored (it is still returned to draw now).
  */
-export async function smallPhoto(storage: FileStorage, key: string): Promise<SmallPhoto> {
-	const thumbKey = thumbKeyOf(key);
-	const kept = await storage.get(thumbKey).catch(() => null);
-	if (kept) return { ok: true, bytes: Buffer.from(kept), made: false };
-	const original = await storage.get(key).catch(() => null);
-	if (!original) return { ok: false, reason: 'missing' };
+export async function makeCopy(
+	storage: FileStorage,
+	storageKey: string,
+	original: Uint8Array
+): Promise<{ ok: true; small: Buffer; thumbKey: string | null } | { ok: false }> {
 	let small: Buffer;
 	try {
 		small = await shrink(original);
 	} catch {
-		return { ok: false, reason: 'unreadable' };
+		return { ok: false };
 	}
-	await storage.put(thumbKey, small).catch(() => {});
-	return { ok: true, bytes: small, made: true };
-}
-
-/** Makes the copy at upload time; a failure only means the pack makes it later. */
-export async function keepThumb(storage: FileStorage, key: string): Promise<void> {
-	await smallPhoto(storage, key);
+	const thumbKey = thumbKeyOf(storageKey);
+	const kept = await storage.put(thumbKey, small).then(
+		() => true,
+		() => false
+	);
+	return { ok: true, small, thumbKey: kept ? thumbKey : null };
 }
 
 /**
- * The photos' small copies in the order of `keys`, at most `pool` being read or shrunk at a time
- * (sharp works off the main thread, so these run on all cores while the caller draws).
+ * The downscaled JPEG of a stored photo: its recorded copy, a copy kept before copies were
+ * recorded, or made now and kept (a phone photo costs 50–65 ms of CPU, nearly all of it reading
+ * the JPEG's entropy-coded data) unless `deadline` (ms since the epoch) has passed. Also the
+ * original's SHA-256 when the row has none. Never throws.
+ */
+export async function smallPhoto(
+	storage: FileStorage,
+	row: PhotoCopyRow,
+	deadline = Infinity
+): Promise<{ photo: SmallPhoto; record: CopyRecord | null }> {
+	const probe = row.thumbKey ?? thumbKeyOf(row.storageKey);
+	const kept = await read(storage, probe);
+	if (kept) {
+		const bytes = Buffer.from(kept);
+		if (row.sha256 && row.thumbKey) {
+			return { photo: { ok: true, bytes, made: false, sha256: row.sha256 }, record: null };
+		}
+		const original = row.sha256 ? null : await read(storage, row.storageKey);
+		const sha256 = row.sha256 ?? (original ? sha256Hex(original) : null);
+		return {
+			photo: { ok: true, bytes, made: false, sha256 },
+			record: { thumbKey: probe, sha256, failed: false }
+		};
+	}
+	const original = await read(storage, row.storageKey);
+	if (!original) {
+		return {
+			photo: { ok: false, reason: 'missing', sha256: row.sha256 },
+			record: { thumbKey: null, sha256: null, failed: true }
+		};
+	}
+	const sha256 = row.sha256 ?? sha256Hex(original);
+	if (Date.now() >= deadline) {
+		return {
+			photo: { ok: false, reason: 'later', sha256 },
+			record: row.sha256 ? null : { thumbKey: null, sha256, failed: false }
+		};
+	}
+	const copy = await makeCopy(storage, row.storageKey, original);
+	if (!copy.ok) {
+		return {
+			photo: { ok: false, reason: 'unreadable', sha256 },
+			record: { thumbKey: null, sha256, failed: true }
+		};
+	}
+	return {
+		photo: { ok: true, bytes: copy.small, made: true, sha256 },
+		record: { thumbKey: copy.thumbKey, sha256, failed: copy.thumbKey === null }
+	};
+}
+
+/** Writes what a look at a photo found: the copy and hash once known, a failed try counted. */
+export async function recordCopy(sql: Sql, row: PhotoCopyRow, rec: CopyRecord): Promise<void> {
+	await sql`
+		update attachment set
+			thumb_key = coalesce(${rec.thumbKey}::text, thumb_key),
+			sha256 = coalesce(sha256, ${rec.sha256}::text),
+			thumb_tries = least(thumb_tries + ${rec.failed ? 1 : 0}, 32000)
+		where id = ${row.id} and storage_key = ${row.storageKey}`;
+}
+
+/** `smallPhoto` and, with a client, its finding recorded (a failed write only means a retry). */
+export async function lookAndRecord(
+	storage: FileStorage,
+	row: PhotoCopyRow,
+	opts: { deadline?: number; sql?: Sql } = {}
+): Promise<SmallPhoto> {
+	const { photo, record } = await smallPhoto(storage, row, opts.deadline);
+	if (record && opts.sql) await recordCopy(opts.sql, row, record).catch(() => {});
+	return photo;
+}
+
+/**
+ * The photos' small copies in the order of `rows`, at most `pool` being read or shrunk at a time
+ * (sharp works off the main thread, so these run on all cores while the caller draws). With
+ * `sql`, copies made and hashes found are recorded; past `deadline` no new copy is started.
  */
 export async function* smallPhotos(
 	storage: FileStorage,
-	keys: string[],
-	pool = SHRINK_POOL
+	rows: PhotoCopyRow[],
+	opts: { pool?: number; deadline?: number; sql?: Sql } = {}
 ): AsyncGenerator<SmallPhoto> {
+	const pool = opts.pool ?? SHRINK_POOL;
 	const queue: Promise<SmallPhoto>[] = [];
 	let next = 0;
-	while (next < keys.length && queue.length < pool) queue.push(smallPhoto(storage, keys[next++]));
+	const start = () => queue.push(lookAndRecord(storage, rows[next++], opts));
+	while (next < rows.length && queue.length < pool) start();
 	while (queue.length > 0) {
 		const photo = await queue.shift()!;
-		if (next < keys.length) queue.push(smallPhoto(storage, keys[next++]));
+		if (next < rows.length) start();
 		yield photo;
+	}
+}
+
+/**
+ * Fills in (and records) the SHA-256 of each photo whose row has none, reading the originals two
+ * at a time (a 3 MB photo: a few ms). A photo whose file is missing keeps null.
+ */
+export async function hashMissing(sql: Sql, storage: FileStorage, rows: PhotoCopyRow[]) {
+	const todo = rows.filter((r) => !r.sha256);
+	for (let i = 0; i < todo.length; i += 2) {
+		await Promise.all(
+			todo.slice(i, i + 2).map(async (row) => {
+				const original = await read(storage, row.storageKey);
+				if (!original) return;
+				row.sha256 = sha256Hex(original);
+				await recordCopy(sql, row, { thumbKey: null, sha256: row.sha256, failed: false }).catch(
+					() => {}
+				);
+			})
+		);
 	}
 }
