@@ -58,8 +58,8 @@ export interface PdfOptions {
 	/** Records copies made and hashes read for the pack (the app's client; scripts pass theirs). */
 	sql?: Sql;
 	/**
-	 * Milliseconds since the epoch after which no new copy is made for the pack: by default
-	 * PACK_COPY_BUDGET_MS after the pack was read (`generatedAt`).
+	 * Milliseconds since the epoch after which no new copy is made for the pack (less the time
+	 * kept for the photos after it): by default PACK_COPY_BUDGET_MS after the pack was read.
 	 */
 	deadline?: number;
 	/** Called once when photos were left without a copy, with how many. */
@@ -223,8 +223,11 @@ async function drawPhotos(
 	// A few photos in memory at a time: read, shrink, draw, let go. Past the deadline, photos
 	// without a copy get a line instead of a decode, so the pack keeps its time.
 	const deadline = opts.deadline ?? Date.parse(pack.generatedAt) + PACK_COPY_BUDGET_MS;
-	const images = smallPhotos(storage, pack.photos, { deadline, sql: opts.sql });
-	for (const [i, p] of pack.photos.entries()) {
+	// for await: leaving the loop early (the reader went away) still closes the generator, which
+	// records the copies made so far.
+	let i = -1;
+	for await (const got of smallPhotos(storage, pack.photos, { deadline, sql: opts.sql })) {
+		const p = pack.photos[++i];
 		if (y + rowH > doc.page.height - doc.page.margins.bottom) {
 			doc.addPage();
 			y = doc.page.margins.top;
@@ -232,11 +235,7 @@ async function drawPhotos(
 		}
 		if (doc.destroyed) return; // the reader went away: shrink no more photos
 		const x = left + col * (cell + 12);
-		let img: SmallPhoto = (await images.next()).value ?? {
-			ok: false,
-			reason: 'missing',
-			sha256: p.sha256
-		};
+		let img: SmallPhoto = got;
 		if (img.ok) {
 			try {
 				doc.image(img.bytes, x, y, { fit: [cell, boxH], align: 'center', valign: 'center' });

@@ -8,12 +8,13 @@ import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { client, db } from './db';
 import { makeShop } from './db/fixtures';
+import { toJsonExport } from '$lib/evidence/pack';
 import * as s from './db/schema';
 import { loadEvidence } from './evidence';
 import { evidencePdf } from './evidence-pdf';
 import { storePhoto } from './photos';
 import { localDiskStorage, type FileStorage } from './storage';
-import { MAX_COPY_TRIES, PHOTO_LONG_SIDE, sha256Hex, thumbKeyOf } from './thumbs';
+import { hashMissing, MAX_COPY_TRIES, PHOTO_LONG_SIDE, sha256Hex, thumbKeyOf } from './thumbs';
 import { backfillCopies } from './thumbs-backfill';
 
 async function pdfText(pdf: Buffer): Promise<string> {
@@ -206,6 +207,32 @@ describe('downscaled copies of photos', () => {
 		expect(sha256Hex((await disk.get(key))!)).toBe(sha256Hex(original));
 		const row = await rowOf(id);
 		expect(row).toMatchObject({ thumbKey: null, thumbTries: 0, sha256: sha256Hex(original) });
+		// With the hash recorded, a pack past its budget does not read the original at all.
+		let originalsRead = 0;
+		const counting: FileStorage = {
+			...disk,
+			async get(k) {
+				if (k === key) originalsRead++;
+				return disk.get(k);
+			}
+		};
+		const again = await evidencePdf((await loadEvidence(client, f.shop.id, f.job.id))!, counting, {
+			sql: client,
+			deadline: 0
+		});
+		expect(originalsRead).toBe(0);
+		expect(await pdfText(again)).toContain(`Photo 1: copy being made`);
 		expect(await backfillCopies(client, disk, { shopId: f.shop.id })).toMatchObject({ made: 1 });
+	});
+
+	it('the JSON export gives every photo’s SHA-256, read once for photos stored before hashes', async () => {
+		const { f, disk, id, original } = await oldPhoto('Thumbs json');
+		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
+		expect(pack.photos[0].sha256).toBeNull();
+		await hashMissing(client, disk, pack.photos);
+		expect(toJsonExport(pack).photos).toEqual([
+			expect.objectContaining({ id, sha256: sha256Hex(original) })
+		]);
+		expect((await rowOf(id)).sha256).toBe(sha256Hex(original));
 	});
 });

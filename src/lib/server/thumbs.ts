@@ -25,10 +25,19 @@ export const MAX_COPY_TRIES = 3;
 
 /**
  * Milliseconds from the start of a pack after which it starts no more copies: the goal is the
- * whole pack within 10 s, and after this the copies in flight (a pool of at most SHRINK_POOL,
- * 50–300 ms each) and drawing the rest from kept copies (about 2 s at load 4) must still fit.
+ * whole pack within 10 s, and the copies still in flight (at most SHRINK_POOL, 50–400 ms each)
+ * must fit in what is left. Before that, each photo still to come after a copy keeps
+ * PACK_MS_PER_PHOTO_LEFT for itself (reading its kept copy and drawing it), more when its hash
+ * is still to be read (PACK_HASH_BYTES_PER_MS), so a pack with many photos left stops copying
+ * earlier.
  */
-export const PACK_COPY_BUDGET_MS = 6000;
+export const PACK_COPY_BUDGET_MS = 8000;
+export const PACK_MS_PER_PHOTO_LEFT = 10;
+/**
+ * A photo still to come whose hash is not recorded keeps more: its original is read and hashed
+ * (3 MB: 8–32 ms measured at load 4–5, so 100 bytes a microsecond is assumed).
+ */
+export const PACK_HASH_BYTES_PER_MS = 100_000;
 
 // A photo is shrunk once and its copy kept, so libvips' operation cache would only hold memory.
 sharp.cache(false);
@@ -50,6 +59,8 @@ export interface PhotoCopyRow {
 	/** The recorded copy, or null: none yet (or it failed). */
 	thumbKey: string | null;
 	sha256: string | null;
+	/** The original's size, when known: what hashing it will cost. */
+	bytes?: number;
 }
 
 export type SmallPhoto =
@@ -60,7 +71,7 @@ export type SmallPhoto =
 	 */
 	| { ok: false; reason: 'missing' | 'unreadable' | 'later'; sha256: string | null };
 
-/** What a look at one photo found, for `recordCopy`; null when the row already says it all. */
+/** What a look at one photo found, for `recordCopies`; null when the row already says it all. */
 export interface CopyRecord {
 	thumbKey: string | null;
 	sha256: string | null;
@@ -126,6 +137,14 @@ export async function smallPhoto(
 			record: { thumbKey: probe, sha256, failed: false }
 		};
 	}
+	if (row.sha256 && Date.now() >= deadline) {
+		// Past the budget and nothing to read: only whether the original is there.
+		const there = storage.exists
+			? await storage.exists(row.storageKey).catch(() => false)
+			: (await read(storage, row.storageKey)) !== null;
+		const reason = there ? ('later' as const) : ('missing' as const);
+		return { photo: { ok: false, reason, sha256: row.sha256 }, record: null };
+	}
 	const original = await read(storage, row.storageKey);
 	if (!original) {
 		return {
@@ -153,14 +172,35 @@ export async function smallPhoto(
 	};
 }
 
-/** Writes what a look at a photo found: the copy and hash once known, a failed try counted. */
-export async function recordCopy(sql: Sql, row: PhotoCopyRow, rec: CopyRecord): Promise<void> {
+/**
+ * Writes what looks at photos found, in one statement: copies and hashes once known, a failed
+ * try counted. (One UPDATE a photo cost a pack 20–40 ms a photo under load, in commits.)
+ */
+export async function recordCopies(
+	sql: Sql,
+	found: { row: PhotoCopyRow; rec: CopyRecord }[]
+): Promise<void> {
+	if (found.length === 0) return;
+	const rows = found.map(({ row, rec }) => ({
+		id: row.id,
+		storage_key: row.storageKey,
+		thumb_key: rec.thumbKey,
+		sha256: rec.sha256,
+		failed: rec.failed
+	}));
 	await sql`
-		update attachment set
-			thumb_key = coalesce(${rec.thumbKey}::text, thumb_key),
-			sha256 = coalesce(sha256, ${rec.sha256}::text),
-			thumb_tries = least(thumb_tries + ${rec.failed ? 1 : 0}, 32000)
-		where id = ${row.id} and storage_key = ${row.storageKey}`;
+		update attachment a set
+			thumb_key = coalesce(r.thumb_key, a.thumb_key),
+			sha256 = coalesce(a.sha256, r.sha256),
+			thumb_tries = least(a.thumb_tries + case when r.failed then 1 else 0 end, 32000)
+		from json_to_recordset(${JSON.stringify(rows)}::text::json)
+			as r(id uuid, storage_key text, thumb_key text, sha256 text, failed boolean)
+		where a.id = r.id and a.storage_key = r.storage_key`;
+}
+
+/** A failed write only means the copy or hash is found again later: say so, go on. */
+function notRecorded(e: unknown) {
+	console.error(`photo copies: not recorded (${e instanceof Error ? e.message : String(e)})`);
 }
 
 /** `smallPhoto` and, with a client, its finding recorded (a failed write only means a retry). */
@@ -170,14 +210,15 @@ export async function lookAndRecord(
 	opts: { deadline?: number; sql?: Sql } = {}
 ): Promise<SmallPhoto> {
 	const { photo, record } = await smallPhoto(storage, row, opts.deadline);
-	if (record && opts.sql) await recordCopy(opts.sql, row, record).catch(() => {});
+	if (record && opts.sql) await recordCopies(opts.sql, [{ row, rec: record }]).catch(notRecorded);
 	return photo;
 }
 
 /**
  * The photos' small copies in the order of `rows`, at most `pool` being read or shrunk at a time
  * (sharp works off the main thread, so these run on all cores while the caller draws). With
- * `sql`, copies made and hashes found are recorded; past `deadline` no new copy is started.
+ * `sql`, copies made and hashes found are recorded; past `deadline`, less the time kept for the
+ * photos still to come, no new copy is started.
  */
 export async function* smallPhotos(
 	storage: FileStorage,
@@ -185,14 +226,42 @@ export async function* smallPhotos(
 	opts: { pool?: number; deadline?: number; sql?: Sql } = {}
 ): AsyncGenerator<SmallPhoto> {
 	const pool = opts.pool ?? SHRINK_POOL;
+	const deadline = opts.deadline ?? Infinity;
+	const found: { row: PhotoCopyRow; rec: CopyRecord }[] = [];
+	const flush = async () => {
+		if (opts.sql) await recordCopies(opts.sql, found.splice(0)).catch(notRecorded);
+	};
+	// The time each photo keeps for the ones after it (a suffix sum of their costs).
+	const keep = new Array<number>(rows.length).fill(0);
+	for (let k = rows.length - 2; k >= 0; k--) {
+		const r = rows[k + 1];
+		const hash = r.sha256 ? 0 : (r.bytes ?? 3_000_000) / PACK_HASH_BYTES_PER_MS;
+		keep[k] = keep[k + 1] + PACK_MS_PER_PHOTO_LEFT + hash;
+	}
 	const queue: Promise<SmallPhoto>[] = [];
 	let next = 0;
-	const start = () => queue.push(lookAndRecord(storage, rows[next++], opts));
-	while (next < rows.length && queue.length < pool) start();
-	while (queue.length > 0) {
-		const photo = await queue.shift()!;
-		if (next < rows.length) start();
-		yield photo;
+	const start = () => {
+		const row = rows[next];
+		const until = deadline - keep[next++];
+		queue.push(
+			smallPhoto(storage, row, until).then(({ photo, record }) => {
+				if (record) found.push({ row, rec: record });
+				return photo;
+			})
+		);
+	};
+	try {
+		while (next < rows.length && queue.length < pool) start();
+		while (queue.length > 0) {
+			const photo = await queue.shift()!;
+			if (next < rows.length) start();
+			if (found.length >= 50) await flush();
+			yield photo;
+		}
+	} finally {
+		// also when the reader went away: what was made is kept and recorded
+		await Promise.allSettled(queue);
+		await flush();
 	}
 }
 
@@ -208,9 +277,8 @@ export async function hashMissing(sql: Sql, storage: FileStorage, rows: PhotoCop
 				const original = await read(storage, row.storageKey);
 				if (!original) return;
 				row.sha256 = sha256Hex(original);
-				await recordCopy(sql, row, { thumbKey: null, sha256: row.sha256, failed: false }).catch(
-					() => {}
-				);
+				const rec = { thumbKey: null, sha256: row.sha256, failed: false };
+				await recordCopies(sql, [{ row, rec }]).catch(notRecorded);
 			})
 		);
 	}
