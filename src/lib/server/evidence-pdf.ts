@@ -10,7 +10,13 @@ import { HOW_TO_CHECK, type EvidenceEntry, type EvidencePack } from '$lib/eviden
 import { NOTICE_LINE, pdfSafe } from './invoice-pdf';
 import type { Sql } from 'postgres';
 import type { FileStorage } from './storage-disk';
-import { PACK_COPY_BUDGET_MS, PHOTO_LONG_SIDE, smallPhotos, type SmallPhoto } from './thumbs';
+import {
+	PACK_COPY_BUDGET_MS,
+	PACK_HASH_BUDGET_MS,
+	PHOTO_LONG_SIDE,
+	smallPhotos,
+	type SmallPhoto
+} from './thumbs';
 
 const KIND_WORDS: Record<string, string> = {
 	measure: 'Measured',
@@ -62,6 +68,8 @@ export interface PdfOptions {
 	 * kept for the photos after it): by default PACK_COPY_BUDGET_MS after the pack was read.
 	 */
 	deadline?: number;
+	/** After this no original is read to hash it: by default PACK_HASH_BUDGET_MS after. */
+	hashBy?: number;
 	/** Called once when photos were left without a copy, with how many. */
 	leftForLater?: (n: number) => void;
 }
@@ -222,11 +230,13 @@ async function drawPhotos(
 	let later = 0;
 	// A few photos in memory at a time: read, shrink, draw, let go. Past the deadline, photos
 	// without a copy get a line instead of a decode, so the pack keeps its time.
-	const deadline = opts.deadline ?? Date.parse(pack.generatedAt) + PACK_COPY_BUDGET_MS;
+	const t0 = Date.parse(pack.generatedAt);
+	const deadline = opts.deadline ?? t0 + PACK_COPY_BUDGET_MS;
+	const hashBy = opts.hashBy ?? t0 + PACK_HASH_BUDGET_MS;
 	// for await: leaving the loop early (the reader went away) still closes the generator, which
 	// records the copies made so far.
 	let i = -1;
-	for await (const got of smallPhotos(storage, pack.photos, { deadline, sql: opts.sql })) {
+	for await (const got of smallPhotos(storage, pack.photos, { deadline, hashBy, sql: opts.sql })) {
 		const p = pack.photos[++i];
 		if (y + rowH > doc.page.height - doc.page.margins.bottom) {
 			doc.addPage();
@@ -260,7 +270,11 @@ async function drawPhotos(
 		doc.font('Helvetica').fontSize(7.5);
 		doc.text(pdfSafe(caption), x, y + boxH + 3, { width: cell, height: 9, ellipsis: true });
 		// 72 Courier characters at 5.4 pt (0.6 em each) fit the cell on one line.
-		const sha = img.sha256 ?? p.sha256 ?? '(not known: file missing)';
+		const notRead = !img.ok && img.reason === 'later';
+		const sha =
+			img.sha256 ??
+			p.sha256 ??
+			(notRead ? 'not read yet: the JSON export reads it' : '(not known: file missing)');
 		doc.font('Courier').fontSize(5.4).fillColor('#444');
 		doc.text(`SHA-256 ${sha}`, x, y + boxH + 14, { width: cell, lineBreak: false });
 		doc.fillColor('black');

@@ -7,7 +7,7 @@
 import { performance } from 'node:perf_hooks';
 import type { Sql } from 'postgres';
 import type { FileStorage } from './storage-disk';
-import { lookAndRecord, MAX_COPY_TRIES, type PhotoCopyRow } from './thumbs';
+import { hashMissing, lookAndRecord, MAX_COPY_TRIES, type PhotoCopyRow } from './thumbs';
 
 export interface BackfillCount {
 	photos: number;
@@ -52,17 +52,32 @@ export async function backfillCopies(
 		unreadable: 0,
 		problems: []
 	};
-	// Keyset paging: a photo that fails stays in the set, but each pass visits it once.
+	const where = (after: string | null) => sql`
+		${maxTries === null ? sql`true` : sql`thumb_tries < ${maxTries}`}
+		${opts.shopId ? sql`and shop_id = ${opts.shopId}` : sql``}
+		${after ? sql`and id > ${after}` : sql``}`;
+	// Hashes first: a few ms a photo, and a pack past its time can print them without reading.
 	let after: string | null = null;
 	for (;;) {
 		if (opts.signal?.aborted) break;
 		const rows: PhotoCopyRow[] = await sql`
 			select id, storage_key as "storageKey", thumb_key as "thumbKey", sha256
+			from attachment where sha256 is null and ${where(after)} order by id limit ${BATCH}`;
+		if (rows.length === 0) break;
+		const t0 = performance.now();
+		await hashMissing(sql, storage, rows);
+		if (opts.rest) await sleep((performance.now() - t0) * opts.rest);
+		after = rows[rows.length - 1].id;
+	}
+	// Then the copies. Keyset paging: a photo that fails stays in the set, but each pass visits
+	// it once.
+	after = null;
+	for (;;) {
+		if (opts.signal?.aborted) break;
+		const rows: PhotoCopyRow[] = await sql`
+			select id, storage_key as "storageKey", thumb_key as "thumbKey", sha256
 			from attachment
-			where (thumb_key is null or sha256 is null)
-				${maxTries === null ? sql`` : sql`and thumb_tries < ${maxTries}`}
-				${opts.shopId ? sql`and shop_id = ${opts.shopId}` : sql``}
-				${after ? sql`and id > ${after}` : sql``}
+			where (thumb_key is null or sha256 is null) and ${where(after)}
 			order by id
 			limit ${BATCH}`;
 		if (rows.length === 0) break;

@@ -225,6 +225,16 @@ describe('downscaled copies of photos', () => {
 		expect(await backfillCopies(client, disk, { shopId: f.shop.id })).toMatchObject({ made: 1 });
 	});
 
+	it('out of time to read an original, a pack says its hash is not read yet', async () => {
+		const { f, disk, id } = await oldPhoto('Thumbs no time');
+		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
+		const pdf = await evidencePdf(pack, disk, { sql: client, deadline: 0, hashBy: 0 });
+		const text = await pdfText(pdf);
+		expect(text).toContain('Photo 1: copy being made, download it from the job card');
+		expect(text).toContain('SHA-256 not read yet: the JSON export reads it');
+		expect((await rowOf(id)).sha256).toBeNull();
+	});
+
 	it('the JSON export gives every photo’s SHA-256, read once for photos stored before hashes', async () => {
 		const { f, disk, id, original } = await oldPhoto('Thumbs json');
 		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;

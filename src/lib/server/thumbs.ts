@@ -32,6 +32,13 @@ export const MAX_COPY_TRIES = 3;
  * earlier.
  */
 export const PACK_COPY_BUDGET_MS = 8000;
+/**
+ * After this a pack reads no more originals to hash them (less PACK_MS_PER_PHOTO_LEFT for each
+ * photo after it): under load 9 on 2 cores reading and hashing cost 75 ms a photo, so a job of
+ * 200 photos stored before hashes were recorded could not be hashed within 10 s. Such a photo's
+ * hash is then "not read yet"; the JSON export and the background backfill read it.
+ */
+export const PACK_HASH_BUDGET_MS = 9000;
 export const PACK_MS_PER_PHOTO_LEFT = 10;
 /**
  * A photo still to come whose hash is not recorded keeps more: its original is read and hashed
@@ -116,12 +123,13 @@ export async function makeCopy(
  * The downscaled JPEG of a stored photo: its recorded copy, a copy kept before copies were
  * recorded, or made now and kept (a phone photo costs 50–65 ms of CPU, nearly all of it reading
  * the JPEG's entropy-coded data) unless `deadline` (ms since the epoch) has passed. Also the
- * original's SHA-256 when the row has none. Never throws.
+ * original's SHA-256 when the row has none, unless `hashBy` has passed too. Never throws.
  */
 export async function smallPhoto(
 	storage: FileStorage,
 	row: PhotoCopyRow,
-	deadline = Infinity
+	deadline = Infinity,
+	hashBy = Infinity
 ): Promise<{ photo: SmallPhoto; record: CopyRecord | null }> {
 	const probe = row.thumbKey ?? thumbKeyOf(row.storageKey);
 	const kept = await read(storage, probe);
@@ -137,7 +145,7 @@ export async function smallPhoto(
 			record: { thumbKey: probe, sha256, failed: false }
 		};
 	}
-	if (row.sha256 && Date.now() >= deadline) {
+	if (Date.now() >= deadline && (row.sha256 || Date.now() >= hashBy)) {
 		// Past the budget and nothing to read: only whether the original is there.
 		const there = storage.exists
 			? await storage.exists(row.storageKey).catch(() => false)
@@ -173,8 +181,8 @@ export async function smallPhoto(
 }
 
 /**
- * Writes what looks at photos found, in one statement: copies and hashes once known, a failed
- * try counted. (One UPDATE a photo cost a pack 20–40 ms a photo under load, in commits.)
+ * Writes what looks at photos found, in one statement (a pack writes one per 50 photos, not a
+ * commit a photo): copies and hashes once known, a failed try counted.
  */
 export async function recordCopies(
 	sql: Sql,
@@ -218,15 +226,16 @@ export async function lookAndRecord(
  * The photos' small copies in the order of `rows`, at most `pool` being read or shrunk at a time
  * (sharp works off the main thread, so these run on all cores while the caller draws). With
  * `sql`, copies made and hashes found are recorded; past `deadline`, less the time kept for the
- * photos still to come, no new copy is started.
+ * photos still to come, no new copy is started, and past `hashBy` no original is read.
  */
 export async function* smallPhotos(
 	storage: FileStorage,
 	rows: PhotoCopyRow[],
-	opts: { pool?: number; deadline?: number; sql?: Sql } = {}
+	opts: { pool?: number; deadline?: number; hashBy?: number; sql?: Sql } = {}
 ): AsyncGenerator<SmallPhoto> {
 	const pool = opts.pool ?? SHRINK_POOL;
 	const deadline = opts.deadline ?? Infinity;
+	const hashBy = opts.hashBy ?? Infinity;
 	const found: { row: PhotoCopyRow; rec: CopyRecord }[] = [];
 	const flush = async () => {
 		if (opts.sql) await recordCopies(opts.sql, found.splice(0)).catch(notRecorded);
@@ -242,9 +251,10 @@ export async function* smallPhotos(
 	let next = 0;
 	const start = () => {
 		const row = rows[next];
-		const until = deadline - keep[next++];
+		const until = deadline - keep[next];
+		const hashUntil = hashBy - (rows.length - 1 - next++) * PACK_MS_PER_PHOTO_LEFT;
 		queue.push(
-			smallPhoto(storage, row, until).then(({ photo, record }) => {
+			smallPhoto(storage, row, until, hashUntil).then(({ photo, record }) => {
 				if (record) found.push({ row, rec: record });
 				return photo;
 			})
