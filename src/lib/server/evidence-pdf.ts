@@ -206,18 +206,16 @@ async function draw(
 		}
 	}
 
-	if (pack.photos.length > 0) await drawPhotos(doc, pack, storage, opts);
+	if (pack.photos.length > 0) await drawPhotos(doc, pack, storage, opts, { left, width, byId });
 }
 
 async function drawPhotos(
 	doc: PDFKit.PDFDocument,
 	pack: EvidencePack,
 	storage: FileStorage,
-	opts: PdfOptions
+	opts: PdfOptions,
+	{ left, width, byId }: { left: number; width: number; byId: Map<string, EvidenceEntry> }
 ) {
-	const left = doc.page.margins.left;
-	const width = doc.page.width - left - doc.page.margins.right;
-	const byId = new Map(pack.entries.map((e) => [e.id, e]));
 	doc.addPage().font('Helvetica-Bold').fontSize(11);
 	doc.text(`Photos (${pack.photos.length}, downscaled to ${PHOTO_LONG_SIDE} px)`, { width });
 	doc.font('Helvetica').fontSize(8.5);

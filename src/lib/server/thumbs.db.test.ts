@@ -52,6 +52,19 @@ async function rowOf(id: string) {
 	return row;
 }
 
+/** Storage that counts the reads of one file (the original). */
+function countingReads(disk: FileStorage, key: string): FileStorage & { reads: number } {
+	const counting = {
+		...disk,
+		reads: 0,
+		async get(k: string) {
+			if (k === key) counting.reads++;
+			return disk.get(k);
+		}
+	};
+	return counting;
+}
+
 /** A shop with a job, a folder of storage, and a photo stored as before copies were recorded. */
 async function oldPhoto(name: string, bytes?: Buffer) {
 	const f = await makeShop(name);
@@ -161,14 +174,7 @@ describe('downscaled copies of photos', () => {
 
 	it('a pack that meets a photo without a copy makes it once and keeps it', async () => {
 		const { f, disk, id, key, original } = await oldPhoto('Thumbs pack');
-		let originalsRead = 0;
-		const counting: FileStorage = {
-			...disk,
-			async get(k) {
-				if (k === key) originalsRead++;
-				return disk.get(k);
-			}
-		};
+		const counting = countingReads(disk, key);
 		const first = await evidencePdf((await loadEvidence(client, f.shop.id, f.job.id))!, counting, {
 			sql: client
 		});
@@ -178,7 +184,7 @@ describe('downscaled copies of photos', () => {
 		expect(row.sha256).toBe(sha256Hex(original));
 		expect(await pdfText(first)).toContain(`SHA-256 ${sha256Hex(original)}`);
 		// The next pack reads the kept copy only: the original is not read again.
-		originalsRead = 0;
+		counting.reads = 0;
 		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
 		expect(pack.photos[0]).toMatchObject({
 			thumbKey: thumbKeyOf(key),
@@ -186,7 +192,7 @@ describe('downscaled copies of photos', () => {
 		});
 		const second = await evidencePdf(pack, counting, { sql: client });
 		expect(images(second)).toBe(1);
-		expect(originalsRead).toBe(0);
+		expect(counting.reads).toBe(0);
 	});
 
 	it('past its time budget a pack puts a line for the photo, with its SHA-256', async () => {
@@ -208,19 +214,12 @@ describe('downscaled copies of photos', () => {
 		const row = await rowOf(id);
 		expect(row).toMatchObject({ thumbKey: null, thumbTries: 0, sha256: sha256Hex(original) });
 		// With the hash recorded, a pack past its budget does not read the original at all.
-		let originalsRead = 0;
-		const counting: FileStorage = {
-			...disk,
-			async get(k) {
-				if (k === key) originalsRead++;
-				return disk.get(k);
-			}
-		};
+		const counting = countingReads(disk, key);
 		const again = await evidencePdf((await loadEvidence(client, f.shop.id, f.job.id))!, counting, {
 			sql: client,
 			deadline: 0
 		});
-		expect(originalsRead).toBe(0);
+		expect(counting.reads).toBe(0);
 		expect(await pdfText(again)).toContain(`Photo 1: copy being made`);
 		expect(await backfillCopies(client, disk, { shopId: f.shop.id })).toMatchObject({ made: 1 });
 	});
