@@ -31,7 +31,7 @@ const KIND_WORDS: Record<string, string> = {
 };
 
 const PHOTOS_NOTE =
-	'Each SHA-256 is that of the original file as stored; the job card serves the original. `sha256sum` on a downloaded original must print the same value.';
+	"Each SHA-256 is that of the original file as stored. The shop's Benchcall serves each original, unchanged, to its staff at /api/photos/<photo id> (the JSON export lists the ids); `sha256sum` on a downloaded original must print the same value.";
 
 const utc = (iso: string) => iso.replace('T', ' ').replace(/\.(\d{3})\d*Z$/, '.$1 UTC');
 
@@ -52,9 +52,18 @@ function specLine(e: EvidenceEntry): string | null {
 	return `Step: ${e.step}; spec on the job at the time: ${band}`;
 }
 
-/** What stands in photo `n`'s place when it cannot be drawn; the original, if any, is kept. */
-export function photoPlaceholder(p: Extract<SmallPhoto, { ok: false }>, n: number): string {
-	if (p.reason === 'later') return `Photo ${n}: copy being made, download it from the job card`;
+/**
+ * What stands in photo `n`'s place when it cannot be drawn; the original, if any, is kept. The
+ * job card lists intake photos only, so the line names the original's own address.
+ */
+export function photoPlaceholder(
+	p: Extract<SmallPhoto, { ok: false }>,
+	n: number,
+	id: string
+): string {
+	if (p.reason === 'later') {
+		return `Photo ${n}: copy being made; download the original at\n/api/photos/${id}`;
+	}
 	return p.reason === 'missing'
 		? '(photo file missing from storage)'
 		: '(photo kept, but it cannot be drawn here: not a JPEG, PNG or WebP image, or damaged)';
@@ -257,8 +266,8 @@ async function drawPhotos(
 			doc.strokeColor('black');
 			doc
 				.font('Helvetica')
-				.fontSize(8)
-				.text(pdfSafe(photoPlaceholder(img, i + 1)), x + 8, y + boxH / 2 - 10, {
+				.fontSize(7.5)
+				.text(pdfSafe(photoPlaceholder(img, i + 1, p.id)), x + 8, y + boxH / 2 - 10, {
 					width: cell - 16
 				});
 		}

@@ -207,7 +207,7 @@ describe('downscaled copies of photos', () => {
 		expect(images(pdf)).toBe(0);
 		expect(left).toBe(1);
 		const text = await pdfText(pdf);
-		expect(text).toContain('Photo 1: copy being made, download it from the job card');
+		expect(text).toContain(`Photo 1: copy being made; download the original at /api/photos/${id}`);
 		expect(text).toContain(`SHA-256 ${sha256Hex(original)}`);
 		// The original is untouched and its hash recorded; the copy is left to the backfill.
 		expect(sha256Hex((await disk.get(key))!)).toBe(sha256Hex(original));
@@ -229,7 +229,7 @@ describe('downscaled copies of photos', () => {
 		const pack = (await loadEvidence(client, f.shop.id, f.job.id))!;
 		const pdf = await evidencePdf(pack, disk, { sql: client, deadline: 0, hashBy: 0 });
 		const text = await pdfText(pdf);
-		expect(text).toContain('Photo 1: copy being made, download it from the job card');
+		expect(text).toContain(`Photo 1: copy being made; download the original at /api/photos/${id}`);
 		expect(text).toContain('SHA-256 not read yet: the JSON export reads it');
 		expect((await rowOf(id)).sha256).toBeNull();
 	});
