@@ -1,8 +1,10 @@
-import type { Handle, HandleServerError } from '@sveltejs/kit';
+import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
+import { building } from '$app/environment';
 import { sequence } from '@sveltejs/kit/hooks';
 import { hasNul, nulMessage } from '$lib/nul';
 import { lucia } from '$lib/server/auth';
 import { isDatabaseUnavailable } from '$lib/server/db/errors';
+import { makeMissingCopies } from '$lib/server/photos';
 
 /** Seconds a client is asked to wait (Retry-After) while the database is away. */
 const retryAfterSeconds = 3;
@@ -122,6 +124,14 @@ function logUnavailable(err: unknown) {
 	const e = err as { code?: string; cause?: { code?: string } };
 	console.error(`database unavailable (${e.cause?.code ?? e.code ?? 'no code'}): answered 503`);
 }
+
+/**
+ * Photos without a downscaled copy (stored before copies were recorded, or whose copy failed) get
+ * one in the background, starting 10 s after the app, so no one has to know `photos:thumbs`.
+ */
+export const init: ServerInit = () => {
+	if (!building) makeMissingCopies(10_000);
+};
 
 export const handle = sequence(securityHeaders, refuseNul, databaseAvailability, handleAuth);
 

@@ -66,6 +66,13 @@ const photo = z.object({
 	mime: z.string(),
 	bytes: z.number().int(),
 	storageKey: z.string(),
+	/** The recorded downscaled copy (storage key), null while none is made. */
+	thumbKey: z.string().nullable(),
+	/** SHA-256 of the original file as stored, hex; null until it has been read once. */
+	sha256: z
+		.string()
+		.regex(/^[0-9a-f]{64}$/)
+		.nullable(),
 	takenAt: z.string()
 });
 
@@ -131,6 +138,7 @@ export function toJsonExport(pack: EvidencePack) {
 			fileName: p.fileName,
 			mime: p.mime,
 			bytes: p.bytes,
+			sha256: p.sha256,
 			takenAt: p.takenAt
 		}))
 	};

@@ -8,8 +8,15 @@ import { formatQuantity } from '$lib/units';
 import { verdictWords } from '$lib/invoice/report';
 import { HOW_TO_CHECK, type EvidenceEntry, type EvidencePack } from '$lib/evidence/pack';
 import { NOTICE_LINE, pdfSafe } from './invoice-pdf';
-import type { FileStorage } from './storage';
-import { PHOTO_LONG_SIDE, smallPhotos, type SmallPhoto } from './thumbs';
+import type { Sql } from 'postgres';
+import type { FileStorage } from './storage-disk';
+import {
+	PACK_COPY_BUDGET_MS,
+	PACK_HASH_BUDGET_MS,
+	PHOTO_LONG_SIDE,
+	smallPhotos,
+	type SmallPhoto
+} from './thumbs';
 
 const KIND_WORDS: Record<string, string> = {
 	measure: 'Measured',
@@ -22,6 +29,9 @@ const KIND_WORDS: Record<string, string> = {
 	inspection: 'Final inspection item',
 	sign_off: 'Signed off'
 };
+
+const PHOTOS_NOTE =
+	"Each SHA-256 is that of the original file as stored. The shop's Benchcall serves each original, unchanged, to its staff at /api/photos/<photo id> (the JSON export lists the ids); `sha256sum` on a downloaded original must print the same value.";
 
 const utc = (iso: string) => iso.replace('T', ' ').replace(/\.(\d{3})\d*Z$/, '.$1 UTC');
 
@@ -42,15 +52,43 @@ function specLine(e: EvidenceEntry): string | null {
 	return `Step: ${e.step}; spec on the job at the time: ${band}`;
 }
 
-/** What stands in a photo's place when it cannot be drawn; the original, if any, is kept. */
-export function photoPlaceholder(p: Extract<SmallPhoto, { ok: false }>): string {
+/**
+ * What stands in photo `n`'s place when it cannot be drawn; the original, if any, is kept. The
+ * job card lists intake photos only, so the line names the original's own address.
+ */
+export function photoPlaceholder(
+	p: Extract<SmallPhoto, { ok: false }>,
+	n: number,
+	id: string
+): string {
+	if (p.reason === 'later') {
+		return `Photo ${n}: copy being made; download the original at\n/api/photos/${id}`;
+	}
 	return p.reason === 'missing'
 		? '(photo file missing from storage)'
 		: '(photo kept, but it cannot be drawn here: not a JPEG, PNG or WebP image, or damaged)';
 }
 
+export interface PdfOptions {
+	/** Records copies made and hashes read for the pack (the app's client; scripts pass theirs). */
+	sql?: Sql;
+	/**
+	 * Milliseconds since the epoch after which no new copy is made for the pack (less the time
+	 * kept for the photos after it): by default PACK_COPY_BUDGET_MS after the pack was read.
+	 */
+	deadline?: number;
+	/** After this no original is read to hash it: by default PACK_HASH_BUDGET_MS after. */
+	hashBy?: number;
+	/** Called once when photos were left without a copy, with how many. */
+	leftForLater?: (n: number) => void;
+}
+
 /** The pack's PDF as a stream of bytes, drawn while it is read. */
-export function evidencePdfStream(pack: EvidencePack, storage: FileStorage): PDFKit.PDFDocument {
+export function evidencePdfStream(
+	pack: EvidencePack,
+	storage: FileStorage,
+	opts: PdfOptions = {}
+): PDFKit.PDFDocument {
 	const doc = new PDFDocument({
 		size: 'A4',
 		margins: { top: 50, bottom: 50, left: 50, right: 50 },
@@ -60,7 +98,7 @@ export function evidencePdfStream(pack: EvidencePack, storage: FileStorage): PDF
 			Creator: 'Benchcall'
 		}
 	});
-	draw(doc, pack, storage).then(
+	draw(doc, pack, storage, opts).then(
 		() => {
 			if (!doc.destroyed) doc.end();
 		},
@@ -70,13 +108,22 @@ export function evidencePdfStream(pack: EvidencePack, storage: FileStorage): PDF
 }
 
 /** The pack's PDF in one buffer (tests, scripts). */
-export async function evidencePdf(pack: EvidencePack, storage: FileStorage): Promise<Buffer> {
+export async function evidencePdf(
+	pack: EvidencePack,
+	storage: FileStorage,
+	opts: PdfOptions = {}
+): Promise<Buffer> {
 	const chunks: Buffer[] = [];
-	for await (const c of evidencePdfStream(pack, storage)) chunks.push(c as Buffer);
+	for await (const c of evidencePdfStream(pack, storage, opts)) chunks.push(c as Buffer);
 	return Buffer.concat(chunks);
 }
 
-async function draw(doc: PDFKit.PDFDocument, pack: EvidencePack, storage: FileStorage) {
+async function draw(
+	doc: PDFKit.PDFDocument,
+	pack: EvidencePack,
+	storage: FileStorage,
+	opts: PdfOptions
+) {
 	const left = doc.page.margins.left;
 	const width = doc.page.width - left - doc.page.margins.right;
 	const text = (s: string, o: PDFKit.Mixins.TextOptions = {}) =>
@@ -168,56 +215,78 @@ async function draw(doc: PDFKit.PDFDocument, pack: EvidencePack, storage: FileSt
 		}
 	}
 
-	if (pack.photos.length > 0) {
-		doc.addPage().font('Helvetica-Bold').fontSize(11);
-		text(`Photos (${pack.photos.length}, downscaled to ${PHOTO_LONG_SIDE} px)`);
-		const cell = (width - 12) / 2;
-		const boxH = 170;
-		let col = 0;
-		let y = doc.y + 6;
-		// A few photos in memory at a time: read, shrink, draw, let go.
-		const images = smallPhotos(
-			storage,
-			pack.photos.map((p) => p.storageKey)
-		);
-		for (const p of pack.photos) {
-			if (y + boxH + 24 > doc.page.height - doc.page.margins.bottom) {
-				doc.addPage();
-				y = doc.page.margins.top;
-				col = 0;
+	if (pack.photos.length > 0) await drawPhotos(doc, pack, storage, opts, { left, width, byId });
+}
+
+async function drawPhotos(
+	doc: PDFKit.PDFDocument,
+	pack: EvidencePack,
+	storage: FileStorage,
+	opts: PdfOptions,
+	{ left, width, byId }: { left: number; width: number; byId: Map<string, EvidenceEntry> }
+) {
+	doc.addPage().font('Helvetica-Bold').fontSize(11);
+	doc.text(`Photos (${pack.photos.length}, downscaled to ${PHOTO_LONG_SIDE} px)`, { width });
+	doc.font('Helvetica').fontSize(8.5);
+	doc.text(PHOTOS_NOTE, { width });
+	const cell = (width - 12) / 2;
+	const boxH = 170;
+	const rowH = boxH + 30;
+	let col = 0;
+	let y = doc.y + 6;
+	let later = 0;
+	// A few photos in memory at a time: read, shrink, draw, let go. Past the deadline, photos
+	// without a copy get a line instead of a decode, so the pack keeps its time.
+	const t0 = Date.parse(pack.generatedAt);
+	const deadline = opts.deadline ?? t0 + PACK_COPY_BUDGET_MS;
+	const hashBy = opts.hashBy ?? t0 + PACK_HASH_BUDGET_MS;
+	// for await: leaving the loop early (the reader went away) still closes the generator, which
+	// records the copies made so far.
+	let i = -1;
+	for await (const got of smallPhotos(storage, pack.photos, { deadline, hashBy, sql: opts.sql })) {
+		const p = pack.photos[++i];
+		if (y + rowH > doc.page.height - doc.page.margins.bottom) {
+			doc.addPage();
+			y = doc.page.margins.top;
+			col = 0;
+		}
+		if (doc.destroyed) return; // the reader went away: shrink no more photos
+		const x = left + col * (cell + 12);
+		let img: SmallPhoto = got;
+		if (img.ok) {
+			try {
+				doc.image(img.bytes, x, y, { fit: [cell, boxH], align: 'center', valign: 'center' });
+			} catch {
+				img = { ok: false, reason: 'unreadable', sha256: img.sha256 }; // a damaged kept copy
 			}
-			if (doc.destroyed) return; // the reader went away: shrink no more photos
-			const x = left + col * (cell + 12);
-			let img: SmallPhoto = (await images.next()).value ?? { ok: false, reason: 'missing' };
-			if (img.ok) {
-				try {
-					doc.image(img.bytes, x, y, { fit: [cell, boxH], align: 'center', valign: 'center' });
-				} catch {
-					img = { ok: false, reason: 'unreadable' }; // a damaged kept copy
-				}
-			}
-			if (!img.ok) {
-				doc.rect(x, y, cell, boxH).lineWidth(0.5).strokeColor('#888888').stroke();
-				doc.strokeColor('black');
-				doc
-					.font('Helvetica')
-					.fontSize(8)
-					.text(photoPlaceholder(img), x + 8, y + boxH / 2 - 10, { width: cell - 16 });
-			}
-			const on = p.entryId ? byId.get(p.entryId) : undefined;
+		}
+		if (!img.ok) {
+			if (img.reason === 'later') later++;
+			doc.rect(x, y, cell, boxH).lineWidth(0.5).strokeColor('#888888').stroke();
+			doc.strokeColor('black');
 			doc
 				.font('Helvetica')
 				.fontSize(7.5)
-				.text(
-					pdfSafe(`${on ? `#${on.pos} ` : 'Intake '}${p.fileName} · ${utc(p.takenAt)}`),
-					x,
-					y + boxH + 3,
-					{
-						width: cell
-					}
-				);
-			col = (col + 1) % 2;
-			if (col === 0) y += boxH + 24;
+				.text(pdfSafe(photoPlaceholder(img, i + 1, p.id)), x + 8, y + boxH / 2 - 10, {
+					width: cell - 16
+				});
 		}
+		const on = p.entryId ? byId.get(p.entryId) : undefined;
+		const where = on ? `#${on.pos}` : 'Intake';
+		const caption = `Photo ${i + 1} · ${where} ${p.fileName} · ${utc(p.takenAt)}`;
+		doc.font('Helvetica').fontSize(7.5);
+		doc.text(pdfSafe(caption), x, y + boxH + 3, { width: cell, height: 9, ellipsis: true });
+		// 72 Courier characters at 5.4 pt (0.6 em each) fit the cell on one line.
+		const notRead = !img.ok && img.reason === 'later';
+		const sha =
+			img.sha256 ??
+			p.sha256 ??
+			(notRead ? 'not read yet: the JSON export reads it' : '(not known: file missing)');
+		doc.font('Courier').fontSize(5.4).fillColor('#444');
+		doc.text(`SHA-256 ${sha}`, x, y + boxH + 14, { width: cell, lineBreak: false });
+		doc.fillColor('black');
+		col = (col + 1) % 2;
+		if (col === 0) y += rowH;
 	}
+	if (later > 0) opts.leftForLater?.(later);
 }

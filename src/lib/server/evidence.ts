@@ -104,7 +104,8 @@ export async function loadEvidence(
 	});
 
 	const photos = await client`
-		select a.id, a.entry_id, a.file_name, a.mime, a.bytes, a.storage_key, a.created_at
+		select a.id, a.entry_id, a.file_name, a.mime, a.bytes, a.storage_key, a.thumb_key, a.sha256,
+			a.created_at
 		from attachment a where a.shop_id = ${shopId} and a.job_id = ${jobId}
 		order by a.created_at, a.id`;
 	const changes = await client`
@@ -157,6 +158,8 @@ export async function loadEvidence(
 			mime: String(p.mime),
 			bytes: Number(p.bytes),
 			storageKey: String(p.storage_key),
+			thumbKey: str(p.thumb_key),
+			sha256: str(p.sha256),
 			takenAt: iso(p.created_at) ?? ''
 		}))
 	};

@@ -2,11 +2,12 @@
 // rules for both: type from the bytes, at most 10 MB, stored behind the storage interface.
 import { and, asc, eq, isNull } from 'drizzle-orm';
 import { checkFileName, checkPhoto } from '$lib/uploads/check';
-import { db } from './db';
+import { client, db } from './db';
 import { isClosedRecord } from './db/errors';
 import * as s from './db/schema';
 import { uploads, type FileStorage } from './storage';
-import { keepThumb } from './thumbs';
+import { makeCopy, sha256Hex } from './thumbs';
+import { backfillCopies } from './thumbs-backfill';
 import { closedStates } from '$lib/jobs/states';
 import { isUuid } from '$lib/ids';
 import { failure, type Result } from '$lib/result';
@@ -24,7 +25,9 @@ export const closedPhotoMessage =
 
 /**
  * Checks and stores one photo for a job of the shop (the caller has checked the job and the
- * entry belong to the shop). The file is removed again if the row cannot be written.
+ * entry belong to the shop). Its downscaled copy is made and kept first, so the row records it
+ * (and the original's SHA-256) in the statement that stores the photo; a copy that fails is made
+ * again by the background backfill. The files are removed again if the row cannot be written.
  */
 export async function storePhoto(
 	target: { shopId: string; jobId: string; entryId: string | null; uploadedBy: string },
@@ -38,6 +41,8 @@ export async function storePhoto(
 	const id = crypto.randomUUID();
 	const key = `${target.shopId}/${id}.${check.extension}`;
 	await storage.put(key, file.bytes);
+	const copy = await makeCopy(storage, key, file.bytes);
+	const thumbKey = copy.ok ? copy.thumbKey : null;
 	try {
 		await db.insert(s.attachment).values({
 			id,
@@ -48,15 +53,58 @@ export async function storePhoto(
 			mime: check.mime,
 			bytes: file.bytes.length,
 			storageKey: key,
+			thumbKey,
+			thumbTries: thumbKey ? 0 : 1,
+			sha256: sha256Hex(file.bytes),
 			uploadedBy: target.uploadedBy
 		});
 	} catch (e) {
 		await storage.remove(key).catch(() => {});
+		if (thumbKey) await storage.remove(thumbKey).catch(() => {});
 		if (isClosedRecord(e)) return { ok: false, message: closedPhotoMessage, closed: true };
 		throw e;
 	}
-	await keepThumb(storage, key);
+	if (!thumbKey && storage === uploads()) makeMissingCopies(60_000);
 	return { ok: true, id };
+}
+
+let copying: Promise<void> | null = null;
+let again = false;
+const stopCopying = new AbortController();
+process.once('sveltekit:shutdown', () => stopCopying.abort());
+
+/**
+ * Makes the app's missing photo copies in the background after `delayMs`: one photo at a time,
+ * resting three times as long as each took (a quarter of one core at most). Called at start
+ * (hooks.server.ts), after an upload whose copy failed and after a pack that left photos for
+ * later; a call while a pass runs asks for one more pass.
+ */
+export function makeMissingCopies(delayMs = 0): void {
+	if (copying) {
+		again = true;
+		return;
+	}
+	const started = performance.now();
+	copying = (async () => {
+		await new Promise((r) => setTimeout(r, delayMs).unref());
+		do {
+			again = false;
+			const n = await backfillCopies(client, uploads(), { rest: 3, signal: stopCopying.signal });
+			if (n.photos > 0) {
+				const secs = ((performance.now() - started) / 1000).toFixed(0);
+				console.log(
+					`photo copies: ${n.made} made, ${n.kept} found, ${n.missing} files missing, ` +
+						`${n.unreadable} unreadable (${secs} s, in the background)`
+				);
+			}
+		} while (again && !stopCopying.signal.aborted);
+	})()
+		.catch((e: unknown) => {
+			console.error(`photo copies: stopped (${e instanceof Error ? e.message : String(e)})`);
+		})
+		.finally(() => {
+			copying = null;
+		});
 }
 
 /** Photos taken at intake (not on an entry), oldest first. */

@@ -1,6 +1,6 @@
 // Files in a folder on this machine, behind the FileStorage interface. Free of SvelteKit imports
 // so that scripts (photos:thumbs) use the same store as the app (storage.ts).
-import { mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
+import { access, mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
 import { dirname, join, resolve } from 'node:path';
 
 export interface FileStorage {
@@ -8,6 +8,8 @@ export interface FileStorage {
 	/** The bytes, or null when there is no such file. */
 	get(key: string): Promise<Uint8Array | null>;
 	remove(key: string): Promise<void>;
+	/** Whether there is a file under the key, without reading it (optional: `get` answers too). */
+	exists?(key: string): Promise<boolean>;
 }
 
 /** Keys look like `<shop uuid>/<uuid>.<ext>`: nothing else reaches the disk. */
@@ -43,6 +45,12 @@ export function localDiskStorage(root: string): FileStorage {
 		},
 		async remove(key) {
 			await rm(pathOf(key), { force: true });
+		},
+		async exists(key) {
+			return access(pathOf(key)).then(
+				() => true,
+				() => false
+			);
 		}
 	};
 }

@@ -577,11 +577,22 @@ export const attachment = pgTable(
 		mime: text('mime').notNull(),
 		bytes: integer('bytes').notNull(),
 		storageKey: text('storage_key').notNull(),
+		/** The downscaled copy (thumbs.ts), recorded once it is in storage; null until then. */
 		thumbKey: text('thumb_key'),
+		/** Failed tries to make the copy: the background backfill gives up after a few. */
+		thumbTries: smallint('thumb_tries').notNull().default(0),
+		/** SHA-256 of the original file, hex: printed in the evidence pack. */
+		sha256: text('sha256'),
 		uploadedBy: uuid('uploaded_by').references(() => user.id, { onDelete: 'set null' }),
 		createdAt: createdAt()
 	},
-	(t) => [index('attachment_job_idx').on(t.jobId), index('attachment_entry_idx').on(t.entryId)]
+	(t) => [
+		index('attachment_job_idx').on(t.jobId),
+		index('attachment_entry_idx').on(t.entryId),
+		index('attachment_needs_copy_idx')
+			.on(t.id)
+			.where(sql`(thumb_key is null or sha256 is null) and thumb_tries < 3`)
+	]
 );
 
 /** The shop's final-inspection checklist. Ticks are log entries of kind `inspection`. */

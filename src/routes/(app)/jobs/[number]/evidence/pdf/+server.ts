@@ -1,9 +1,7 @@
 import { Readable } from 'node:stream';
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth';
-import { evidenceForJob } from '$lib/server/evidence-for-job';
-import { evidencePdfStream } from '$lib/server/evidence-pdf';
-import { uploads } from '$lib/server/storage';
+import { evidenceForJob, evidencePdfForJob } from '$lib/server/evidence-for-job';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = async ({ params }) => {
@@ -11,7 +9,7 @@ export const GET: RequestHandler = async ({ params }) => {
 	const pack = await evidenceForJob(user.shopId, params.number);
 	if (!pack) error(404, 'No such job card in this shop.');
 	// Sent as it is drawn: a pack with hundreds of photos is never held whole in memory.
-	const pdf = Readable.toWeb(evidencePdfStream(pack, uploads())) as ReadableStream<Uint8Array>;
+	const pdf = Readable.toWeb(evidencePdfForJob(pack)) as ReadableStream<Uint8Array>;
 	return new Response(pdf, {
 		headers: {
 			'content-type': 'application/pdf',
