@@ -23,7 +23,9 @@ import {
 const id = () => uuid('id').primaryKey().defaultRandom();
 /**
  * A shop table's id: its primary key is (shop_id, id), so an engine that distributes tables by
- * shop can enforce it (distribution.db.test.ts). Foreign keys between shop tables carry shop_id.
+ * shop can enforce it (distribution.db.test.ts). Foreign keys between shop tables carry shop_id;
+ * their `set null` clears only the id column in SQL (drizzle/0015: `SET NULL (col)`), which
+ * drizzle cannot write. A query by id alone misses the key: give it the shop_id too.
  */
 const rowId = () => uuid('id').notNull().defaultRandom();
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
