@@ -17,7 +17,7 @@ export const REFERENCE_TABLES = {
 const isReference = (/** @type {string} */ t) => Object.hasOwn(REFERENCE_TABLES, t);
 
 /**
- * @param {import('postgres').Sql} client
+ * @param {import('postgres').Sql | import('postgres').TransactionSql} client
  * @returns {Promise<string[]>} one line per obstacle
  */
 export async function obstacles(client) {
