@@ -127,8 +127,16 @@ try {
 	console.log(`  jobs, steps, customers: ${secs(t0)} s`);
 	// PER_JOB entries a job: 10 measurements of each step, 5 minutes apart; the first ten steps
 	// with a torque tool. Both shops chunk by chunk, so their seqs interleave as they would.
+	// The first job of each shop alone, then ANALYZE: the chain trigger's look-up of a repeated
+	// id plans once for a whole statement, and on a never-analyzed table it may pick an index
+	// led by shop_id alone and scan the shop's entries for each row (a live database has
+	// statistics from autovacuum). Then CHUNK_JOBS jobs a statement.
 	const t1 = performance.now();
-	for (let lo = 1; lo <= JOBS; lo += CHUNK_JOBS) {
+	const starts = [1, 2];
+	for (let lo = 2 + CHUNK_JOBS; lo <= JOBS; lo += CHUNK_JOBS) starts.push(lo);
+	for (const [k, lo] of starts.entries()) {
+		const hi = Math.min((starts[k + 1] ?? JOBS + 1) - 1, JOBS);
+		if (k === 1) await client`analyze log_entry`;
 		for (const shop of shops) {
 			await client`
 				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
@@ -142,12 +150,10 @@ try {
 				join job_step st on st.job_id = j.id
 				cross join generate_series(1, ${PER_JOB / STEPS}) r
 				cross join lateral (select round((st.nominal + (random() - 0.45) * 5 + 0 * r)::numeric, 1)::float8 as x) v
-				where j.shop_id = ${shop.id} and j.number between ${lo} and ${lo + CHUNK_JOBS - 1}
+				where j.shop_id = ${shop.id} and j.number between ${lo} and ${hi}
 				order by j.created_at + make_interval(mins => r * 5 + st.position / 4)`;
 		}
-		process.stdout.write(
-			`\r  log entries: ${Math.min(lo + CHUNK_JOBS - 1, JOBS) * PER_JOB * 2} in ${secs(t1)} s`
-		);
+		process.stdout.write(`\r  log entries: ${hi * PER_JOB * 2} in ${secs(t1)} s`);
 	}
 	// One entry in 200 retracted (a typo undone), so reads must skip retracted entries.
 	for (const shop of shops) {

@@ -108,7 +108,7 @@ export async function verifyChains(client: Sql, shopId?: string): Promise<Verify
 	>();
 	const headRows = await client`
 		select h.shop_id::text as shop_id, h.job_id::text as job_id, h.pos, h.hash, j.number
-		from log_chain_head h left join job j on j.id = h.job_id
+		from log_chain_head h left join job j on j.id = h.job_id and j.shop_id = h.shop_id
 		where ${shopId ?? null}::uuid is null or h.shop_id = ${shopId ?? null}::uuid`;
 	for (const h of headRows) {
 		heads.set(h.job_id, { shopId: h.shop_id, pos: h.pos, hash: h.hash, number: h.number });

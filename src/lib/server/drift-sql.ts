@@ -23,8 +23,8 @@ export function stepReadingsSql(shopId: string, procedureStepId: string, unit: s
 		join log_entry e on e.job_step_id = st.id and e.kind = 'measure' and e.spec_value is not null
 			and e.spec_unit = ${unit}
 			and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
-		join job j on j.id = st.job_id
-		left join torque_tool t on t.id = e.torque_tool_id
+		join job j on j.id = st.job_id and j.shop_id = st.shop_id
+		left join torque_tool t on t.id = e.torque_tool_id and t.shop_id = e.shop_id
 		where jl.shop_id = ${shopId} and jl.last_entry_at >= ${w.from.toISOString()}
 		  and ${isLive('e')}`;
 }
@@ -35,8 +35,8 @@ export function toolReadingsSql(shopId: string, toolId: string, w: Window) {
 		select e.id, e.occurred_at, e.spec_value as value, e.verdict, j.number as job_number,
 			st.label, null::text as tool, coalesce(st.nominal, (st.min + st.max) / 2) as nominal
 		from log_entry e
-		join job j on j.id = e.job_id
-		join job_step st on st.id = e.job_step_id
+		join job j on j.id = e.job_id and j.shop_id = e.shop_id
+		join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
 		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId}
 		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = st.unit
 		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}

@@ -105,7 +105,7 @@ export async function driftOptions(shopId: string, now = new Date()) {
 	const [steps, counts, tools] = await Promise.all([
 		db.execute(sql`
 			select ps.id, ps.label, p.name as procedure_name, ps.unit
-			from procedure_step ps join procedure p on p.id = ps.procedure_id
+			from procedure_step ps join procedure p on p.id = ps.procedure_id and p.shop_id = ps.shop_id
 			where ps.shop_id = ${shopId} and ps.unit is not null
 			order by p.name, ps.position`),
 		db.execute(stepCountsSql(shopId, recent)),
@@ -146,7 +146,7 @@ export async function driftForStep(
 		select ps.id, ps.label, ps.unit, ps.min, ps.max, ps.nominal, p.name as procedure_name,
 			sh.default_tolerance_pct
 		from procedure_step ps
-		join procedure p on p.id = ps.procedure_id
+		join procedure p on p.id = ps.procedure_id and p.shop_id = ps.shop_id
 		join shop sh on sh.id = ps.shop_id
 		where ps.id = ${procedureStepId} and ps.shop_id = ${shopId} and ps.unit is not null`);
 	if (!step) return null;

@@ -10,9 +10,9 @@ export const entryColumns = sql`
 	e.kind, e.raw_text, e.value, e.unit, e.spec_value, e.spec_unit, e.verdict, e.note,
 	st.label as step_label, e.retracts, e.responds_to, e.occurred_at`;
 export const entryJoins = sql`
-	join job j on j.id = e.job_id
+	join job j on j.id = e.job_id and j.shop_id = e.shop_id
 	join "user" u on u.id = e.author_id
-	left join job_step st on st.id = e.job_step_id`;
+	left join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id`;
 
 function likePattern(q: string): string {
 	return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
@@ -77,8 +77,8 @@ export function openOutOfSpecSql(
 			e.verdict, e.fluid, e.fluid_verdict, st.min, st.max, st.nominal, e.occurred_at
 		from job j
 		join job_step_state ss on ss.job_id = j.id and ss.shop_id = j.shop_id and ss.waiting
-		join log_entry e on e.id = ss.latest_measure_id
-		join job_step st on st.id = ss.job_step_id
+		join log_entry e on e.id = ss.latest_measure_id and e.shop_id = ss.shop_id
+		join job_step st on st.id = ss.job_step_id and st.shop_id = ss.shop_id
 		join "user" u on u.id = e.author_id
 		where j.shop_id = ${shopId}
 		  and j.state = any(${stateArray(openStates)}::job_state[])

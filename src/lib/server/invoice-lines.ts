@@ -76,7 +76,7 @@ export async function makeDraft(
 					labourRateMinor: s.labourRateMinor,
 					taxRateBp: s.taxRateBp
 				})
-				.where(eq(invoice.id, draft.id));
+				.where(and(eq(invoice.shopId, shopId), eq(invoice.id, draft.id)));
 		}
 		const kept = await tx
 			.select()
@@ -267,7 +267,7 @@ export async function pickPart(
 				taxMinor: priced.taxMinor,
 				unmatched: false
 			})
-			.where(eq(invoiceLine.id, l.id));
+			.where(and(eq(invoiceLine.shopId, shopId), eq(invoiceLine.id, l.id)));
 		await recomputeTotals(tx, shopId, invoiceId);
 		return { ok: true };
 	});

@@ -183,7 +183,7 @@ export async function issueInvoice(
 				issuedBy: byUserId,
 				updatedAt: new Date()
 			})
-			.where(eq(invoice.id, invoiceId));
+			.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)));
 		return { ok: true, number };
 	});
 }
@@ -254,8 +254,11 @@ export async function creditInvoice(
 		await tx
 			.update(invoice)
 			.set({ status: 'credited', updatedAt: new Date() })
-			.where(eq(invoice.id, row.id));
-		const [j] = await tx.select({ state: job.state }).from(job).where(eq(job.id, row.jobId));
+			.where(and(eq(invoice.shopId, shopId), eq(invoice.id, row.id)));
+		const [j] = await tx
+			.select({ state: job.state })
+			.from(job)
+			.where(and(eq(job.shopId, shopId), eq(job.id, row.jobId)));
 		if (j?.state === 'invoiced') {
 			const moved = await transitionJob(shopId, row.jobId, 'ready_to_invoice', {
 				byUserId,

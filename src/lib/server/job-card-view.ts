@@ -24,8 +24,8 @@ export async function getJobCard(shopId: string, number: number) {
 			technicianName: user.name
 		})
 		.from(job)
-		.leftJoin(customer, eq(customer.id, job.customerId))
-		.leftJoin(vehicle, eq(vehicle.id, job.vehicleId))
+		.leftJoin(customer, and(eq(customer.shopId, job.shopId), eq(customer.id, job.customerId)))
+		.leftJoin(vehicle, and(eq(vehicle.shopId, job.shopId), eq(vehicle.id, job.vehicleId)))
 		.leftJoin(user, eq(user.id, job.technicianId))
 		.where(and(eq(job.shopId, shopId), eq(job.number, number)))
 		.limit(1);
@@ -39,7 +39,7 @@ export async function getJobCard(shopId: string, number: number) {
 	const steps = await db
 		.select({ step: jobStep, partCode: part.code, partDescription: part.description })
 		.from(jobStep)
-		.leftJoin(part, eq(part.id, jobStep.partId))
+		.leftJoin(part, and(eq(part.shopId, jobStep.shopId), eq(part.id, jobStep.partId)))
 		.where(and(eq(jobStep.shopId, shopId), eq(jobStep.jobId, jobId)))
 		.orderBy(asc(jobStep.position));
 	// A step's state: its latest live entry (not retracted, not itself a retraction).
@@ -58,7 +58,7 @@ export async function getJobCard(shopId: string, number: number) {
 			${isRetracted('e')} as retracted
 		from log_entry e
 		join "user" u on u.id = e.author_id
-		left join job_step s on s.id = e.job_step_id
+		left join job_step s on s.id = e.job_step_id and s.shop_id = e.shop_id
 		where e.shop_id = ${shopId} and e.job_id = ${jobId}
 		order by e.seq desc
 		limit 500

@@ -40,8 +40,8 @@ export function listJobsSql(shopId: string, filter: JobListFilter) {
 			ls.last_entry_at
 		from job j
 		left join "user" t on t.id = j.technician_id
-		left join customer c on c.id = j.customer_id
-		left join vehicle v on v.id = j.vehicle_id
+		left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
 		left join job_log_state ls on ls.shop_id = j.shop_id and ls.job_id = j.id
 		left join lateral (
 			select count(*) filter (where x.done) as done,
@@ -110,8 +110,8 @@ function whereSql(shopId: string, query: JobTableQuery): SQL {
 }
 
 const joins = sql`
-	left join customer c on c.id = j.customer_id
-	left join vehicle v on v.id = j.vehicle_id
+	left join customer c on c.id = j.customer_id and c.shop_id = j.shop_id
+	left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
 	left join "user" t on t.id = j.technician_id`;
 
 /** How many job cards match the query (over all pages). */

@@ -223,7 +223,7 @@ export async function recordPayment(
 				providerReference: p.providerReference ?? null,
 				recordedBy: p.byUserId ?? null
 			})
-			.onConflictDoNothing({ target: payment.providerReference })
+			.onConflictDoNothing({ target: [payment.shopId, payment.providerReference] })
 			.returning({ id: payment.id });
 		const recorded = inserted.length > 0;
 		const paid = Number(before) + (recorded ? p.amountMinor : 0);
@@ -232,8 +232,11 @@ export async function recordPayment(
 			await tx
 				.update(invoice)
 				.set({ status: 'paid', paidAt: new Date(), updatedAt: new Date() })
-				.where(eq(invoice.id, invoiceId));
-			const [j] = await tx.select({ state: job.state }).from(job).where(eq(job.id, row.jobId));
+				.where(and(eq(invoice.shopId, shopId), eq(invoice.id, invoiceId)));
+			const [j] = await tx
+				.select({ state: job.state })
+				.from(job)
+				.where(and(eq(job.shopId, shopId), eq(job.id, row.jobId)));
 			if (j?.state === 'invoiced') {
 				const moved = await transitionJob(shopId, row.jobId, 'paid', {
 					byUserId: p.byUserId ?? row.issuedBy ?? row.createdBy ?? '',
@@ -298,7 +301,7 @@ export async function applyCheckoutCompleted(ev: {
 		const [after] = await tx
 			.select({ status: invoice.status, total: invoice.totalMinor })
 			.from(invoice)
-			.where(eq(invoice.id, ev.invoiceId));
+			.where(and(eq(invoice.shopId, ev.shopId), eq(invoice.id, ev.invoiceId)));
 		const [{ paid }] = await tx
 			.select({ paid: sql<string>`coalesce(sum(${payment.amountMinor}), 0)::bigint` })
 			.from(payment)

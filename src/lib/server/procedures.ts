@@ -41,11 +41,14 @@ export async function listProcedures(
 			steps: count(procedureStep.id)
 		})
 		.from(procedure)
-		.leftJoin(procedureStep, eq(procedureStep.procedureId, procedure.id))
+		.leftJoin(
+			procedureStep,
+			and(eq(procedureStep.shopId, procedure.shopId), eq(procedureStep.procedureId, procedure.id))
+		)
 		.where(
 			and(eq(procedure.shopId, shopId), opts.archived ? undefined : isNull(procedure.archivedAt))
 		)
-		.groupBy(procedure.id)
+		.groupBy(procedure.shopId, procedure.id)
 		.orderBy(asc(procedure.name));
 	return rows;
 }
@@ -78,7 +81,7 @@ export async function getProcedure(shopId: string, id: string) {
 			partUnit: part.unit
 		})
 		.from(procedureStep)
-		.leftJoin(part, eq(part.id, procedureStep.partId))
+		.leftJoin(part, and(eq(part.shopId, procedureStep.shopId), eq(part.id, procedureStep.partId)))
 		.where(and(eq(procedureStep.shopId, shopId), eq(procedureStep.procedureId, id)))
 		.orderBy(asc(procedureStep.position));
 	return { ...row, steps };
@@ -288,7 +291,7 @@ export async function moveStep(
 			await tx
 				.update(procedureStep)
 				.set({ position: k + 1 })
-				.where(eq(procedureStep.id, s.id));
+				.where(and(eq(procedureStep.shopId, shopId), eq(procedureStep.id, s.id)));
 		}
 		await touch(tx, shopId, procedureId);
 		return true;
@@ -380,7 +383,10 @@ export async function exportProcedures(shopId: string, ids?: string[]): Promise<
 		? await db
 				.select({ step: procedureStep, code: part.code })
 				.from(procedureStep)
-				.leftJoin(part, eq(part.id, procedureStep.partId))
+				.leftJoin(
+					part,
+					and(eq(part.shopId, procedureStep.shopId), eq(part.id, procedureStep.partId))
+				)
 				.where(
 					and(
 						eq(procedureStep.shopId, shopId),

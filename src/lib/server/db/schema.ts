@@ -6,6 +6,7 @@ import {
 	boolean,
 	date,
 	doublePrecision,
+	foreignKey,
 	index,
 	integer,
 	jsonb,
@@ -16,11 +17,17 @@ import {
 	text,
 	timestamp,
 	uniqueIndex,
-	uuid,
-	type AnyPgColumn
+	uuid
 } from 'drizzle-orm/pg-core';
 
 const id = () => uuid('id').primaryKey().defaultRandom();
+/**
+ * A shop table's id: its primary key is (shop_id, id), so an engine that distributes tables by
+ * shop can enforce it (distribution.db.test.ts). Foreign keys between shop tables carry shop_id;
+ * their `set null` clears only the id column in SQL (drizzle/0015: `SET NULL (col)`), which
+ * drizzle cannot write. A query by id alone misses the key: give it the shop_id too.
+ */
+const rowId = () => uuid('id').notNull().defaultRandom();
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
 const shopRef = () =>
 	uuid('shop_id')
@@ -103,7 +110,7 @@ export const signInFailure = pgTable(
 export const customer = pgTable(
 	'customer',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
 		name: text('name').notNull(),
 		phone: text('phone'),
@@ -111,6 +118,7 @@ export const customer = pgTable(
 		createdAt: createdAt()
 	},
 	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
 		index('customer_shop_idx').on(t.shopId, t.name),
 		index('customer_name_trgm_idx').using('gin', sql`lower(${t.name}) gin_trgm_ops`)
 	]
@@ -120,9 +128,9 @@ export type Customer = typeof customer.$inferSelect;
 export const vehicle = pgTable(
 	'vehicle',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		customerId: uuid('customer_id').references(() => customer.id, { onDelete: 'set null' }),
+		customerId: uuid('customer_id'),
 		registration: text('registration').notNull(),
 		frameNumber: text('frame_number'),
 		/** Make and model as free text: Benchcall keeps no catalogue of makes. */
@@ -133,6 +141,12 @@ export const vehicle = pgTable(
 		createdAt: createdAt()
 	},
 	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'vehicle_customer_id_fk',
+			columns: [t.shopId, t.customerId],
+			foreignColumns: [customer.shopId, customer.id]
+		}).onDelete('set null'),
 		index('vehicle_shop_idx').on(t.shopId, t.registration),
 		index('vehicle_registration_trgm_idx').using(
 			'gin',
@@ -148,7 +162,7 @@ export const partUnitEnum = pgEnum('part_unit', ['each', 'L', 'mL']);
 export const part = pgTable(
 	'part',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
 		code: text('code').notNull(),
 		description: text('description').notNull(),
@@ -159,14 +173,17 @@ export const part = pgTable(
 		active: boolean('active').notNull().default(true),
 		createdAt: createdAt()
 	},
-	(t) => [uniqueIndex('part_shop_code_key').on(t.shopId, t.code)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		uniqueIndex('part_shop_code_key').on(t.shopId, t.code)
+	]
 );
 export type Part = typeof part.$inferSelect;
 
 export const torqueTool = pgTable(
 	'torque_tool',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
 		identifier: text('identifier').notNull(),
 		/** ISO 6789 type and class in words, e.g. "Type II class A click". */
@@ -183,7 +200,10 @@ export const torqueTool = pgTable(
 		active: boolean('active').notNull().default(true),
 		createdAt: createdAt()
 	},
-	(t) => [uniqueIndex('torque_tool_shop_identifier_key').on(t.shopId, t.identifier)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		uniqueIndex('torque_tool_shop_identifier_key').on(t.shopId, t.identifier)
+	]
 );
 export type TorqueTool = typeof torqueTool.$inferSelect;
 
@@ -200,11 +220,9 @@ export interface CheckPoint {
 export const torqueToolCheck = pgTable(
 	'torque_tool_check',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		torqueToolId: uuid('torque_tool_id')
-			.notNull()
-			.references(() => torqueTool.id, { onDelete: 'cascade' }),
+		torqueToolId: uuid('torque_tool_id').notNull(),
 		checkedOn: date('checked_on', { mode: 'string' }).notNull(),
 		/** Who checked it, or the laboratory, as the owner writes it. */
 		checkedBy: text('checked_by').notNull(),
@@ -222,14 +240,22 @@ export const torqueToolCheck = pgTable(
 			.references(() => user.id),
 		createdAt: createdAt()
 	},
-	(t) => [index('torque_tool_check_tool_idx').on(t.torqueToolId, t.checkedOn)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'torque_tool_check_torque_tool_id_fk',
+			columns: [t.shopId, t.torqueToolId],
+			foreignColumns: [torqueTool.shopId, torqueTool.id]
+		}).onDelete('cascade'),
+		index('torque_tool_check_tool_idx').on(t.torqueToolId, t.checkedOn)
+	]
 );
 export type TorqueToolCheck = typeof torqueToolCheck.$inferSelect;
 
 export const procedure = pgTable(
 	'procedure',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
 		name: text('name').notNull(),
 		appliesTo: text('applies_to').notNull().default(''),
@@ -242,7 +268,10 @@ export const procedure = pgTable(
 		createdAt: createdAt(),
 		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
 	},
-	(t) => [index('procedure_shop_idx').on(t.shopId, t.name)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		index('procedure_shop_idx').on(t.shopId, t.name)
+	]
 );
 export type Procedure = typeof procedure.$inferSelect;
 
@@ -268,22 +297,33 @@ const specColumns = () => ({
 	 */
 	adapterLengthMm: doublePrecision('adapter_length_mm'),
 	adapterDirection: text('adapter_direction'),
-	partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
+	partId: uuid('part_id'),
 	partQuantity: doublePrecision('part_quantity')
 });
 
 export const procedureStep = pgTable(
 	'procedure_step',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		procedureId: uuid('procedure_id')
-			.notNull()
-			.references(() => procedure.id, { onDelete: 'cascade' }),
+		procedureId: uuid('procedure_id').notNull(),
 		position: integer('position').notNull(),
 		...specColumns()
 	},
-	(t) => [index('procedure_step_procedure_idx').on(t.procedureId, t.position)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'procedure_step_procedure_id_fk',
+			columns: [t.shopId, t.procedureId],
+			foreignColumns: [procedure.shopId, procedure.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'procedure_step_part_id_fk',
+			columns: [t.shopId, t.partId],
+			foreignColumns: [part.shopId, part.id]
+		}).onDelete('set null'),
+		index('procedure_step_procedure_idx').on(t.procedureId, t.position)
+	]
 );
 export type ProcedureStep = typeof procedureStep.$inferSelect;
 
@@ -301,12 +341,12 @@ export const jobStateEnum = pgEnum('job_state', [
 export const job = pgTable(
 	'job',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
 		/** The job card number, counted per shop. */
 		number: integer('number').notNull(),
-		customerId: uuid('customer_id').references(() => customer.id, { onDelete: 'set null' }),
-		vehicleId: uuid('vehicle_id').references(() => vehicle.id, { onDelete: 'set null' }),
+		customerId: uuid('customer_id'),
+		vehicleId: uuid('vehicle_id'),
 		odometer: integer('odometer'),
 		odometerUnit: text('odometer_unit').notNull().default('km'),
 		fuelLevel: text('fuel_level'),
@@ -329,6 +369,17 @@ export const job = pgTable(
 		stepsVersion: integer('steps_version').notNull().default(0)
 	},
 	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'job_customer_id_fk',
+			columns: [t.shopId, t.customerId],
+			foreignColumns: [customer.shopId, customer.id]
+		}).onDelete('set null'),
+		foreignKey({
+			name: 'job_vehicle_id_fk',
+			columns: [t.shopId, t.vehicleId],
+			foreignColumns: [vehicle.shopId, vehicle.id]
+		}).onDelete('set null'),
 		uniqueIndex('job_shop_number_key').on(t.shopId, t.number),
 		index('job_shop_state_idx').on(t.shopId, t.state),
 		index('job_shop_created_idx').on(t.shopId, t.createdAt),
@@ -344,36 +395,53 @@ export type Job = typeof job.$inferSelect;
 export const jobStateChange = pgTable(
 	'job_state_change',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
+		jobId: uuid('job_id').notNull(),
 		fromState: jobStateEnum('from_state'),
 		toState: jobStateEnum('to_state').notNull(),
 		reason: text('reason'),
 		byUserId: uuid('by_user_id').references(() => user.id, { onDelete: 'set null' }),
 		at: timestamp('at', { withTimezone: true }).notNull().defaultNow()
 	},
-	(t) => [index('job_state_change_job_idx').on(t.jobId, t.at)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'job_state_change_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		index('job_state_change_job_idx').on(t.jobId, t.at)
+	]
 );
 
 /** A procedure attached to a job: name and flat-rate hours copied at the time. */
 export const jobProcedure = pgTable(
 	'job_procedure',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
-		procedureId: uuid('procedure_id').references(() => procedure.id, { onDelete: 'set null' }),
+		jobId: uuid('job_id').notNull(),
+		procedureId: uuid('procedure_id'),
 		name: text('name').notNull(),
 		flatRateHours: doublePrecision('flat_rate_hours').notNull().default(0),
 		position: integer('position').notNull(),
 		createdAt: createdAt()
 	},
-	(t) => [index('job_procedure_job_idx').on(t.jobId, t.position)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'job_procedure_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'job_procedure_procedure_id_fk',
+			columns: [t.shopId, t.procedureId],
+			foreignColumns: [procedure.shopId, procedure.id]
+		}).onDelete('set null'),
+		index('job_procedure_job_idx').on(t.jobId, t.position)
+	]
 );
 
 /**
@@ -383,21 +451,36 @@ export const jobProcedure = pgTable(
 export const jobStep = pgTable(
 	'job_step',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
-		jobProcedureId: uuid('job_procedure_id')
-			.notNull()
-			.references(() => jobProcedure.id, { onDelete: 'cascade' }),
-		procedureStepId: uuid('procedure_step_id').references(() => procedureStep.id, {
-			onDelete: 'set null'
-		}),
+		jobId: uuid('job_id').notNull(),
+		jobProcedureId: uuid('job_procedure_id').notNull(),
+		procedureStepId: uuid('procedure_step_id'),
 		position: integer('position').notNull(),
 		...specColumns()
 	},
 	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'job_step_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'job_step_job_procedure_id_fk',
+			columns: [t.shopId, t.jobProcedureId],
+			foreignColumns: [jobProcedure.shopId, jobProcedure.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'job_step_procedure_step_id_fk',
+			columns: [t.shopId, t.procedureStepId],
+			foreignColumns: [procedureStep.shopId, procedureStep.id]
+		}).onDelete('set null'),
+		foreignKey({
+			name: 'job_step_part_id_fk',
+			columns: [t.shopId, t.partId],
+			foreignColumns: [part.shopId, part.id]
+		}).onDelete('set null'),
 		index('job_step_job_idx').on(t.jobId, t.position),
 		index('job_step_procedure_step_idx').on(t.procedureStepId)
 	]
@@ -426,14 +509,16 @@ export const logEntry = pgTable(
 	'log_entry',
 	{
 		/** Made on the device, so a resend of the same entry is recognised. */
-		id: uuid('id').primaryKey(),
-		/** Server-side order of arrival, for keyset pagination and live catch-up. */
-		seq: bigint('seq', { mode: 'number' }).notNull().generatedAlwaysAsIdentity(),
+		id: uuid('id').notNull(),
+		/**
+		 * The shop's order of arrival, for keyset pagination and live catch-up: set by a trigger
+		 * from the shop's own sequence (drizzle/0015), whatever the default says. Rising within a
+		 * shop, with gaps; never compared across shops.
+		 */
+		seq: bigint('seq', { mode: 'number' }).notNull().default(0),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
-		jobStepId: uuid('job_step_id').references(() => jobStep.id, { onDelete: 'set null' }),
+		jobId: uuid('job_id').notNull(),
+		jobStepId: uuid('job_step_id'),
 		authorId: uuid('author_id')
 			.notNull()
 			.references(() => user.id),
@@ -452,9 +537,9 @@ export const logEntry = pgTable(
 		/** The grade against the step's fluid spec: 'meets', 'fails', 'not_stated'; null: no spec. */
 		fluidVerdict: text('fluid_verdict'),
 		note: text('note'),
-		partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
+		partId: uuid('part_id'),
 		partQuantity: doublePrecision('part_quantity'),
-		torqueToolId: uuid('torque_tool_id').references(() => torqueTool.id, { onDelete: 'set null' }),
+		torqueToolId: uuid('torque_tool_id'),
 		/** The torque tool was past its calibration due date when this entry was made. */
 		toolCalibrationOverdue: boolean('tool_calibration_overdue').notNull().default(false),
 		/** Adapter on the wrench, signed mm along the lever (negative: back; 0: at 90°). */
@@ -463,13 +548,11 @@ export const logEntry = pgTable(
 		toolLengthMm: doublePrecision('tool_length_mm'),
 		wrenchSetting: doublePrecision('wrench_setting'),
 		wrenchSettingUnit: text('wrench_setting_unit'),
-		retracts: uuid('retracts').references((): AnyPgColumn => logEntry.id),
+		retracts: uuid('retracts'),
 		/** For a foreman's accept or redo: the out-of-spec entry it answers. */
-		respondsTo: uuid('responds_to').references((): AnyPgColumn => logEntry.id),
+		respondsTo: uuid('responds_to'),
 		/** For an inspection entry: the checklist item ticked. */
-		inspectionItemId: uuid('inspection_item_id').references(() => inspectionItem.id, {
-			onDelete: 'set null'
-		}),
+		inspectionItemId: uuid('inspection_item_id'),
 		occurredAt: timestamp('occurred_at', { withTimezone: true }).notNull(),
 		recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow(),
 		/**
@@ -484,10 +567,45 @@ export const logEntry = pgTable(
 		chainV: smallint('chain_v').notNull().default(2)
 	},
 	(t) => [
-		uniqueIndex('log_entry_seq_key').on(t.seq),
-		uniqueIndex('log_entry_job_chain_key').on(t.jobId, t.chainPos),
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'log_entry_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'log_entry_job_step_id_fk',
+			columns: [t.shopId, t.jobStepId],
+			foreignColumns: [jobStep.shopId, jobStep.id]
+		}).onDelete('set null'),
+		foreignKey({
+			name: 'log_entry_part_id_fk',
+			columns: [t.shopId, t.partId],
+			foreignColumns: [part.shopId, part.id]
+		}).onDelete('set null'),
+		foreignKey({
+			name: 'log_entry_torque_tool_id_fk',
+			columns: [t.shopId, t.torqueToolId],
+			foreignColumns: [torqueTool.shopId, torqueTool.id]
+		}).onDelete('set null'),
+		foreignKey({
+			name: 'log_entry_retracts_fk',
+			columns: [t.shopId, t.retracts],
+			foreignColumns: [t.shopId, t.id]
+		}),
+		foreignKey({
+			name: 'log_entry_responds_to_fk',
+			columns: [t.shopId, t.respondsTo],
+			foreignColumns: [t.shopId, t.id]
+		}),
+		foreignKey({
+			name: 'log_entry_inspection_item_id_fk',
+			columns: [t.shopId, t.inspectionItemId],
+			foreignColumns: [inspectionItem.shopId, inspectionItem.id]
+		}).onDelete('set null'),
+		uniqueIndex('log_entry_shop_seq_key').on(t.shopId, t.seq),
+		uniqueIndex('log_entry_job_chain_key').on(t.shopId, t.jobId, t.chainPos),
 		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
-		index('log_entry_shop_seq_idx').on(t.shopId, t.seq),
 		index('log_entry_step_seq_idx').on(t.jobStepId, t.seq),
 		index('log_entry_retracts_idx').on(t.retracts),
 		index('log_entry_responds_to_idx').on(t.respondsTo),
@@ -509,13 +627,18 @@ export const logChainHead = pgTable(
 	'log_chain_head',
 	{
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
+		jobId: uuid('job_id').notNull(),
 		pos: integer('pos').notNull(),
 		hash: text('hash')
 	},
-	(t) => [primaryKey({ columns: [t.shopId, t.jobId] })]
+	(t) => [
+		foreignKey({
+			name: 'log_chain_head_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		primaryKey({ columns: [t.shopId, t.jobId] })
+	]
 );
 
 /**
@@ -526,12 +649,8 @@ export const jobStepState = pgTable(
 	'job_step_state',
 	{
 		shopId: shopRef(),
-		jobStepId: uuid('job_step_id')
-			.notNull()
-			.references(() => jobStep.id, { onDelete: 'cascade' }),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
+		jobStepId: uuid('job_step_id').notNull(),
+		jobId: uuid('job_id').notNull(),
 		done: boolean('done').notNull().default(false),
 		latestMeasureId: uuid('latest_measure_id'),
 		latestMeasureSeq: bigint('latest_measure_seq', { mode: 'number' }),
@@ -539,6 +658,16 @@ export const jobStepState = pgTable(
 		waiting: boolean('waiting').notNull().default(false)
 	},
 	(t) => [
+		foreignKey({
+			name: 'job_step_state_job_step_id_fk',
+			columns: [t.shopId, t.jobStepId],
+			foreignColumns: [jobStep.shopId, jobStep.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'job_step_state_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
 		primaryKey({ columns: [t.shopId, t.jobStepId] }),
 		index('job_step_state_job_idx').on(t.jobId),
 		index('job_step_state_waiting_idx')
@@ -552,12 +681,15 @@ export const jobLogState = pgTable(
 	'job_log_state',
 	{
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
+		jobId: uuid('job_id').notNull(),
 		lastEntryAt: timestamp('last_entry_at', { withTimezone: true })
 	},
 	(t) => [
+		foreignKey({
+			name: 'job_log_state_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
 		primaryKey({ columns: [t.shopId, t.jobId] }),
 		index('job_log_state_last_entry_idx').on(t.shopId, t.lastEntryAt)
 	]
@@ -567,12 +699,10 @@ export const jobLogState = pgTable(
 export const attachment = pgTable(
 	'attachment',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
-		entryId: uuid('entry_id').references(() => logEntry.id),
+		jobId: uuid('job_id').notNull(),
+		entryId: uuid('entry_id'),
 		fileName: text('file_name').notNull(),
 		mime: text('mime').notNull(),
 		bytes: integer('bytes').notNull(),
@@ -587,6 +717,17 @@ export const attachment = pgTable(
 		createdAt: createdAt()
 	},
 	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'attachment_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'attachment_entry_id_fk',
+			columns: [t.shopId, t.entryId],
+			foreignColumns: [logEntry.shopId, logEntry.id]
+		}),
 		index('attachment_job_idx').on(t.jobId),
 		index('attachment_entry_idx').on(t.entryId),
 		index('attachment_needs_copy_idx')
@@ -599,25 +740,26 @@ export const attachment = pgTable(
 export const inspectionItem = pgTable(
 	'inspection_item',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
 		label: text('label').notNull(),
 		position: integer('position').notNull(),
 		active: boolean('active').notNull().default(true),
 		createdAt: createdAt()
 	},
-	(t) => [index('inspection_item_shop_idx').on(t.shopId, t.position)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		index('inspection_item_shop_idx').on(t.shopId, t.position)
+	]
 );
 
 /** The customer's approval of extra work found during a job, recorded before steps are added. */
 export const jobApproval = pgTable(
 	'job_approval',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
+		jobId: uuid('job_id').notNull(),
 		description: text('description').notNull(),
 		/** Who approved: the customer's name as they gave it. */
 		approvedBy: text('approved_by').notNull(),
@@ -627,7 +769,15 @@ export const jobApproval = pgTable(
 		recordedBy: uuid('recorded_by').references(() => user.id, { onDelete: 'set null' }),
 		createdAt: createdAt()
 	},
-	(t) => [index('job_approval_job_idx').on(t.jobId)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'job_approval_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		index('job_approval_job_idx').on(t.jobId)
+	]
 );
 
 // ——— Invoices, payments and e-mail ———
@@ -644,11 +794,9 @@ export const labourModeEnum = pgEnum('labour_mode', ['flat_rate', 'clock']);
 export const invoice = pgTable(
 	'invoice',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		jobId: uuid('job_id')
-			.notNull()
-			.references(() => job.id, { onDelete: 'cascade' }),
+		jobId: uuid('job_id').notNull(),
 		kind: invoiceKindEnum('kind').notNull().default('invoice'),
 		/** Null until issued; then the shop's next number, gapless. */
 		number: integer('number'),
@@ -663,7 +811,7 @@ export const invoice = pgTable(
 		totalMinor: integer('total_minor').notNull().default(0),
 		issuedAt: timestamp('issued_at', { withTimezone: true }),
 		issuedBy: uuid('issued_by').references(() => user.id, { onDelete: 'set null' }),
-		creditFor: uuid('credit_for').references((): AnyPgColumn => invoice.id),
+		creditFor: uuid('credit_for'),
 		/** The customer's private page `/r/<token>`: 256 random bits, base64url. */
 		customerToken: text('customer_token').notNull(),
 		/** The payment provider's checkout session for the total, once made. */
@@ -674,8 +822,19 @@ export const invoice = pgTable(
 		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
 	},
 	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'invoice_job_id_fk',
+			columns: [t.shopId, t.jobId],
+			foreignColumns: [job.shopId, job.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'invoice_credit_for_fk',
+			columns: [t.shopId, t.creditFor],
+			foreignColumns: [t.shopId, t.id]
+		}),
 		uniqueIndex('invoice_shop_number_key').on(t.shopId, t.number),
-		uniqueIndex('invoice_customer_token_key').on(t.customerToken),
+		uniqueIndex('invoice_customer_token_key').on(t.customerToken, t.shopId),
 		index('invoice_job_idx').on(t.shopId, t.jobId),
 		index('invoice_checkout_session_idx').on(t.checkoutSessionId)
 	]
@@ -693,14 +852,12 @@ export const invoiceLineKindEnum = pgEnum('invoice_line_kind', [
 export const invoiceLine = pgTable(
 	'invoice_line',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		invoiceId: uuid('invoice_id')
-			.notNull()
-			.references(() => invoice.id, { onDelete: 'cascade' }),
+		invoiceId: uuid('invoice_id').notNull(),
 		kind: invoiceLineKindEnum('kind').notNull(),
 		description: text('description').notNull(),
-		partId: uuid('part_id').references(() => part.id, { onDelete: 'set null' }),
+		partId: uuid('part_id'),
 		quantity: doublePrecision('quantity').notNull(),
 		/** Price-list unit (each, L, mL) or h for labour. */
 		unit: text('unit').notNull(),
@@ -711,11 +868,34 @@ export const invoiceLine = pgTable(
 		/** No price-list match yet: the service writer picks a part before issuing. */
 		unmatched: boolean('unmatched').notNull().default(false),
 		/** The log entry or step the line came from, when it came from the log. */
-		sourceEntryId: uuid('source_entry_id').references(() => logEntry.id),
-		sourceStepId: uuid('source_step_id').references(() => jobStep.id, { onDelete: 'set null' }),
+		sourceEntryId: uuid('source_entry_id'),
+		sourceStepId: uuid('source_step_id'),
 		position: integer('position').notNull()
 	},
-	(t) => [index('invoice_line_invoice_idx').on(t.invoiceId, t.position)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'invoice_line_invoice_id_fk',
+			columns: [t.shopId, t.invoiceId],
+			foreignColumns: [invoice.shopId, invoice.id]
+		}).onDelete('cascade'),
+		foreignKey({
+			name: 'invoice_line_part_id_fk',
+			columns: [t.shopId, t.partId],
+			foreignColumns: [part.shopId, part.id]
+		}).onDelete('set null'),
+		foreignKey({
+			name: 'invoice_line_source_entry_id_fk',
+			columns: [t.shopId, t.sourceEntryId],
+			foreignColumns: [logEntry.shopId, logEntry.id]
+		}),
+		foreignKey({
+			name: 'invoice_line_source_step_id_fk',
+			columns: [t.shopId, t.sourceStepId],
+			foreignColumns: [jobStep.shopId, jobStep.id]
+		}).onDelete('set null'),
+		index('invoice_line_invoice_idx').on(t.invoiceId, t.position)
+	]
 );
 export type InvoiceLine = typeof invoiceLine.$inferSelect;
 
@@ -732,11 +912,9 @@ export const paymentMethodEnum = pgEnum('payment_method', ['cash', 'card', 'onli
 export const payment = pgTable(
 	'payment',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		invoiceId: uuid('invoice_id')
-			.notNull()
-			.references(() => invoice.id, { onDelete: 'cascade' }),
+		invoiceId: uuid('invoice_id').notNull(),
 		method: paymentMethodEnum('method').notNull(),
 		amountMinor: integer('amount_minor').notNull(),
 		/** The provider's id (checkout session or payment); unique so a repeat cannot pay twice. */
@@ -746,19 +924,29 @@ export const payment = pgTable(
 		createdAt: createdAt()
 	},
 	(t) => [
-		uniqueIndex('payment_provider_reference_key').on(t.providerReference),
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'payment_invoice_id_fk',
+			columns: [t.shopId, t.invoiceId],
+			foreignColumns: [invoice.shopId, invoice.id]
+		}).onDelete('cascade'),
+		uniqueIndex('payment_provider_reference_key').on(t.shopId, t.providerReference),
 		index('payment_invoice_idx').on(t.invoiceId)
 	]
 );
 export type Payment = typeof payment.$inferSelect;
 
 /** Webhook events already handled, so a repeated delivery changes nothing. */
-export const webhookEvent = pgTable('webhook_event', {
-	eventId: text('event_id').primaryKey(),
-	shopId: shopRef(),
-	type: text('type').notNull(),
-	receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow()
-});
+export const webhookEvent = pgTable(
+	'webhook_event',
+	{
+		eventId: text('event_id').notNull(),
+		shopId: shopRef(),
+		type: text('type').notNull(),
+		receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [primaryKey({ columns: [t.shopId, t.eventId] })]
+);
 
 export const mailStatusEnum = pgEnum('mail_status', ['sent', 'failed']);
 
@@ -766,9 +954,9 @@ export const mailStatusEnum = pgEnum('mail_status', ['sent', 'failed']);
 export const mailOutbox = pgTable(
 	'mail_outbox',
 	{
-		id: id(),
+		id: rowId(),
 		shopId: shopRef(),
-		invoiceId: uuid('invoice_id').references(() => invoice.id, { onDelete: 'set null' }),
+		invoiceId: uuid('invoice_id'),
 		toAddress: text('to_address').notNull(),
 		subject: text('subject').notNull(),
 		messageId: text('message_id'),
@@ -779,6 +967,14 @@ export const mailOutbox = pgTable(
 		sentBy: uuid('sent_by').references(() => user.id, { onDelete: 'set null' }),
 		createdAt: createdAt()
 	},
-	(t) => [index('mail_outbox_shop_idx').on(t.shopId, t.createdAt)]
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.id] }),
+		foreignKey({
+			name: 'mail_outbox_invoice_id_fk',
+			columns: [t.shopId, t.invoiceId],
+			foreignColumns: [invoice.shopId, invoice.id]
+		}).onDelete('set null'),
+		index('mail_outbox_shop_idx').on(t.shopId, t.createdAt)
+	]
 );
 export type MailOutbox = typeof mailOutbox.$inferSelect;

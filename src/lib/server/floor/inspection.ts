@@ -45,7 +45,7 @@ export async function getInspection(
 		from job j
 		left join "user" t on t.id = j.technician_id
 		left join "user" so on so.id = j.signed_off_by
-		left join vehicle v on v.id = j.vehicle_id
+		left join vehicle v on v.id = j.vehicle_id and v.shop_id = j.shop_id
 		where j.id = ${jobId} and j.shop_id = ${shopId}`);
 	if (!j) return null;
 	// The latest live inspection entry per item decides whether it is ticked; an untick is a

@@ -90,9 +90,9 @@ export async function listOpenRedos(shopId: string, jobId: string): Promise<Open
 		select d.id, d.job_step_id, st.label as step_label, d.note, u.name as foreman_name,
 			d.occurred_at, prev.raw_text as previous
 		from log_entry d
-		join job_step st on st.id = d.job_step_id
+		join job_step st on st.id = d.job_step_id and st.shop_id = d.shop_id
 		join "user" u on u.id = d.author_id
-		left join log_entry prev on prev.id = d.responds_to
+		left join log_entry prev on prev.id = d.responds_to and prev.shop_id = d.shop_id
 		where d.shop_id = ${shopId} and d.job_id = ${jobId} and d.kind = 'redo'
 		  and ${isLive('d')}
 		  and not exists (

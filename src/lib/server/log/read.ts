@@ -1,5 +1,5 @@
 // Reading the job log: one entry, a page of a job's log, and a repeated id.
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import type { FluidVerdict, Verdict } from '$lib/phrase';
 import type { EntryView } from '$lib/bench/types';
 import { db } from '../db';
@@ -89,7 +89,7 @@ export async function existingEntry(
 	const [row] = await db
 		.select({ shopId: s.logEntry.shopId, jobId: s.logEntry.jobId })
 		.from(s.logEntry)
-		.where(eq(s.logEntry.id, id))
+		.where(and(eq(s.logEntry.shopId, shopId), eq(s.logEntry.id, id)))
 		.limit(1);
 	if (!row) return null;
 	if (row.shopId !== shopId || row.jobId !== jobId) {

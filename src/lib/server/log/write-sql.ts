@@ -34,7 +34,7 @@ export function insertOne(entry: NewEntry): Promise<Record<string, unknown>[]> {
 				${entry.fluidVerdict}, ${entry.note},
 				${entry.torqueToolId}, ${entry.overdue}, ${entry.adapterMm}, ${entry.toolLengthMm},
 				${entry.wrenchSetting}, ${entry.wrenchSettingUnit}, ${entry.occurredAt})
-			on conflict (id) do nothing
+			on conflict (shop_id, id) do nothing
 			returning *
 		)
 		${readBack} ${readBackFrom}`;
@@ -80,7 +80,7 @@ export async function insertBatch(
 			from ok
 			-- Each entry locks its job's chain head (drizzle/0010): one order for all batches.
 			order by "jobId"
-			on conflict (id) do nothing
+			on conflict (shop_id, id) do nothing
 			returning *
 		)
 		${readBack}, ok.job_state ${readBackFrom} join ok on ok.id = e.id`;

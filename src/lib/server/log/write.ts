@@ -32,7 +32,7 @@ export async function writeEntries<T>(
 				const [row] = await tx
 					.insert(s.logEntry)
 					.values(values)
-					.onConflictDoNothing({ target: s.logEntry.id })
+					.onConflictDoNothing({ target: [s.logEntry.shopId, s.logEntry.id] })
 					.returning({ id: s.logEntry.id, seq: s.logEntry.seq });
 				if (!row) return null;
 				written.push({ ...row, shopId: values.shopId, jobId: values.jobId, kind: values.kind });
