@@ -2,6 +2,7 @@
 // text PostgreSQL cannot store, is the sender's fault: a 400 with words (413 when it is over
 // the server's size limit), never a 500.
 import { error } from '@sveltejs/kit';
+import { failureStatus } from '$lib/result';
 import { hasNul, nulMessage } from '$lib/nul';
 import { isTooLarge } from '$lib/uploads/check';
 
@@ -14,11 +15,12 @@ export async function readForm(request: Request): Promise<FormData> {
 	try {
 		form = await request.formData();
 	} catch (e) {
-		if (isTooLarge(e)) error(413, tooLargeMessage);
-		error(400, 'The form could not be read. Reload the page and send it again.');
+		if (isTooLarge(e)) error(failureStatus.too_large, tooLargeMessage);
+		error(failureStatus.invalid, 'The form could not be read. Reload the page and send it again.');
 	}
 	for (const [key, value] of form) {
-		if (hasNul(key) || (typeof value === 'string' && hasNul(value))) error(400, nulMessage);
+		if (hasNul(key) || (typeof value === 'string' && hasNul(value)))
+			error(failureStatus.invalid, nulMessage);
 	}
 	return form;
 }
@@ -30,9 +32,10 @@ export async function readJson(request: Request, unreadable: string): Promise<un
 		body = await request.json();
 	} catch (e) {
 		// Over the server's body limit (adapter-node's BODY_SIZE_LIMIT): the size is the fault.
-		if (isTooLarge(e)) error(413, 'The body is larger than the server takes in one request.');
-		error(400, unreadable);
+		if (isTooLarge(e))
+			error(failureStatus.too_large, 'The body is larger than the server takes in one request.');
+		error(failureStatus.invalid, unreadable);
 	}
-	if (hasNul(body)) error(400, nulMessage);
+	if (hasNul(body)) error(failureStatus.invalid, nulMessage);
 	return body;
 }

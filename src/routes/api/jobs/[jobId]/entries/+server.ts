@@ -3,6 +3,7 @@ import { requireRole, requireUser } from '$lib/server/auth';
 import { getJob } from '$lib/server/bench/job';
 import { appendEntry } from '$lib/server/log/append';
 import { listEntries } from '$lib/server/log/read';
+import { orError } from '$lib/server/http';
 import { readJson } from '$lib/server/request';
 import {
 	AUTHOR_HEADER,
@@ -39,7 +40,7 @@ export const POST: RequestHandler = async ({ params, request }) => {
 	const parsed = entryPostSchema.safeParse(body);
 	if (!parsed.success) error(400, firstIssue(parsed.error));
 	const result = await appendEntry(user, params.jobId, parsed.data);
-	if ('message' in result) error(result.status, result.message);
-	if ('answer' in result) return json({ answer: result.answer }, { status: 200 });
-	return json({ entry: result.entry }, { status: result.status });
+	const ok = orError(result);
+	if ('answer' in ok) return json({ answer: ok.answer }, { status: 200 });
+	return json({ entry: ok.entry }, { status: ok.created ? 201 : 200 });
 };
