@@ -1,8 +1,11 @@
-// Reading request bodies in actions and endpoints. A body that cannot be read, or that holds
-// text PostgreSQL cannot store, is the sender's fault: a 400 with words (413 when it is over
-// the server's size limit), never a 500.
+// Reading request bodies in actions and endpoints. A body that cannot be read, that holds
+// text PostgreSQL cannot store, or that breaks its schema is the sender's fault: a 400 with
+// words (413 when it is over the server's size limit), never a 500. Every endpoint answers
+// these through error(), so a 400 has one shape: `{ message }`, or the error page for HTML.
 import { error } from '@sveltejs/kit';
+import type { z } from 'zod';
 import { failureStatus } from '$lib/result';
+import { firstIssue } from '$lib/schemas/form';
 import { hasNul, nulMessage } from '$lib/nul';
 import { isTooLarge } from '$lib/uploads/check';
 
@@ -38,4 +41,20 @@ export async function readJson(request: Request, unreadable: string): Promise<un
 	}
 	if (hasNul(body)) error(failureStatus.invalid, nulMessage);
 	return body;
+}
+
+/** `input` (a body, a query value) checked with `schema`, or a 400 naming the first problem. */
+export function valid<S extends z.ZodType>(schema: S, input: unknown): z.output<S> {
+	const checked = schema.safeParse(input);
+	if (!checked.success) error(failureStatus.invalid, firstIssue(checked.error));
+	return checked.data;
+}
+
+/** The JSON body checked with `schema`; `unreadable` says what to send when it is not JSON. */
+export async function readBody<S extends z.ZodType>(
+	request: Request,
+	schema: S,
+	unreadable: string
+): Promise<z.output<S>> {
+	return valid(schema, await readJson(request, unreadable));
 }
