@@ -11,14 +11,12 @@ export default defineConfig({
 	build: {
 		rollupOptions: {
 			// zod 4.6 writes two explanatory comments where Rollup looks for a @__PURE__ note
-			// (INVALID_ANNOTATION): Rollup drops the comment and the bundle is the same. Not ours to fix.
-			onwarn(warning, warn) {
-				if (
-					warning.code === 'INVALID_ANNOTATION' &&
-					/[\\/]node_modules[\\/]zod[\\/]/.test(warning.id ?? '')
-				)
-					return;
-				warn(warning);
+			// (INVALID_ANNOTATION): Rollup drops the comment and the bundle is the same. Not ours to
+			// fix. onLog, because SvelteKit sets its own onwarn for the client build.
+			onLog(level, log, handler) {
+				const zod = /[\\/]node_modules[\\/]zod[\\/]/.test(log.id ?? '');
+				if (level === 'warn' && log.code === 'INVALID_ANNOTATION' && zod) return;
+				handler(level, log);
 			}
 		}
 	},
