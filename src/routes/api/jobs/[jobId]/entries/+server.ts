@@ -3,7 +3,7 @@ import { requireRole, requireUser } from '$lib/server/auth';
 import { getJob } from '$lib/server/bench/job';
 import { appendEntry } from '$lib/server/log/append';
 import { listEntries } from '$lib/server/log/read';
-import { orError } from '$lib/server/http';
+import { answerStatus, orError } from '$lib/server/http';
 import { readBody, valid } from '$lib/server/request';
 import {
 	AUTHOR_HEADER,
@@ -41,5 +41,5 @@ export const POST: RequestHandler = async ({ params, request }) => {
 	const result = await appendEntry(user, params.jobId, body);
 	const ok = orError(result);
 	if ('answer' in ok) return json({ answer: ok.answer }, { status: 200 });
-	return json({ entry: ok.entry }, { status: ok.created ? 201 : 200 });
+	return json({ entry: ok.entry }, { status: answerStatus(ok) });
 };
