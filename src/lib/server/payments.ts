@@ -189,7 +189,7 @@ export async function recordPayment(
 		const taken = Boolean(p.providerReference);
 		const open = row.status === 'issued' || row.status === 'paid';
 		if (row.kind !== 'invoice' || !(open || (taken && row.status === 'credited'))) {
-			return failure('conflict', 'Payments are taken on an issued invoice only.');
+			return failure('invalid', 'Payments are taken on an issued invoice only.');
 		}
 		if (!Number.isInteger(p.amountMinor) || p.amountMinor <= 0) {
 			return failure('invalid', 'The amount must be more than zero.');
