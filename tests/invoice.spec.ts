@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import { expect, test, type Page } from '@playwright/test';
 import { PDFParse } from 'pdf-parse';
@@ -149,4 +150,43 @@ test("another shop cannot open this shop's invoice or its PDF", async ({ page })
 	expect(r?.status()).toBe(404);
 	const pdf = await page.request.get(`/jobs/1046/invoice/${mine.id}/pdf`);
 	expect(pdf.status()).toBe(404);
+});
+
+test('a refused invoice action answers with the status of its reason', async ({
+	page,
+	baseURL
+}) => {
+	// The first test of this file issued and was paid the invoice of job 1046: the job is paid.
+	const [paid] = await db()`
+		select i.id from invoice i join job j on j.id = i.job_id
+		join shop s on s.id = j.shop_id
+		where j.number = 1046 and s.name like 'Kettle Street%' and i.kind = 'invoice'
+		and i.status = 'paid' order by i.created_at limit 1`;
+	expect(paid, 'the first test was paid the invoice of job 1046').toBeTruthy();
+	await signIn(page, demo.writer);
+	// A form sent without the page's script (text/html): the answer's status is the refusal's.
+	const act = async (action: string, form: Record<string, string>) => {
+		const res = await page.request.post(`/jobs/1046/invoice?/${action}`, {
+			form,
+			headers: { origin: baseURL!, accept: 'text/html' },
+			maxRedirects: 0
+		});
+		return res.status();
+	};
+	// Refused because of the job's or the invoice's state: 409.
+	expect(await act('draft', { labourMode: 'flat_rate' }), 'a paid job is drafted again').toBe(409);
+	expect(
+		await act('addLine', { kind: 'sundry', description: 'Rags', quantity: '1', unitPrice: '1.00' }),
+		'a line with no draft'
+	).toBe(409);
+	expect(await act('issue', { invoiceId: paid.id }), 'a paid invoice issued again').toBe(409);
+	expect(
+		await act('payment', { invoiceId: paid.id, method: 'cash', amount: '5.00' }),
+		'a payment on a paid invoice'
+	).toBe(409);
+	// Input that cannot be used: 400.
+	expect(await act('payment', { invoiceId: paid.id, method: 'cash', amount: 'five' })).toBe(400);
+	expect(await act('issue', { invoiceId: 'not-an-id' })).toBe(400);
+	// No such invoice on this job: 404.
+	expect(await act('issue', { invoiceId: randomUUID() })).toBe(404);
 });

@@ -12,8 +12,14 @@ export const failureStatus = {
 	not_found: 404,
 	/** The thing's state does not allow it now (closed, changed meanwhile, already done). */
 	conflict: 409,
+	/** Larger than the server takes in one request (an upload over its size limit). */
+	too_large: 413,
 	/** Well-formed, but the rules refuse it (a reason missing, a step not on the job). */
-	unprocessable: 422
+	unprocessable: 422,
+	/** Too many tries in a short time (sign-in throttling). */
+	too_many: 429,
+	/** A service the shop relies on (the mail server) did not take it: the sender can retry. */
+	upstream: 502
 } as const;
 
 export type FailureKind = keyof typeof failureStatus;
@@ -26,16 +32,10 @@ export interface Failure {
 	field?: string;
 }
 
-export type Result<T extends object = object> = ({ ok: true } & T) | Failure;
+/** `F` is what a failure carries besides its words (the problems of an import, a wait). */
+export type Result<T extends object = object, F extends object = object> =
+	({ ok: true } & T) | (Failure & F);
 
 export function failure(kind: FailureKind, message: string, field?: string): Failure {
 	return field === undefined ? { ok: false, kind, message } : { ok: false, kind, message, field };
-}
-
-/** The kind of refusal an HTTP status stands for (for results that still carry a status). */
-export function kindOf(status: number): FailureKind {
-	const found = (Object.keys(failureStatus) as FailureKind[]).find(
-		(k) => failureStatus[k] === status
-	);
-	return found ?? 'invalid';
 }

@@ -292,6 +292,44 @@ for (const [key, target] of Object.entries(targets)) {
 	});
 }
 
+test("a request that breaks its route's rules answers a 400 of one shape on every API route", async () => {
+	const job = await makeFuzzJob();
+	const session = await signInSession(demo.foreman);
+	// Valid JSON that no route takes (an array, not an object), and query values out of range.
+	const notAnObject: Body = { raw: '[]', contentType: 'application/json' };
+	const asked: [string, Body | undefined][] = [
+		...Object.entries(targets)
+			.filter(([key]) => key.startsWith('POST /api/') && !/ready|sign-off|webhook/.test(key))
+			.flatMap(([, t]) =>
+				t === 'uploads' ? [] : [[t.path(job), notAnObject] satisfies [string, Body]]
+			),
+		[`/api/jobs/${job.id}/entries?before=-1`, undefined],
+		['/api/floor/log?before=-1', undefined],
+		['/api/floor/board?queueAfter=x', undefined],
+		['/api/floor/stream?after=x', undefined]
+	];
+	expect(asked.length).toBeGreaterThanOrEqual(9);
+	// The same answer for the same Accept header: JSON with only words, or the error page.
+	for (const accept of ['application/json', 'text/html']) {
+		const shapes = new Map<string, string[]>();
+		for (const [path, body] of asked) {
+			const a = await send(path, { session, body, headers: { accept } });
+			expect(a.status, `${path}: ${a.text}`).toBe(400);
+			let shape = a.contentType.split(';')[0];
+			if (shape === 'application/json') {
+				const answer = JSON.parse(a.text) as Record<string, unknown>;
+				expect(typeof answer.message === 'string' && answer.message.length > 0, path).toBe(true);
+				shape += ` ${Object.keys(answer).sort().join(',')}`;
+			}
+			shapes.set(shape, [...(shapes.get(shape) ?? []), path]);
+		}
+		expect(
+			[...shapes.keys()],
+			`${accept}: ${JSON.stringify(Object.fromEntries(shapes))}`
+		).toHaveLength(1);
+	}
+});
+
 test('fuzz the phrase text through POST /api/jobs/[jobId]/entries: only a 201 stores, and stores it whole', async () => {
 	test.setTimeout(120_000);
 	const job = await makeFuzzJob();

@@ -70,10 +70,3 @@ export const finalInspectionSchema = z.object({
 		.optional()
 		.transform((v) => (v ? v : undefined))
 });
-
-/** The first message of a zod error, for a 400 that says what to fix. */
-export function firstIssue(error: z.ZodError): string {
-	const issue = error.issues[0];
-	if (!issue) return 'The request is not valid.';
-	return issue.message;
-}

@@ -30,7 +30,7 @@ export const queueAfterSchema = z.coerce.number().int().nonnegative().optional()
 export const streamAfterSchema = z.string().transform((raw, ctx) => {
 	const point = decodeResume(raw);
 	if (!point) {
-		ctx.addIssue({ code: 'custom', message: 'after must be the last event id seen.' });
+		ctx.addIssue({ code: 'custom', message: 'after must be the last event id seen (a seq).' });
 		return z.NEVER;
 	}
 	return point;

@@ -23,6 +23,11 @@ export function echoValues(form: FormData, omit: string[] = ['password']): Recor
 	return out;
 }
 
+/** The first message of a zod error, for a 400 that says what to fix. */
+export function firstIssue(error: z.ZodError): string {
+	return error.issues[0]?.message ?? 'The request is not valid.';
+}
+
 /** A message for the whole form, in the same shape as field errors. */
 export function formError(message: string, field = 'form'): Record<string, string> {
 	return { [field]: message };

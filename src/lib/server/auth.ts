@@ -7,6 +7,7 @@ import { and, eq, gt, sql } from 'drizzle-orm';
 import { Lucia, TimeSpan, type DatabaseSession, type DatabaseUser } from 'lucia';
 import type { Role } from '$lib/auth/roles';
 import { decide, throttleWindowMinutes, type ThrottleDecision } from '$lib/auth/throttle';
+import { failure, type Result } from '$lib/result';
 import { client, db } from './db';
 import { session, signInFailure, user } from './db/schema';
 import { dummyHash, verifyPassword } from './password';
@@ -190,9 +191,8 @@ export function requireRole(...roles: Role[]): SessionUser {
 	return current;
 }
 
-export type SignInResult =
-	| { ok: true; userId: string; role: Role }
-	| { ok: false; message: string; retryAfterSeconds?: number };
+/** A throttled attempt (`too_many`) says when to try again. */
+export type SignInResult = Result<{ userId: string; role: Role }, { retryAfterSeconds?: number }>;
 
 const generic = 'That e-mail and password do not match an active account.';
 
@@ -217,12 +217,13 @@ export async function checkSignIn(
 		return { decision, attempt: attempt.id };
 	});
 	const { decision } = reserved;
-	if (!decision.allowed || reserved.attempt === null)
+	if (!decision.allowed) {
 		return {
-			ok: false,
-			message: decision.allowed ? generic : decision.message,
-			retryAfterSeconds: decision.allowed ? undefined : decision.retryAfterSeconds
+			...failure('too_many', decision.message),
+			retryAfterSeconds: decision.retryAfterSeconds
 		};
+	}
+	if (reserved.attempt === null) return failure('invalid', generic);
 	const [row] = await db.select().from(user).where(eq(user.email, email)).limit(1);
 	const valid = row
 		? await verifyPassword(row.passwordHash, password)
@@ -231,10 +232,10 @@ export async function checkSignIn(
 		if (decision.delayMs > 0) await new Promise((r) => setTimeout(r, decision.delayMs));
 		const after = await throttleFor(db, email, address);
 		const slowed = decision.delayMs > 0 || !after.allowed;
-		return {
-			ok: false,
-			message: slowed ? `${generic} Repeated failures slow sign-in down for this e-mail.` : generic
-		};
+		return failure(
+			'invalid',
+			slowed ? `${generic} Repeated failures slow sign-in down for this e-mail.` : generic
+		);
 	}
 	await db.delete(signInFailure).where(eq(signInFailure.email, email));
 	return { ok: true, userId: row.id, role: row.role };

@@ -1,6 +1,7 @@
 // A closed record takes nothing more: the database refuses an entry or a photo on a
 // job whose record is closed, in the inserting statement, under a row lock on the job
 // (drizzle/0013), so a close and an append that race never leave an entry after the close.
+import { answerStatus } from './http';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -64,7 +65,9 @@ describe('a close and an append at the same moment', () => {
 			const f = await makeShop(`Race ${path}`);
 			if (path === 'group-commit') {
 				// a first append puts the job's steps in this process's memory: the next one is batched
-				expect((await appendEntry(tech(f), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+				expect(answerStatus(await appendEntry(tech(f), f.job.id, post('rear axle 88 nm')))).toBe(
+					201
+				);
 			}
 			const before = (await entriesOf(f)).length;
 			const closer = await client.reserve();
@@ -80,7 +83,7 @@ describe('a close and an append at the same moment', () => {
 				await until(async () => settled || (await anInsertWaits()));
 				await closer`commit`;
 				const r = await append;
-				expect(r.status).toBe(409);
+				expect(answerStatus(r)).toBe(409);
 				expect('message' in r && r.message).toMatch(/closed/);
 			} finally {
 				closer.release();
@@ -97,7 +100,7 @@ describe('a close and an append at the same moment', () => {
 				closeReading(f),
 				appendEntry(tech(f), f.job.id, post('rear axle 90 nm'))
 			]);
-			expect([201, 409], `race ${i}`).toContain(appended.status);
+			expect([201, 409], `race ${i}`).toContain(answerStatus(appended));
 			// every entry the log holds now was there when the close read it
 			expect((await entriesOf(f)).length, `race ${i}`).toBe(seen);
 		}
@@ -144,7 +147,7 @@ describe('photos on a closed record', () => {
 			{ bytes, name: 'c.jpg' },
 			storage
 		);
-		expect(raced).toMatchObject({ ok: false, closed: true });
+		expect(raced).toMatchObject({ ok: false, kind: 'conflict' });
 		const photos = await db.select().from(s.attachment).where(eq(s.attachment.jobId, f.job.id));
 		expect(photos).toHaveLength(1);
 	});

@@ -1,4 +1,5 @@
 import { and, eq } from 'drizzle-orm';
+import { answerStatus } from './http';
 import { describe, expect, it } from 'vitest';
 import { client, db } from './db';
 import { makeShop } from './db/fixtures';
@@ -52,7 +53,7 @@ describe('appendEntry', () => {
 		const f = await makeShop('Bench');
 		// 10 kgf·m = 98.0665 N·m (NIST SP 811 B.8: 1 kgf = 9.80665 N): over the 80–96 N·m band
 		const r = await appendEntry(as(f.tech), f.job.id, post('rear axle 10 kgf m'));
-		expect(r.status).toBe(201);
+		expect(answerStatus(r)).toBe(201);
 		const e = entryOf(r);
 		expect(e).toMatchObject({ kind: 'measure', value: 10, unit: 'kgf.m', specUnit: 'N.m' });
 		expect(e.specValue).toBeCloseTo(98.0665, 6);
@@ -94,8 +95,8 @@ describe('appendEntry', () => {
 		const body = post('rear axle 88 nm');
 		const first = await appendEntry(as(f.tech), f.job.id, body);
 		const again = await appendEntry(as(f.tech), f.job.id, { ...body, text: 'rear axle 50 nm' });
-		expect(first.status).toBe(201);
-		expect(again.status).toBe(200);
+		expect(answerStatus(first)).toBe(201);
+		expect(answerStatus(again)).toBe(200);
 		expect(entryOf(again).verdict).toBe('in');
 		expect(await rowsOf(f)).toHaveLength(1);
 	});
@@ -104,9 +105,9 @@ describe('appendEntry', () => {
 		const a = await makeShop('Shop A');
 		const b = await makeShop('Shop B');
 		const r = await appendEntry(as(b.owner), a.job.id, post('rear axle 88 nm'));
-		expect(r).toEqual({ status: 404, message: 'No such job.' });
+		expect(r).toEqual({ ok: false, kind: 'not_found', message: 'No such job.' });
 		const unknown = await appendEntry(as(a.owner), crypto.randomUUID(), post('rear axle 88 nm'));
-		expect(unknown).toEqual({ status: 404, message: 'No such job.' });
+		expect(unknown).toEqual({ ok: false, kind: 'not_found', message: 'No such job.' });
 		expect(await listSteps(b.shop.id, a.job.id)).toEqual([]);
 		expect((await listEntries(b.shop.id, a.job.id)).entries).toEqual([]);
 		expect(await rowsOf(a)).toHaveLength(0);
@@ -117,17 +118,21 @@ describe('appendEntry', () => {
 		const other = await addUser(f, 'technician', 'Other tech');
 		const writer = await addUser(f, 'service_writer', 'Desk');
 		const foreman = await addUser(f, 'foreman', 'Foreman');
-		expect((await appendEntry(as(other), f.job.id, post('rear axle 88 nm'))).status).toBe(403);
-		expect((await appendEntry(as(writer), f.job.id, post('rear axle 88 nm'))).status).toBe(403);
-		expect((await appendEntry(as(foreman), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(other), f.job.id, post('rear axle 88 nm')))).toBe(403);
+		expect(answerStatus(await appendEntry(as(writer), f.job.id, post('rear axle 88 nm')))).toBe(
+			403
+		);
+		expect(answerStatus(await appendEntry(as(foreman), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 	});
 
 	it('answers "next" and "spec" without writing', async () => {
 		const f = await makeShop('Bench');
 		const next = await appendEntry(as(f.tech), f.job.id, post('next'));
-		expect(next).toMatchObject({ status: 200, answer: { intent: 'next' } });
+		expect(next).toMatchObject({ ok: true, answer: { intent: 'next' } });
 		const spec = await appendEntry(as(f.tech), f.job.id, post('spec rear axle'));
-		expect(spec).toMatchObject({ status: 200, answer: { intent: 'spec' } });
+		expect(spec).toMatchObject({ ok: true, answer: { intent: 'spec' } });
 		if ('answer' in spec) expect(spec.answer.message).toContain('80 N·m – 96 N·m');
 		expect(await rowsOf(f)).toHaveLength(0);
 	});
@@ -135,7 +140,7 @@ describe('appendEntry', () => {
 	it('refuses a phrase it cannot log with a message (422)', async () => {
 		const f = await makeShop('Bench');
 		const r = await appendEntry(as(f.tech), f.job.id, post('carburettor sync 4 mm'));
-		expect(r.status).toBe(422);
+		expect(answerStatus(r)).toBe(422);
 		expect(await rowsOf(f)).toHaveLength(0);
 	});
 
@@ -176,7 +181,7 @@ describe('appendEntry', () => {
 		expect(entryOf(first).occurredAt).toBe('2026-12-02T09:30:00.000Z');
 		// the quick path (steps and tolerance known by now) must not read it in the server's zone
 		const plain = await appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm'), now);
-		expect(plain.status).toBe(201);
+		expect(answerStatus(plain)).toBe(201);
 		const again = await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm at 10:45'), now);
 		expect(entryOf(again).occurredAt).toBe('2026-12-02T09:45:00.000Z');
 		// the day is the one the entry was typed on, on the shop's calendar: typed offline just
@@ -219,7 +224,7 @@ describe('appendEntry', () => {
 			b.job.id,
 			post('rear axle 88 nm', { torqueToolId: tool.id })
 		);
-		expect(refused.status).toBe(422);
+		expect(answerStatus(refused)).toBe(422);
 	});
 });
 
@@ -248,28 +253,36 @@ describe('the steps kept in memory between appends', () => {
 			verdict: 'in'
 		});
 		const b = await makeShop('Other');
-		expect((await appendEntry(as(b.owner), f.job.id, post('swingarm pivot 95 nm'))).status).toBe(
-			404
-		);
+		expect(
+			answerStatus(await appendEntry(as(b.owner), f.job.id, post('swingarm pivot 95 nm')))
+		).toBe(404);
 	});
 
 	it('follows a reassignment: the former technician is refused, the new one may log', async () => {
 		const f = await makeShop('Bench');
 		const next = await addUser(f, 'technician', 'Next tech');
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm')))).toBe(
+			201
+		);
 		await db.update(s.job).set({ technicianId: next.id }).where(eq(s.job.id, f.job.id));
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm'))).status).toBe(403);
-		expect((await appendEntry(as(next), f.job.id, post('rear axle 90 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm')))).toBe(
+			403
+		);
+		expect(answerStatus(await appendEntry(as(next), f.job.id, post('rear axle 90 nm')))).toBe(201);
 		expect(await rowsOf(f)).toHaveLength(3);
 	});
 
 	it('reads a step added to the job, and the shop tolerance as it is now', async () => {
 		const f = await makeShop('Bench');
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
-		expect((await appendEntry(as(f.tech), f.job.id, post('brake disc bolt 54 nm'))).status).toBe(
-			422
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
 		);
+		expect(
+			answerStatus(await appendEntry(as(f.tech), f.job.id, post('brake disc bolt 54 nm')))
+		).toBe(422);
 		const [added] = await db
 			.insert(s.jobStep)
 			.values({
@@ -343,7 +356,7 @@ describe('a step picked from the candidates', () => {
 			f.job.id,
 			post('rear axle nut 60 nm', { stepId: other.step.id })
 		);
-		expect(refused.status).toBe(422);
+		expect(answerStatus(refused)).toBe(422);
 	});
 });
 
@@ -360,7 +373,7 @@ describe('retraction', () => {
 		expect(entries.find((e) => e.id === mine.id)?.retractedBy?.id).toBe(undo.id);
 		expect(entries.find((e) => e.id === theirs.id)?.retractedBy).toBeNull();
 		// nothing of the technician's is left to undo
-		expect((await appendEntry(as(f.tech), f.job.id, post('undo'))).status).toBe(422);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('undo')))).toBe(422);
 	});
 
 	it('lets only the author or a foreman retract a named entry', async () => {
@@ -377,14 +390,17 @@ describe('retraction', () => {
 			f.job.id,
 			post('undo', { retracts: byForeman.id })
 		);
-		expect(denied.status).toBe(403);
+		expect(answerStatus(denied)).toBe(403);
 		const own = entryOf(await appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm')));
 		const named = entryOf(
 			await appendEntry(as(foreman), f.job.id, post('undo', { retracts: own.id }))
 		);
 		expect(named.retracts).toBe(own.id);
 		const twice = await appendEntry(as(foreman), f.job.id, post('undo', { retracts: own.id }));
-		expect(twice).toMatchObject({ status: 422, message: 'That entry is already retracted.' });
+		expect(twice).toMatchObject({
+			kind: 'unprocessable',
+			message: 'That entry is already retracted.'
+		});
 	});
 
 	it('two undos at once retract two different entries', async () => {
@@ -410,12 +426,14 @@ describe('appends of the same moment (group commit)', () => {
 	it('writes them in one transaction, each with its own verdict and answer', async () => {
 		const f = await makeShop('Bench');
 		// the first append reads the job; the ones after it take the batched path
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 		// Rear axle nut 80–96 N·m (fixture): 70 low, 88 in, 120 high
 		const values = Array.from({ length: 30 }, (_, i) => [70, 88, 120][i % 3]);
 		const posts = values.map((v) => post(`rear axle ${v} nm`));
 		const results = await Promise.all(posts.map((p) => appendEntry(as(f.tech), f.job.id, p)));
-		expect(results.map((r) => r.status)).toEqual(values.map(() => 201));
+		expect(results.map((r) => answerStatus(r))).toEqual(values.map(() => 201));
 		expect(results.map((r) => entryOf(r).verdict)).toEqual(
 			values.map((v) => (v === 70 ? 'low' : v === 88 ? 'in' : 'high'))
 		);
@@ -428,7 +446,9 @@ describe('appends of the same moment (group commit)', () => {
 
 	it('gathers the appends that arrive while a batch is on its way into the next one', async () => {
 		const f = await makeShop('Bench');
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 		const waves = [89, 90, 91].map((v) =>
 			Array.from({ length: 10 }, () => post(`rear axle ${v} nm`))
 		);
@@ -447,7 +467,7 @@ describe('appends of the same moment (group commit)', () => {
 			}
 			await new Promise((r) => setTimeout(r, 50));
 		});
-		expect((await Promise.all(sent)).map((r) => r.status)).toEqual(sent.map(() => 201));
+		expect((await Promise.all(sent)).map((r) => answerStatus(r))).toEqual(sent.map(() => 201));
 		const ids = waves.map((wave) => wave.map((p) => p.id));
 		expect(await writers(ids[0])).toBe(1);
 		expect(await writers([...ids[1], ...ids[2]])).toBe(1);
@@ -456,14 +476,16 @@ describe('appends of the same moment (group commit)', () => {
 
 	it('answers the same id sent twice at once with one 201 and one 200, storing it once', async () => {
 		const f = await makeShop('Bench');
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 		const twice = post('rear axle 90 nm');
 		const results = await Promise.all([
 			appendEntry(as(f.tech), f.job.id, twice),
 			appendEntry(as(f.tech), f.job.id, twice),
 			appendEntry(as(f.tech), f.job.id, post('rear axle 91 nm'))
 		]);
-		expect(results.map((r) => r.status).sort()).toEqual([200, 201, 201]);
+		expect(results.map((r) => answerStatus(r)).sort()).toEqual([200, 201, 201]);
 		expect(entryOf(results[0]).seq).toBe(entryOf(results[1]).seq);
 		expect(await rowsOf(f)).toHaveLength(3);
 	});
@@ -472,14 +494,16 @@ describe('appends of the same moment (group commit)', () => {
 		const f = await makeShop('Bench');
 		const other = await addUser(f, 'technician', 'Not assigned');
 		const b = await makeShop('Other');
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 		const results = await Promise.all([
 			appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm')),
 			appendEntry(as(other), f.job.id, post('rear axle 89 nm')),
 			appendEntry(as(b.owner), f.job.id, post('rear axle 89 nm')),
 			appendEntry(as(f.tech), f.job.id, post('rear axle 90 nm'))
 		]);
-		expect(results.map((r) => r.status)).toEqual([201, 403, 404, 201]);
+		expect(results.map((r) => answerStatus(r))).toEqual([201, 403, 404, 201]);
 		expect(await rowsOf(f)).toHaveLength(3);
 	});
 
@@ -498,7 +522,9 @@ describe('appends of the same moment (group commit)', () => {
 			create trigger refuse_${tag} before insert on log_entry
 				for each row execute function refuse_${tag}();`);
 		try {
-			expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+			expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+				201
+			);
 			const settled = await Promise.allSettled([
 				appendEntry(as(f.tech), f.job.id, post('rear axle 89 nm')),
 				appendEntry(as(f.tech), f.job.id, post(`note ${poison}`)),
@@ -567,12 +593,14 @@ describe('a closed record takes no entries', () => {
 	it('refuses notes, measurements and undo on invoiced, paid and cancelled jobs with a 409', async () => {
 		const f = await makeShop('Closed');
 		// The first append puts this process's copy of the steps in memory (the group-commit path).
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 		for (const state of ['invoiced', 'paid', 'cancelled'] as const) {
 			await setState(f, state);
 			for (const text of ['rear axle 90 nm', 'note looked again', 'undo']) {
 				const r = await appendEntry(as(f.tech), f.job.id, post(text));
-				expect(r.status, `${state}: ${text}`).toBe(409);
+				expect(answerStatus(r), `${state}: ${text}`).toBe(409);
 				expect('message' in r && r.message).toMatch(/record is closed/);
 			}
 		}
@@ -590,10 +618,12 @@ describe('a closed record takes no entries', () => {
 
 	it('sends a job ready to invoice back to in work when work is found, then stores it', async () => {
 		const f = await makeShop('Found late');
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'))).status).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm')))).toBe(
+			201
+		);
 		await setState(f, 'ready_to_invoice');
 		const r = await appendEntry(as(f.tech), f.job.id, post('rear axle 70 nm'));
-		expect(r.status).toBe(201);
+		expect(answerStatus(r)).toBe(201);
 		expect(entryOf(r).verdict).toBe('low');
 		const [j] = await db.select().from(s.job).where(eq(s.job.id, f.job.id));
 		expect(j.state).toBe('in_work');
@@ -631,7 +661,8 @@ describe('an entry dated before its job was opened', () => {
 		]) {
 			const r = await appendEntry(as(f.tech), f.job.id, body, now);
 			expect(r, body.text).toEqual({
-				status: 422,
+				ok: false,
+				kind: 'unprocessable',
 				message: expect.stringMatching(/more than a day before this job card was opened/)
 			});
 		}
@@ -642,12 +673,12 @@ describe('an entry dated before its job was opened', () => {
 		const f = await makeShop('Opened first', { jobOpenedAt: opened });
 		const old = { occurredAt: '2026-11-30T10:00:00Z' };
 		expect(
-			(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm', old), now)).status
+			answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm', old), now))
 		).toBe(422);
-		expect((await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'), now)).status).toBe(
-			201
-		);
-		expect((await appendEntry(as(f.tech), f.job.id, post('undo', old), now)).status).toBe(422);
+		expect(
+			answerStatus(await appendEntry(as(f.tech), f.job.id, post('rear axle 88 nm'), now))
+		).toBe(201);
+		expect(answerStatus(await appendEntry(as(f.tech), f.job.id, post('undo', old), now))).toBe(422);
 		expect(await rowsOf(f)).toHaveLength(1);
 	});
 });

@@ -1,11 +1,29 @@
 // Where a refused Result becomes an HTTP answer: the one mapping of failure kinds to statuses
 // ($lib/result.ts). Form actions answer with fail() and the failure's message and field.
-import { error } from '@sveltejs/kit';
+import { error, fail } from '@sveltejs/kit';
+import { ZodError } from 'zod';
 import { isUuid } from '$lib/ids';
 import { failure, failureStatus, type Failure, type Result } from '$lib/result';
+import { fieldErrors, formError } from '$lib/schemas/form';
 
 export function statusOf(f: Pick<Failure, 'kind'>): number {
 	return failureStatus[f.kind];
+}
+
+/**
+ * A refused form action: `fail()` with the status of the failure's kind (a form that breaks its
+ * schema is `invalid`), and its words under `errors` beside what the form sends back (`data`).
+ */
+export function refuse<D extends object>(why: Failure | ZodError, data: D) {
+	if (why instanceof ZodError) {
+		return fail(failureStatus.invalid, { ...data, errors: fieldErrors(why) });
+	}
+	return fail(statusOf(why), { ...data, errors: formError(why.message, why.field) });
+}
+
+/** The status of an answer: a failure's by its kind; 201 when it made something new, else 200. */
+export function answerStatus(r: Result<{ created?: boolean }>): number {
+	return r.ok ? (r.created ? 201 : 200) : statusOf(r);
 }
 
 /** The success, or the failure thrown as the HTTP error its kind maps to. */

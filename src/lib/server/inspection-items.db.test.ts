@@ -54,7 +54,7 @@ describe('the shop-configurable final-inspection checklist', () => {
 		const [brakes] = await listInspectionItems(a.shop.id);
 		expect(await saveInspectionItem(b.shop.id, { itemId: brakes.id, label: 'Hijacked' })).toEqual({
 			ok: false,
-			status: 404,
+			kind: 'not_found',
 			message: 'No such checklist item in this shop.'
 		});
 		expect((await changeInspectionItem(b.shop.id, brakes.id, 'remove')).ok).toBe(false);

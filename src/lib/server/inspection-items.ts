@@ -1,11 +1,11 @@
 // The shop's final-inspection checklist, edited by the owner on Shop settings. A removed line
 // is marked inactive, never deleted: ticks on past jobs keep pointing at it and still show.
+import { failure, type Result } from '$lib/result';
 import { and, asc, eq, sql } from 'drizzle-orm';
 import { db } from './db';
 import { inspectionItem } from './db/schema';
 
-export type ItemResult =
-	{ ok: true } | { ok: false; field?: string; message: string; status?: 404 };
+const noSuchItem = failure('not_found', 'No such checklist item in this shop.');
 
 const MAX_ITEMS = 40;
 
@@ -25,7 +25,7 @@ function sameLabel(a: string, b: string) {
 export async function saveInspectionItem(
 	shopId: string,
 	input: { itemId: string; label: string }
-): Promise<ItemResult> {
+): Promise<Result> {
 	return db.transaction(async (tx) => {
 		// One writer at a time per shop, so two owners adding at once get distinct positions.
 		await tx.execute(
@@ -41,11 +41,11 @@ export async function saveInspectionItem(
 			.where(and(eq(inspectionItem.shopId, shopId), eq(inspectionItem.active, true)));
 		const clash = current.find((i) => i.id !== input.itemId && sameLabel(i.label, input.label));
 		if (clash) {
-			return { ok: false, field: 'label', message: `"${clash.label}" is on the list already.` };
+			return failure('conflict', `"${clash.label}" is on the list already.`, 'label');
 		}
 		if (input.itemId) {
 			if (!current.some((i) => i.id === input.itemId)) {
-				return { ok: false, status: 404, message: 'No such checklist item in this shop.' };
+				return noSuchItem;
 			}
 			await tx
 				.update(inspectionItem)
@@ -54,11 +54,7 @@ export async function saveInspectionItem(
 			return { ok: true };
 		}
 		if (current.length >= MAX_ITEMS) {
-			return {
-				ok: false,
-				field: 'label',
-				message: `A checklist holds at most ${MAX_ITEMS} lines.`
-			};
+			return failure('conflict', `A checklist holds at most ${MAX_ITEMS} lines.`, 'label');
 		}
 		const last = Math.max(0, ...current.map((i) => i.position));
 		await tx.insert(inspectionItem).values({ shopId, label: input.label, position: last + 1 });
@@ -71,7 +67,7 @@ export async function changeInspectionItem(
 	shopId: string,
 	itemId: string,
 	change: 'up' | 'down' | 'remove'
-): Promise<ItemResult> {
+): Promise<Result> {
 	return db.transaction(async (tx) => {
 		await tx.execute(
 			sql`select pg_advisory_xact_lock(hashtext('inspection_item'), hashtext(${shopId}))`
@@ -82,7 +78,7 @@ export async function changeInspectionItem(
 			.where(and(eq(inspectionItem.shopId, shopId), eq(inspectionItem.active, true)))
 			.orderBy(asc(inspectionItem.position), asc(inspectionItem.createdAt));
 		const at = list.findIndex((i) => i.id === itemId);
-		if (at < 0) return { ok: false, status: 404, message: 'No such checklist item in this shop.' };
+		if (at < 0) return noSuchItem;
 		if (change === 'remove') {
 			await tx
 				.update(inspectionItem)

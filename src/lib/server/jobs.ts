@@ -3,26 +3,14 @@ import { and, eq, sql } from 'drizzle-orm';
 import { checkTransition, type TransitionFacts } from '$lib/jobs/machine';
 import { failure, type Result } from '$lib/result';
 import type { JobState } from '$lib/jobs/states';
+import type { JobRow } from '$lib/jobs/table';
 import { db, type Tx } from './db';
 import { job, jobStateChange } from './db/schema';
 import { listJobsSql, type JobListFilter } from './jobs-sql';
 
-export interface JobSummary {
-	id: string;
-	number: number;
-	state: JobState;
+/** A row of the jobs list ($lib/jobs/table.ts), with what the Floor also shows. */
+export interface JobSummary extends JobRow {
 	stateReason: string | null;
-	bay: string | null;
-	concern: string;
-	createdAt: Date;
-	technicianId: string | null;
-	technicianName: string | null;
-	customerName: string | null;
-	registration: string | null;
-	vehicle: string | null;
-	stepsTotal: number;
-	stepsDone: number;
-	outOfSpec: number;
 	/** Out-of-spec steps with no answer yet (the Floor's queue). */
 	waiting: number;
 	lastEntryAt: Date | null;

@@ -1,6 +1,7 @@
 // E-mail through nodemailer. The transport is SMTP_URL: the local sink that `npm start` and
 // `npm test` run (scripts/lib/fakes.js), or a real relay in production. Every message is kept
 // in mail_outbox as sent (RFC 5322 source), so the shop can see what went out.
+import { failure, type Result } from '$lib/result';
 import { env } from '$env/dynamic/private';
 import { and, desc, eq } from 'drizzle-orm';
 import nodemailer from 'nodemailer';
@@ -26,7 +27,7 @@ export function mailFrom(shopName: string): string {
 }
 
 /** Sends one message and records it; answers whether the transport accepted it. */
-export async function sendMail(m: OutgoingMail): Promise<{ ok: boolean; message: string }> {
+export async function sendMail(m: OutgoingMail): Promise<Result<{ message: string }>> {
 	const raw = await new MailComposer({
 		from: m.from,
 		replyTo: m.replyTo,
@@ -69,10 +70,10 @@ export async function sendMail(m: OutgoingMail): Promise<{ ok: boolean; message:
 		raw: raw.toString('utf8'),
 		sentBy: m.sentBy ?? null
 	});
-	return {
-		ok: status === 'sent',
-		message: status === 'sent' ? `Sent to ${m.to}.` : response
-	};
+	// A transport that refused or failed is `upstream`: the message waits in the outbox, retry.
+	return status === 'sent'
+		? { ok: true, message: `Sent to ${m.to}.` }
+		: failure('upstream', response);
 }
 
 export async function listOutbox(shopId: string, limit = 100) {

@@ -15,10 +15,8 @@ import type { EntryView } from '$lib/bench/types';
 import { getJob, mayWrite, NOT_FOUND, type Actor } from './bench/job';
 import { readEntry } from './log/read';
 
-export type StoreResult =
-	| { ok: true; id: string }
-	/** `closed`: the job's record is closed (invoiced, paid or cancelled): a 409, not a 400. */
-	| { ok: false; message: string; closed?: true };
+/** A closed record (invoiced, paid or cancelled) is a `conflict`; a file it cannot take, `invalid`. */
+export type StoreResult = Result<{ id: string }>;
 
 export const closedPhotoMessage =
 	'This job’s record is closed (invoiced, paid or cancelled): it takes no more photos.';
@@ -35,9 +33,9 @@ export async function storePhoto(
 	storage: FileStorage = uploads()
 ): Promise<StoreResult> {
 	const named = checkFileName(file.name);
-	if (!named.ok) return { ok: false, message: named.message };
+	if (!named.ok) return failure('invalid', named.message);
 	const check = checkPhoto(file.bytes);
-	if (!check.ok) return { ok: false, message: check.message };
+	if (!check.ok) return failure('invalid', check.message);
 	const id = crypto.randomUUID();
 	const key = `${target.shopId}/${id}.${check.extension}`;
 	await storage.put(key, file.bytes);
@@ -61,7 +59,7 @@ export async function storePhoto(
 	} catch (e) {
 		await storage.remove(key).catch(() => {});
 		if (thumbKey) await storage.remove(thumbKey).catch(() => {});
-		if (isClosedRecord(e)) return { ok: false, message: closedPhotoMessage, closed: true };
+		if (isClosedRecord(e)) return failure('conflict', closedPhotoMessage);
 		throw e;
 	}
 	if (!thumbKey && storage === uploads()) makeMissingCopies(60_000);
@@ -157,7 +155,7 @@ export async function attachPhoto(
 		file,
 		storage
 	);
-	if (!stored.ok) return failure(stored.closed ? 'conflict' : 'invalid', stored.message);
+	if (!stored.ok) return stored;
 	return { ok: true, entry: (await readEntry(actor.shopId, entryId))! };
 }
 

@@ -1,4 +1,5 @@
 // The shop's price list (parts, consumables, fluids). Scoped by shop id.
+import { failure, type Result } from '$lib/result';
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
 import { isUniqueViolation } from './db/errors';
@@ -12,9 +13,6 @@ export function listParts(shopId: string, opts: { all?: boolean } = {}) {
 		.orderBy(asc(part.code));
 }
 
-export type PartResult =
-	{ ok: true } | { ok: false; field?: string; message: string; status?: 404 };
-
 export async function savePart(
 	shopId: string,
 	input: {
@@ -25,7 +23,7 @@ export async function savePart(
 		priceMinor: number;
 		fluid?: string | null;
 	}
-): Promise<PartResult> {
+): Promise<Result> {
 	const values = {
 		code: input.code,
 		description: input.description,
@@ -40,18 +38,14 @@ export async function savePart(
 				.set(values)
 				.where(and(eq(part.shopId, shopId), eq(part.id, input.partId)))
 				.returning({ id: part.id });
-			if (!rows.length) return { ok: false, status: 404, message: 'No such part in this shop.' };
+			if (!rows.length) return failure('not_found', 'No such part in this shop.');
 		} else {
 			await db.insert(part).values({ shopId, ...values });
 		}
 		return { ok: true };
 	} catch (e) {
 		if (isUniqueViolation(e)) {
-			return {
-				ok: false,
-				field: 'code',
-				message: `The code ${input.code} is already on the list.`
-			};
+			return failure('conflict', `The code ${input.code} is already on the list.`, 'code');
 		}
 		throw e;
 	}

@@ -3,7 +3,7 @@
 import { readSpecCsv, type CsvPreviewRow } from '$lib/procedures/csv';
 import { readProcedureFile, type ProcedureFileEntry, type Problem } from '$lib/schemas/procedure';
 import { listParts } from './price-list';
-import { importProcedures, type ImportResult } from './procedures';
+import { importProcedures, importRefused, type ImportResult } from './procedures';
 
 export interface ImportPreview {
 	kind: 'json' | 'csv';
@@ -83,7 +83,7 @@ export async function saveImport(
 	content: string
 ): Promise<ImportResult> {
 	const { entries, problems, rows } = read(kind, content);
-	if (problems.length) return { ok: false, problems };
+	if (problems.length) return importRefused('invalid', problems);
 	return importProcedures(shopId, entries, kind === 'csv' ? csvWhere(rows, entries) : undefined);
 }
 

@@ -11,6 +11,7 @@ import {
 	type StepForm
 } from '$lib/schemas/procedure';
 import { toStoredSpec } from '$lib/procedures/spec';
+import { failure, type Result } from '$lib/result';
 import { stepAdapter } from '$lib/torque/adapter';
 import { db, type Tx } from './db';
 import { specFields } from './db/spec-fields';
@@ -190,7 +191,7 @@ async function ownsPart(tx: Tx, shopId: string, partId: string) {
 	return Boolean(row);
 }
 
-export type StepSaveResult = { ok: true } | { ok: false; field?: string; message: string };
+export type StepSaveResult = Result;
 
 /** Adds a step at the end, or changes one (`stepId`). */
 export async function saveStep(
@@ -199,16 +200,16 @@ export async function saveStep(
 	input: StepForm
 ): Promise<StepSaveResult> {
 	const spec = toStoredSpec(input);
-	if (!spec.ok) return { ok: false, field: spec.field, message: spec.message };
+	if (!spec.ok) return failure('invalid', spec.message, spec.field);
 	return db.transaction(async (tx) => {
 		const [proc] = await tx
 			.select({ id: procedure.id })
 			.from(procedure)
 			.where(and(eq(procedure.shopId, shopId), eq(procedure.id, procedureId)))
 			.for('update');
-		if (!proc) return { ok: false, message: 'No such procedure in this shop.' };
+		if (!proc) return failure('not_found', 'No such procedure in this shop.');
 		if (input.partId && !(await ownsPart(tx, shopId, input.partId))) {
-			return { ok: false, field: 'partId', message: 'Pick a part from the price list.' };
+			return failure('invalid', 'Pick a part from the price list.', 'partId');
 		}
 		const values = {
 			label: input.label,
@@ -236,7 +237,7 @@ export async function saveStep(
 					)
 				)
 				.returning({ id: procedureStep.id });
-			if (!rows.length) return { ok: false, message: 'No such step in this procedure.' };
+			if (!rows.length) return failure('not_found', 'No such step in this procedure.');
 		} else {
 			const [last] = await tx
 				.select({ position: max(procedureStep.position) })
@@ -298,8 +299,18 @@ export async function moveStep(
 	});
 }
 
-export type ImportResult =
-	{ ok: true; created: { id: string; name: string }[] } | { ok: false; problems: Problem[] };
+/** A refused import names every problem where it was found; nothing is saved. */
+export type ImportResult = Result<
+	{ created: { id: string; name: string }[] },
+	{ problems: Problem[] }
+>;
+
+/** The failure of an import: `invalid` for a file that cannot be read, else `unprocessable`. */
+export function importRefused(kind: 'invalid' | 'unprocessable', problems: Problem[]) {
+	const n = problems.length;
+	const words = `${n} ${n === 1 ? 'problem' : 'problems'} in the file: nothing was saved.`;
+	return { ...failure(kind, words), problems };
+}
 
 /**
  * Saves checked procedures in one transaction: every part code must be on the shop's price
@@ -333,7 +344,7 @@ export async function importProcedures(
 				}
 			})
 		);
-		if (problems.length) return { ok: false, problems };
+		if (problems.length) return importRefused('unprocessable', problems);
 		const created: { id: string; name: string }[] = [];
 		for (const e of entries) {
 			const [row] = await tx

@@ -1,4 +1,5 @@
 // Shop settings and torque tools. Scoped by shop id.
+import { failure, type Result } from '$lib/result';
 import { and, asc, eq } from 'drizzle-orm';
 import { db } from './db';
 import { isUniqueViolation } from './db/errors';
@@ -43,7 +44,7 @@ export async function saveTool(
 		intervalMonths: number | null;
 		effectiveLengthMm?: number | null;
 	}
-): Promise<{ ok: true } | { ok: false; field?: string; message: string; status?: 404 }> {
+): Promise<Result> {
 	const values = {
 		identifier: input.identifier,
 		kind: input.kind,
@@ -61,18 +62,14 @@ export async function saveTool(
 				.set(values)
 				.where(and(eq(torqueTool.shopId, shopId), eq(torqueTool.id, input.toolId)))
 				.returning({ id: torqueTool.id });
-			if (!rows.length) return { ok: false, status: 404, message: 'No such tool in this shop.' };
+			if (!rows.length) return failure('not_found', 'No such tool in this shop.');
 		} else {
 			await db.insert(torqueTool).values({ shopId, ...values });
 		}
 		return { ok: true };
 	} catch (e) {
 		if (isUniqueViolation(e)) {
-			return {
-				ok: false,
-				field: 'identifier',
-				message: `A tool named ${input.identifier} exists.`
-			};
+			return failure('conflict', `A tool named ${input.identifier} exists.`, 'identifier');
 		}
 		throw e;
 	}

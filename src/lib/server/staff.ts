@@ -1,6 +1,7 @@
 // Staff accounts of one shop. Every query is scoped by the caller's shop id.
 import { and, asc, eq, ne } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
+import { failure, type Result } from '$lib/result';
 import { forgetUser, lucia } from './auth';
 import { db } from './db';
 import { user } from './db/schema';
@@ -20,15 +21,13 @@ export function listStaff(shopId: string) {
 		.orderBy(asc(user.name));
 }
 
-export type StaffResult =
-	{ ok: true } | { ok: false; field?: string; message: string; status?: 404 };
-
-const noSuchAccount = { ok: false, status: 404, message: 'No such account in this shop.' } as const;
+const noSuchAccount = failure('not_found', 'No such account in this shop.');
+const lastOwner = failure('conflict', 'The shop needs at least one active owner.');
 
 export async function createStaff(
 	shopId: string,
 	input: { name: string; email: string; role: Role; password: string }
-): Promise<StaffResult> {
+): Promise<Result> {
 	const passwordHash = await hashPassword(input.password);
 	const rows = await db
 		.insert(user)
@@ -42,13 +41,13 @@ export async function createStaff(
 			.select({ name: user.name })
 			.from(user)
 			.where(and(eq(user.shopId, shopId), eq(user.email, input.email)));
-		return {
-			ok: false,
-			field: 'email',
-			message: here
+		return failure(
+			'conflict',
+			here
 				? `${here.name} already signs in with that e-mail in this shop.`
-				: 'That e-mail cannot be used for a new account. Use another address.'
-		};
+				: 'That e-mail cannot be used for a new account. Use another address.',
+			'email'
+		);
 	}
 	return { ok: true };
 }
@@ -78,11 +77,11 @@ async function findInShop(shopId: string, userId: string) {
 	return row ?? null;
 }
 
-export async function setRole(shopId: string, userId: string, role: Role): Promise<StaffResult> {
+export async function setRole(shopId: string, userId: string, role: Role): Promise<Result> {
 	const row = await findInShop(shopId, userId);
 	if (!row) return noSuchAccount;
 	if (row.role === 'owner' && role !== 'owner' && (await wouldRemoveLastOwner(shopId, userId))) {
-		return { ok: false, message: 'The shop needs at least one active owner.' };
+		return lastOwner;
 	}
 	await db
 		.update(user)
@@ -93,15 +92,11 @@ export async function setRole(shopId: string, userId: string, role: Role): Promi
 }
 
 /** Deactivating ends the account's sessions at once. */
-export async function setActive(
-	shopId: string,
-	userId: string,
-	active: boolean
-): Promise<StaffResult> {
+export async function setActive(shopId: string, userId: string, active: boolean): Promise<Result> {
 	const row = await findInShop(shopId, userId);
 	if (!row) return noSuchAccount;
 	if (!active && row.role === 'owner' && (await wouldRemoveLastOwner(shopId, userId))) {
-		return { ok: false, message: 'The shop needs at least one active owner.' };
+		return lastOwner;
 	}
 	await db
 		.update(user)
@@ -117,7 +112,7 @@ export async function resetPassword(
 	shopId: string,
 	userId: string,
 	password: string
-): Promise<StaffResult> {
+): Promise<Result> {
 	const row = await findInShop(shopId, userId);
 	if (!row) return noSuchAccount;
 	await db

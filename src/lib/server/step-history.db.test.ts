@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { answerStatus } from './http';
 import { db } from './db';
 import { logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
@@ -43,13 +44,13 @@ describe('stepHistory ("history <step>" on the Bench)', () => {
 			text: 'rear axle 70 nm',
 			source: 'typed'
 		});
-		expect(now.status).toBe(201);
+		expect(answerStatus(now)).toBe(201);
 		const wrong = await appendEntry(tech, f.job.id, {
 			id: crypto.randomUUID(),
 			text: 'rear axle 99 nm',
 			source: 'typed'
 		});
-		expect(wrong.status).toBe(201);
+		expect(answerStatus(wrong)).toBe(201);
 		await appendEntry(tech, f.job.id, { id: crypto.randomUUID(), text: 'undo', source: 'typed' });
 
 		const view = await stepHistory(f.shop.id, f.job.id, f.step.id);

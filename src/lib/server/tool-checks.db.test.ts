@@ -107,7 +107,7 @@ describe('torque tool checks', () => {
 			await recordCheck(other.shop.id, other.owner.id, tool.id, check('2026-12-03', good))
 		).toMatchObject({
 			ok: false,
-			status: 404
+			kind: 'not_found'
 		});
 	});
 
@@ -115,7 +115,7 @@ describe('torque tool checks', () => {
 		const f = await makeShop('Tools');
 		const tool = await addTool(f, { kind: 'dial wrench (demo)' });
 		const r = await recordCheck(f.shop.id, f.owner.id, tool.id, check('2026-12-01', good));
-		expect(r).toMatchObject({ ok: false, status: 400, field: 'permissiblePct' });
+		expect(r).toMatchObject({ ok: false, kind: 'invalid', field: 'permissiblePct' });
 		const given = await recordCheck(f.shop.id, f.owner.id, tool.id, {
 			...check('2026-12-01', bad),
 			permissiblePct: 6

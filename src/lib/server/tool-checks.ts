@@ -3,6 +3,7 @@
 import { and, desc, eq, sql } from 'drizzle-orm';
 import { judgeCheck, permissiblePct, testPoints, type CheckResult } from '$lib/torque/iso6789';
 import { calibrationDue } from '$lib/torque';
+import { failure, type Result } from '$lib/result';
 import { db } from './db';
 import * as s from './db/schema';
 import { isLive } from './log/live';
@@ -137,9 +138,7 @@ export interface CheckInput {
 	note: string | null;
 }
 
-export type RecordResult =
-	| { ok: true; result: CheckResult; permissiblePct: number }
-	| { ok: false; status: 400 | 404; field?: string; message: string };
+export type RecordResult = Result<{ result: CheckResult; permissiblePct: number }>;
 
 /**
  * Records a check. A passed check renews the tool's calibration date (when it is newer); a
@@ -158,19 +157,18 @@ export function recordCheck(
 			.from(s.torqueTool)
 			.where(and(eq(s.torqueTool.shopId, shopId), eq(s.torqueTool.id, toolId)))
 			.for('update');
-		if (!tool) return { ok: false, status: 404, message: 'No such torque tool in this shop.' };
+		if (!tool) return failure('not_found', 'No such torque tool in this shop.');
 		const pct = permissiblePct(tool.kind, tool.rangeMax, tool.unit) ?? input.permissiblePct;
 		if (pct === null) {
-			return {
-				ok: false,
-				status: 400,
-				field: 'permissiblePct',
-				message: `Benchcall cannot read a permissible deviation from “${tool.kind}”: give the one on the tool’s certificate.`
-			};
+			return failure(
+				'invalid',
+				`Benchcall cannot read a permissible deviation from “${tool.kind}”: give the one on the tool’s certificate.`,
+				'permissiblePct'
+			);
 		}
 		const result = judgeCheck(input.points, pct);
 		if (result.problems.length) {
-			return { ok: false, status: 400, field: 'points', message: result.problems[0] };
+			return failure('invalid', result.problems[0], 'points');
 		}
 		await tx.insert(s.torqueToolCheck).values({
 			shopId,

@@ -1,5 +1,6 @@
 // Vehicles and customers: finding a vehicle, its history (jobs, values per step across services,
 // out-of-spec entries, photos), what is due next, and the reminder e-mail. Scoped by shop id.
+import { failure, type Result } from '$lib/result';
 import { shopFormat, type ShopStyle } from '$lib/format';
 import { client } from './db';
 import { liveCondition } from './log/live';
@@ -346,14 +347,14 @@ export async function sendDueReminder(
 	sentBy: string,
 	shopName: string,
 	today = new Date()
-): Promise<{ ok: boolean; message: string }> {
+): Promise<Result<{ message: string }>> {
 	const vehicle = await getVehicle(shopId, vehicleId);
-	if (!vehicle) return { ok: false, message: 'No such vehicle in this shop.' };
+	if (!vehicle) return failure('not_found', 'No such vehicle in this shop.');
 	const items = (await vehicleDue(shopId, vehicleId, today)).filter(
 		(i) => i.state === 'overdue' || i.state === 'due_soon' || i.state === 'later'
 	);
 	if (items.length === 0) {
-		return { ok: false, message: 'Nothing with a known due date: no reminder to send.' };
+		return failure('unprocessable', 'Nothing with a known due date: no reminder to send.');
 	}
 	return sendMail({
 		shopId,

@@ -1,6 +1,7 @@
 // Every change of a job's state goes through transitionJob (jobs.ts): the Bench's first entry
 // on an open job (open → in work) and its hand-over (in work → final inspection) included.
 // The spy wraps the real function, so the state machine still decides and records each change.
+import { answerStatus } from '../http';
 import { eq } from 'drizzle-orm';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { db } from '../db';
@@ -40,7 +41,7 @@ describe('state changes from the Bench', () => {
 			text: 'rear axle nut 80 Nm',
 			source: 'typed'
 		});
-		expect(r.status).toBe(201);
+		expect(answerStatus(r)).toBe(201);
 		expect(jobs.transitionJob).toHaveBeenCalledWith(
 			f.shop.id,
 			f.job.id,

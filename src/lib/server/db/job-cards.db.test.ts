@@ -181,6 +181,8 @@ describe('job cards', () => {
 		]);
 		expect(r).toEqual({
 			ok: false,
+			kind: 'unprocessable',
+			message: '1 problem in the file: nothing was saved.',
 			problems: [
 				{
 					where: 'procedures[1].steps[0].part.code',

@@ -29,7 +29,7 @@ describe('shop scoping', () => {
 		const b = await makeShop('Shop B');
 		expect(await setRole(b.shop.id, a.tech.id, 'owner')).toEqual({
 			ok: false,
-			status: 404,
+			kind: 'not_found',
 			message: 'No such account in this shop.'
 		});
 		expect(await setActive(b.shop.id, a.tech.id, false)).toMatchObject({ ok: false });

@@ -7,6 +7,7 @@ import { isUuid } from '$lib/ids';
 import { dimensionOf } from '$lib/units';
 import type { BenchStep, EntryView } from '$lib/bench/types';
 import { beforeOpening, beforeOpeningMessage } from '$lib/schemas/dates';
+import { failure, type Result } from '$lib/result';
 import { db } from '../db';
 import { isClosedRecord, isDatabaseUnavailable } from '../db/errors';
 import * as s from '../db/schema';
@@ -38,16 +39,15 @@ import { announceStored, closedMeanwhileMessage } from './write';
 import { insertBatch, insertOne, type BatchRow } from './write-sql';
 import { stepAdapter } from '$lib/torque/adapter';
 
-export type AppendResult =
-	| { status: 200 | 201; entry: EntryView }
+/** The entry, `created` unless its id was stored before (a device's retry), or a refusal. */
+export type AppendResult = Result<
+	| { created: boolean; entry: EntryView }
 	/** An intent that logs nothing ("next", "spec …"): answered, nothing written. */
-	| {
-			status: 200;
-			answer: { intent: 'next' | 'spec'; step: BenchStep | null; message: string };
-	  }
-	| { status: 403 | 404 | 409 | 422; message: string };
+	| { answer: { intent: 'next' | 'spec'; step: BenchStep | null; message: string } }
+>;
 
-const CLOSED_MEANWHILE = { status: 409 as const, message: closedMeanwhileMessage };
+const CLOSED_MEANWHILE = failure('conflict', closedMeanwhileMessage);
+const notOnJob = () => failure('unprocessable', 'That step is not on this job.');
 
 /**
  * What an append needs of the job, in one query: who may write, state, the steps' version and
@@ -97,23 +97,22 @@ export async function appendEntry(
 	const quick = await appendToKnownJob(actor, jobId, input, now);
 	if (quick) return quick;
 	const ctx = await appendContext(actor.shopId, jobId);
-	if (!ctx) return { status: 404, message: NOT_FOUND };
+	if (!ctx) return failure('not_found', NOT_FOUND);
 	knownTolerance.set(actor.shopId, ctx.pct);
 	if (!mayWrite(actor, ctx.job)) {
-		return {
-			status: 403,
-			message:
-				actor.role === 'technician'
-					? 'This job is not assigned to you. Ask the foreman to assign it.'
-					: 'Your role does not log work on jobs.'
-		};
+		return failure(
+			'forbidden',
+			actor.role === 'technician'
+				? 'This job is not assigned to you. Ask the foreman to assign it.'
+				: 'Your role does not log work on jobs.'
+		);
 	}
 	const closed = await closedJob(actor, jobId, ctx.job.state, input.id);
 	if (closed) return closed;
 	const result = await appendChecked(actor, ctx, input, now);
 	// A repeat of a stored id answers with the stored entry, whatever the text reads as now. The
 	// insert itself recognises a repeat (on conflict); any other outcome asks here.
-	if (result.status !== 201 && !('entry' in result)) {
+	if (!('entry' in result)) {
 		return (await existingEntry(actor.shopId, jobId, input.id)) ?? result;
 	}
 	return result;
@@ -181,7 +180,7 @@ async function stored(
 	const entry = toEntry(row);
 	announceStored(actor.shopId, entry);
 	if (state === 'open') await startWork(actor, jobId);
-	return { status: 201, entry };
+	return { ok: true, created: true, entry };
 }
 
 async function appendChecked(
@@ -194,19 +193,17 @@ async function appendChecked(
 	const jobId = job.id;
 	const { steps, specs } = await jobStepDefinitions(actor.shopId, jobId, ctx.stepsVersion);
 	const read = readPhrase(specs, pct, input, now, timeZone);
-	if (!read) return { status: 422, message: 'That step is not on this job.' };
+	if (!read) return notOnJob();
 	const { parsed, deviceTime } = read;
 
 	if (parsed.intent === 'next' || parsed.intent === 'spec') {
 		// These log nothing and show the steps' done state, so read the steps as they are now.
 		const live = await listSteps(actor.shopId, jobId);
 		const again = readPhrase(toStepSpecs(live), pct, input, now, timeZone);
-		return again
-			? answer(again.parsed, live)
-			: { status: 422, message: 'That step is not on this job.' };
+		return again ? answer(again.parsed, live) : notOnJob();
 	}
 	if (beforeOpening(entryTime(read, now), ctx.openedAt)) {
-		return { status: 422, message: beforeOpeningMessage };
+		return failure('unprocessable', beforeOpeningMessage);
 	}
 	if (parsed.intent === 'undo' || input.retracts) {
 		return refusedIfClosed(retract(actor, job, input, deviceTime));
@@ -214,13 +211,13 @@ async function appendChecked(
 
 	const step = stepOf(steps, parsed);
 	const refused = refusal(parsed, step);
-	if (refused) return { status: 422, message: refused };
+	if (refused) return failure('unprocessable', refused);
 
 	let tool: BenchTool | null = null;
 	const isTorque = step?.unit ? dimensionOf(step.unit) === 'torque' : false;
 	if (input.torqueToolId && isTorque && parsed.intent === 'measure') {
 		const found = (await listTools(actor.shopId, now)).find((t) => t.id === input.torqueToolId);
-		if (!found) return { status: 422, message: 'That torque tool is not in this shop’s list.' };
+		if (!found) return failure('unprocessable', 'That torque tool is not in this shop’s list.');
 		tool = { id: found.id, overdue: found.state === 'overdue', lengthMm: found.effectiveLengthMm };
 	}
 
@@ -231,10 +228,8 @@ async function appendChecked(
 	const [row] = inserted;
 	if (!row) {
 		return (
-			(await existingEntry(actor.shopId, jobId, input.id)) ?? {
-				status: 409,
-				message: 'That entry id is already used.'
-			}
+			(await existingEntry(actor.shopId, jobId, input.id)) ??
+			failure('conflict', 'That entry id is already used.')
 		);
 	}
 	return stored(actor, jobId, row, job.state);
@@ -256,9 +251,9 @@ function answer(parsed: ParsedPhrase, steps: BenchStep[]): AppendResult {
 	const step = parsed.stepId ? (steps.find((st) => st.id === parsed.stepId) ?? null) : null;
 	const shown = intent === 'next' ? (steps.find((st) => !st.done) ?? null) : step;
 	if (intent === 'spec' && !shown) {
-		return { status: 422, message: parsed.problems[0] ?? 'No step of this job matches.' };
+		return failure('unprocessable', parsed.problems[0] ?? 'No step of this job matches.');
 	}
-	return { status: 200, answer: { intent, step: shown, message: describeStep(shown, intent) } };
+	return { ok: true, answer: { intent, step: shown, message: describeStep(shown, intent) } };
 }
 
 /**
@@ -275,10 +270,11 @@ async function closedJob(
 ): Promise<AppendResult | null> {
 	if (closedStates.includes(state)) {
 		return (
-			(await existingEntry(actor.shopId, jobId, entryId)) ?? {
-				status: 409,
-				message: `This job is ${stateLabels[state].toLowerCase()}: its record is closed and takes no more entries. Open a new job card for new work.`
-			}
+			(await existingEntry(actor.shopId, jobId, entryId)) ??
+			failure(
+				'conflict',
+				`This job is ${stateLabels[state].toLowerCase()}: its record is closed and takes no more entries. Open a new job card for new work.`
+			)
 		);
 	}
 	if (state !== 'ready_to_invoice') return null;
@@ -287,7 +283,7 @@ async function closedJob(
 		expectedFrom: 'ready_to_invoice',
 		reason: 'Work found after the job was ready to invoice'
 	});
-	return back.ok ? null : { status: 409, message: back.message };
+	return back.ok ? null : failure('conflict', back.message);
 }
 
 /**

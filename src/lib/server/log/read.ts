@@ -1,4 +1,5 @@
 // Reading the job log: one entry, a page of a job's log, and a repeated id.
+import { failure, type Result } from '$lib/result';
 import { and, eq, sql } from 'drizzle-orm';
 import type { FluidVerdict, Verdict } from '$lib/phrase';
 import type { EntryView } from '$lib/bench/types';
@@ -77,8 +78,10 @@ export async function listEntries(
 	return { entries, nextBefore: more ? entries[entries.length - 1].seq : null };
 }
 
-/** The answer to an id already stored: the entry, or a 409 when the id is another job's. */
-export type Existing = { status: 200; entry: EntryView } | { status: 409; message: string };
+/** The answer to an id already stored: the entry, or a conflict when the id is another job's. */
+export type Existing = Result<{ created: false; entry: EntryView }>;
+
+const idTaken = failure('conflict', 'That entry id is already used.');
 
 /** A repeat of an id: the stored entry when it is this job's, a 409 when the id is taken. */
 export async function existingEntry(
@@ -92,11 +95,7 @@ export async function existingEntry(
 		.where(and(eq(s.logEntry.shopId, shopId), eq(s.logEntry.id, id)))
 		.limit(1);
 	if (!row) return null;
-	if (row.shopId !== shopId || row.jobId !== jobId) {
-		return { status: 409, message: 'That entry id is already used.' };
-	}
+	if (row.shopId !== shopId || row.jobId !== jobId) return idTaken;
 	const entry = await readEntry(shopId, id);
-	return entry
-		? { status: 200, entry }
-		: { status: 409, message: 'That entry id is already used.' };
+	return entry ? { ok: true, created: false, entry } : idTaken;
 }

@@ -3,6 +3,7 @@ import { sql } from 'drizzle-orm';
 import type { Actor, BenchJob } from '../bench/job';
 import type { AppendResult } from './append';
 import type { AppendInput } from './entry';
+import { failure } from '$lib/result';
 import { existingEntry, readEntry } from './read';
 import { isLive } from './live';
 import { closedMeanwhileMessage, writeEntries } from './write';
@@ -28,23 +29,20 @@ export async function retract(
 				select e.id, e.author_id, (${live}) as live from log_entry e
 				where e.shop_id = ${actor.shopId} and e.job_id = ${job.id} and e.id = ${input.retracts}`);
 			const t = targetRows[0];
-			if (!t) return { status: 422 as const, message: 'There is no such entry on this job.' };
+			if (!t) return failure('unprocessable', 'There is no such entry on this job.');
 			const mine = t.author_id === actor.id;
 			if (!mine && actor.role !== 'foreman' && actor.role !== 'owner') {
-				return {
-					status: 403 as const,
-					message: 'Only its author or a foreman may retract an entry.'
-				};
+				return failure('forbidden', 'Only its author or a foreman may retract an entry.');
 			}
 			if (!t.live) {
-				return { status: 422 as const, message: 'That entry is already retracted.' };
+				return failure('unprocessable', 'That entry is already retracted.');
 			}
 		} else {
 			targetRows = await tx.execute(sql`
 				select e.id from log_entry e where ${live} and e.author_id = ${actor.id}
 				order by e.seq desc limit 1`);
 			if (!targetRows[0]) {
-				return { status: 422 as const, message: 'You have no entry on this job left to undo.' };
+				return failure('unprocessable', 'You have no entry on this job left to undo.');
 			}
 		}
 		const target = targetRows[0].id as string;
@@ -59,19 +57,17 @@ export async function retract(
 			retracts: target,
 			occurredAt
 		});
-		return inserted ? { status: 201 as const } : null;
+		return inserted ? { ok: true as const } : null;
 	});
-	if (written.closed) return { status: 409, message: closedMeanwhileMessage };
+	if (written.closed) return failure('conflict', closedMeanwhileMessage);
 	const outcome = written.value;
 	if (outcome === null) {
 		return (
-			(await existingEntry(actor.shopId, job.id, input.id)) ?? {
-				status: 409,
-				message: 'That entry id is already used.'
-			}
+			(await existingEntry(actor.shopId, job.id, input.id)) ??
+			failure('conflict', 'That entry id is already used.')
 		);
 	}
-	if (outcome.status !== 201) return outcome;
+	if (!outcome.ok) return outcome;
 	const entry = await readEntry(actor.shopId, input.id);
-	return { status: 201, entry: entry! };
+	return { ok: true, created: true, entry: entry! };
 }

@@ -1,8 +1,9 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { landingFor } from '$lib/auth/roles';
 import { signInSchema } from '$lib/schemas/auth';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
 import { checkSignIn, lucia } from '$lib/server/auth';
+import { refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -15,15 +16,10 @@ export const actions = {
 		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = signInSchema.safeParse(Object.fromEntries(form));
-		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });
+		if (!parsed.success) return refuse(parsed.error, { values });
 
 		const result = await checkSignIn(parsed.data.email, parsed.data.password, getClientAddress());
-		if (!result.ok) {
-			return fail(result.retryAfterSeconds ? 429 : 400, {
-				values,
-				errors: formError(result.message)
-			});
-		}
+		if (!result.ok) return refuse(result, { values });
 		// A fresh session on every sign-in: an old cookie is never promoted (no fixation).
 		if (locals.session) await lucia.invalidateSession(locals.session.id);
 		const session = await lucia.createSession(result.userId, {});

@@ -1,9 +1,11 @@
-import { error, fail } from '@sveltejs/kit';
+import { error } from '@sveltejs/kit';
 import { checkTransition } from '$lib/jobs/machine';
 import { closedStates } from '$lib/jobs/states';
 import { assignSchema, extraWorkSchema, transitionSchema } from '$lib/schemas/job';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
+import { failure, type FailureKind } from '$lib/result';
 import { requireRole } from '$lib/server/auth';
+import { refuse } from '$lib/server/http';
 import { readForm, tooLargeMessage } from '$lib/server/request';
 import { getJobCard } from '$lib/server/job-card-view';
 import { addExtraWork, assignJob, listBays, listTechnicians } from '$lib/server/job-cards';
@@ -53,28 +55,30 @@ export const load: PageServerLoad = async ({ params }) => {
 	};
 };
 
+const noPhotos = 'Choose one or more photos to add.';
+
 export const actions = {
 	/** Intake photos: the Bench's rules (type from the bytes, at most 10 MB each). */
 	photo: async ({ request, params }) => {
 		const user = requireRole('service_writer', 'owner');
 		const card = await cardOr404(user.shopId, params.number);
 		if (closedStates.includes(card.job.state)) {
-			return fail(409, { action: 'photo', errors: formError(closedPhotoMessage) });
+			return refuse(failure('conflict', closedPhotoMessage), { action: 'photo' });
 		}
 		let form: FormData;
 		try {
 			form = await request.formData();
 		} catch (e) {
-			if (isTooLarge(e)) {
-				return fail(413, { action: 'photo', errors: formError(tooLargeMessage) });
-			}
-			return fail(400, { action: 'photo', errors: formError('Choose one or more photos to add.') });
+			const why = isTooLarge(e)
+				? failure('too_large', tooLargeMessage)
+				: failure('invalid', noPhotos);
+			return refuse(why, { action: 'photo' });
 		}
 		const files = form.getAll('photo').filter((f): f is File => f instanceof File && f.size > 0);
-		if (files.length === 0) {
-			return fail(400, { action: 'photo', errors: formError('Choose one or more photos to add.') });
-		}
+		if (files.length === 0) return refuse(failure('invalid', noPhotos), { action: 'photo' });
 		const refused: string[] = [];
+		// A closed record refuses every photo alike: it decides the status of the answer.
+		let kind: FailureKind = 'invalid';
 		let added = 0;
 		for (const file of files.slice(0, 12)) {
 			if (file.size > MAX_PHOTO_BYTES) {
@@ -87,14 +91,14 @@ export const actions = {
 				{ bytes, name: file.name }
 			);
 			if (result.ok) added += 1;
-			else refused.push(`${file.name}: ${result.message}`);
+			else {
+				refused.push(`${file.name}: ${result.message}`);
+				if (result.kind === 'conflict') kind = 'conflict';
+			}
 		}
 		if (refused.length > 0) {
 			const kept = added > 0 ? ` ${added} photo${added === 1 ? ' was' : 's were'} added.` : '';
-			return fail(400, {
-				action: 'photo',
-				errors: formError(`Not added — ${refused.join(' ')}${kept}`)
-			});
+			return refuse(failure(kind, `Not added — ${refused.join(' ')}${kept}`), { action: 'photo' });
 		}
 		return { action: 'photo', done: `${added} intake photo${added === 1 ? '' : 's'} added.` };
 	},
@@ -104,21 +108,14 @@ export const actions = {
 		const form = await readForm(request);
 		const parsed = transitionSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, {
-				action: 'state',
-				values: echoValues(form),
-				errors: fieldErrors(parsed.error)
-			});
+			return refuse(parsed.error, { action: 'state', values: echoValues(form) });
 		}
 		// Hold, resume and cancel only: the other moves belong to the Bench, Floor and invoices.
 		const { to, reason, expectedFrom } = parsed.data;
 		const resume = card.job.state === 'on_hold' && to !== 'cancelled';
 		if (!resume && to !== 'on_hold' && to !== 'cancelled') {
-			return fail(400, {
-				action: 'state',
-				values: echoValues(form),
-				errors: formError('That change is made elsewhere (Bench, Floor or the invoice).')
-			});
+			const elsewhere = 'That change is made elsewhere (Bench, Floor or the invoice).';
+			return refuse(failure('invalid', elsewhere), { action: 'state', values: echoValues(form) });
 		}
 		const result = await transitionJob(user.shopId, card.job.id, to, {
 			byUserId: user.id,
@@ -126,11 +123,7 @@ export const actions = {
 			expectedFrom
 		});
 		if (!result.ok) {
-			return fail(400, {
-				action: 'state',
-				values: echoValues(form),
-				errors: formError(result.message, 'reason')
-			});
+			return refuse({ ...result, field: 'reason' }, { action: 'state', values: echoValues(form) });
 		}
 		return { action: 'state', done: 'State changed.' };
 	},
@@ -140,20 +133,10 @@ export const actions = {
 		const form = await readForm(request);
 		const parsed = assignSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, {
-				action: 'assign',
-				values: echoValues(form),
-				errors: fieldErrors(parsed.error)
-			});
+			return refuse(parsed.error, { action: 'assign', values: echoValues(form) });
 		}
 		const result = await assignJob(user.shopId, card.job.id, parsed.data);
-		if (!result.ok) {
-			return fail(400, {
-				action: 'assign',
-				values: echoValues(form),
-				errors: formError(result.message, result.field)
-			});
-		}
+		if (!result.ok) return refuse(result, { action: 'assign', values: echoValues(form) });
 		return { action: 'assign', done: 'Assignment saved.' };
 	},
 	extra: async ({ request, params }) => {
@@ -162,20 +145,10 @@ export const actions = {
 		const form = await readForm(request);
 		const parsed = extraWorkSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, {
-				action: 'extra',
-				values: echoValues(form),
-				errors: fieldErrors(parsed.error)
-			});
+			return refuse(parsed.error, { action: 'extra', values: echoValues(form) });
 		}
 		const result = await addExtraWork(user.shopId, user.id, card.job.id, parsed.data);
-		if (!result.ok) {
-			return fail(400, {
-				action: 'extra',
-				values: echoValues(form),
-				errors: formError(result.message)
-			});
-		}
+		if (!result.ok) return refuse(result, { action: 'extra', values: echoValues(form) });
 		return { action: 'extra', done: 'Approval recorded and the procedure added to the job.' };
 	}
 } satisfies Actions;

@@ -1,7 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { intakeFromForm, intakeSchema } from '$lib/schemas/job';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
 import { requireRole } from '$lib/server/auth';
+import { refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import { createJobCard, findCustomers, listBays, listTechnicians } from '$lib/server/job-cards';
 import { listProcedures } from '$lib/server/procedures';
@@ -27,16 +28,10 @@ export const actions = {
 		const procedureIds = form.getAll('procedureIds').map(String);
 		const parsed = intakeSchema.safeParse(intakeFromForm(form));
 		if (!parsed.success) {
-			return fail(400, { values, procedureIds, errors: fieldErrors(parsed.error) });
+			return refuse(parsed.error, { values, procedureIds });
 		}
 		const result = await createJobCard(user.shopId, user.id, parsed.data);
-		if (!result.ok) {
-			return fail(400, {
-				values,
-				procedureIds,
-				errors: formError(result.message, result.field)
-			});
-		}
+		if (!result.ok) return refuse(result, { values, procedureIds });
 		redirect(303, `/jobs/${result.number}?opened=1`);
 	}
 } satisfies Actions;

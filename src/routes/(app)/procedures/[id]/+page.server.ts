@@ -1,4 +1,4 @@
-import { error, fail } from '@sveltejs/kit';
+import { error } from '@sveltejs/kit';
 import { procedureEditors, procedureReaders } from '$lib/procedures/access';
 import {
 	procedureFormSchema,
@@ -6,9 +6,11 @@ import {
 	stepIdSchema,
 	stepMoveSchema
 } from '$lib/schemas/procedure';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
+import { failure } from '$lib/result';
 import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
+import { refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import { listParts } from '$lib/server/price-list';
 import * as procedures from '$lib/server/procedures';
@@ -38,11 +40,7 @@ export const actions = {
 		const form = await readForm(request);
 		const parsed = procedureFormSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, {
-				action: 'details',
-				values: echoValues(form),
-				errors: fieldErrors(parsed.error)
-			});
+			return refuse(parsed.error, { action: 'details', values: echoValues(form) });
 		}
 		const ok = await procedures.updateProcedure(user.shopId, params.id, parsed.data);
 		if (!ok) error(404, 'No such procedure in this shop.');
@@ -56,22 +54,19 @@ export const actions = {
 		const parsed = stepFormSchema.safeParse(Object.fromEntries(form));
 		const stepId = values.stepId || 'new';
 		if (!parsed.success) {
-			return fail(400, { action: 'step', stepId, values, errors: fieldErrors(parsed.error) });
+			return refuse(parsed.error, { action: 'step', stepId, values });
 		}
 		const r = await procedures.saveStep(user.shopId, params.id, parsed.data);
-		if (!r.ok) {
-			return fail(400, { action: 'step', stepId, values, errors: formError(r.message, r.field) });
-		}
+		if (!r.ok) return refuse(r, { action: 'step', stepId, values });
 		return { action: 'step', stepId, done: parsed.data.stepId ? 'Step saved.' : 'Step added.' };
 	},
 	deleteStep: async ({ request, params }) => {
 		const user = requireRole(...procedureEditors);
 		await procedureOr404(user.shopId, params.id);
 		const parsed = stepIdSchema.safeParse(Object.fromEntries(await readForm(request)));
-		if (!parsed.success)
-			return fail(400, { action: 'deleteStep', errors: fieldErrors(parsed.error) });
+		if (!parsed.success) return refuse(parsed.error, { action: 'deleteStep' });
 		if (!(await procedures.deleteStep(user.shopId, params.id, parsed.data.stepId))) {
-			return fail(404, { action: 'deleteStep', errors: formError('No such step.') });
+			return refuse(failure('not_found', 'No such step.'), { action: 'deleteStep' });
 		}
 		return { action: 'deleteStep', done: 'Step removed from the library (jobs keep their copy).' };
 	},
@@ -79,7 +74,7 @@ export const actions = {
 		const user = requireRole(...procedureEditors);
 		await procedureOr404(user.shopId, params.id);
 		const parsed = stepMoveSchema.safeParse(Object.fromEntries(await readForm(request)));
-		if (!parsed.success) return fail(400, { action: 'move', errors: fieldErrors(parsed.error) });
+		if (!parsed.success) return refuse(parsed.error, { action: 'move' });
 		await procedures.moveStep(user.shopId, params.id, parsed.data.stepId, parsed.data.direction);
 		return { action: 'move', moved: parsed.data.stepId };
 	}

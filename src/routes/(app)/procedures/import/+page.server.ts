@@ -1,4 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
+import { failureStatus } from '$lib/result';
+import { statusOf } from '$lib/server/http';
 import { procedureEditors } from '$lib/procedures/access';
 import { importFormSchema } from '$lib/schemas/procedure';
 import { fieldErrors } from '$lib/schemas/form';
@@ -31,24 +33,27 @@ export const actions = {
 	preview: async ({ request }) => {
 		const user = requireRole(...procedureEditors);
 		const read = await contentOf(await readForm(request));
-		if ('error' in read) return fail(400, { errors: { file: read.error } });
+		if ('error' in read) return fail(failureStatus.invalid, { errors: { file: read.error } });
 		const parsed = importFormSchema.safeParse(read);
 		if (!parsed.success)
-			return fail(400, { errors: { file: fieldErrors(parsed.error).content ?? 'Choose a file.' } });
+			return fail(failureStatus.invalid, {
+				errors: { file: fieldErrors(parsed.error).content ?? 'Choose a file.' }
+			});
 		const preview = await previewImport(user.shopId, parsed.data.kind, parsed.data.content);
 		const payload = { preview, content: parsed.data.content, fileName: read.fileName };
-		return preview.ok ? payload : fail(400, payload);
+		return preview.ok ? payload : fail(failureStatus.invalid, payload);
 	},
 	save: async ({ request }) => {
 		const user = requireRole(...procedureEditors);
 		const read = await contentOf(await readForm(request));
-		if ('error' in read) return fail(400, { errors: { file: read.error } });
+		if ('error' in read) return fail(failureStatus.invalid, { errors: { file: read.error } });
 		const parsed = importFormSchema.safeParse(read);
-		if (!parsed.success) return fail(400, { errors: { file: 'Choose a file to import.' } });
+		if (!parsed.success)
+			return fail(failureStatus.invalid, { errors: { file: 'Choose a file to import.' } });
 		const result = await saveImport(user.shopId, parsed.data.kind, parsed.data.content);
 		if (!result.ok) {
 			const preview = await previewImport(user.shopId, parsed.data.kind, parsed.data.content);
-			return fail(400, {
+			return fail(statusOf(result), {
 				preview: { ...preview, ok: false, problems: result.problems },
 				content: parsed.data.content,
 				fileName: read.fileName

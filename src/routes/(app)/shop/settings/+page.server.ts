@@ -1,4 +1,3 @@
-import { fail } from '@sveltejs/kit';
 import { parseMoney } from '$lib/money';
 import {
 	inspectionItemChangeSchema,
@@ -7,13 +6,15 @@ import {
 	settingsSchema,
 	toolSchema
 } from '$lib/schemas/shop';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
+import { failure } from '$lib/result';
 import { requireRole } from '$lib/server/auth';
 import {
 	changeInspectionItem,
 	listInspectionItems,
 	saveInspectionItem
 } from '$lib/server/inspection-items';
+import { refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import { listParts, savePart } from '$lib/server/price-list';
 import { getShop } from '$lib/server/shop';
@@ -54,15 +55,12 @@ export const actions = {
 		const values = echoValues(form);
 		const parsed = settingsSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, { action: 'settings', values, errors: fieldErrors(parsed.error) });
+			return refuse(parsed.error, { action: 'settings', values });
 		}
 		const rate = parseMoney(parsed.data.labourRate, parsed.data.currency);
 		if (!rate.ok || rate.minor < 0) {
-			return fail(400, {
-				action: 'settings',
-				values,
-				errors: formError(rate.ok ? 'The rate cannot be negative.' : rate.error, 'labourRate')
-			});
+			const why = rate.ok ? 'The rate cannot be negative.' : rate.error;
+			return refuse(failure('invalid', why, 'labourRate'), { action: 'settings', values });
 		}
 		await updateSettings(user.shopId, {
 			currency: parsed.data.currency,
@@ -84,17 +82,10 @@ export const actions = {
 		const key = values.partId || 'new';
 		const parsed = partSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, { action: 'part', key, values, errors: fieldErrors(parsed.error) });
+			return refuse(parsed.error, { action: 'part', key, values });
 		}
 		const r = await savePart(user.shopId, parsed.data);
-		if (!r.ok) {
-			return fail(r.status ?? 400, {
-				action: 'part',
-				key,
-				values,
-				errors: formError(r.message, r.field)
-			});
-		}
+		if (!r.ok) return refuse(r, { action: 'part', key, values });
 		return { action: 'part', key, done: `${parsed.data.code} saved.` };
 	},
 	tool: async ({ request }) => {
@@ -104,17 +95,10 @@ export const actions = {
 		const key = values.toolId || 'new';
 		const parsed = toolSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, { action: 'tool', key, values, errors: fieldErrors(parsed.error) });
+			return refuse(parsed.error, { action: 'tool', key, values });
 		}
 		const r = await saveTool(user.shopId, parsed.data);
-		if (!r.ok) {
-			return fail(r.status ?? 400, {
-				action: 'tool',
-				key,
-				values,
-				errors: formError(r.message, r.field)
-			});
-		}
+		if (!r.ok) return refuse(r, { action: 'tool', key, values });
 		return { action: 'tool', key, done: `${parsed.data.identifier} saved.` };
 	},
 	checkItem: async ({ request }) => {
@@ -124,17 +108,10 @@ export const actions = {
 		const key = values.itemId || 'new';
 		const parsed = inspectionItemSchema.safeParse(Object.fromEntries(form));
 		if (!parsed.success) {
-			return fail(400, { action: 'checkItem', key, values, errors: fieldErrors(parsed.error) });
+			return refuse(parsed.error, { action: 'checkItem', key, values });
 		}
 		const r = await saveInspectionItem(user.shopId, parsed.data);
-		if (!r.ok) {
-			return fail(r.status ?? 400, {
-				action: 'checkItem',
-				key,
-				values,
-				errors: formError(r.message, r.field)
-			});
-		}
+		if (!r.ok) return refuse(r, { action: 'checkItem', key, values });
 		return {
 			action: 'checkItem',
 			key,
@@ -149,16 +126,11 @@ export const actions = {
 		const parsed = inspectionItemChangeSchema.safeParse(Object.fromEntries(form));
 		const key = typeof form.get('itemId') === 'string' ? String(form.get('itemId')) : 'new';
 		if (!parsed.success) {
-			return fail(400, {
-				action: 'checkItem',
-				key,
-				errors: formError(parsed.error.issues[0]?.message ?? 'Check the form.')
-			});
+			const why = parsed.error.issues[0]?.message ?? 'Check the form.';
+			return refuse(failure('invalid', why), { action: 'checkItem', key });
 		}
 		const r = await changeInspectionItem(user.shopId, parsed.data.itemId, parsed.data.change);
-		if (!r.ok) {
-			return fail(r.status ?? 400, { action: 'checkItem', key, errors: formError(r.message) });
-		}
+		if (!r.ok) return refuse(r, { action: 'checkItem', key });
 		return {
 			action: 'checkItem',
 			key,

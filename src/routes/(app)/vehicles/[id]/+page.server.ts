@@ -1,8 +1,9 @@
-import { error, fail } from '@sveltejs/kit';
+import { error } from '@sveltejs/kit';
 import { isUuid } from '$lib/ids';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
 import { reminderSchema } from '$lib/schemas/vehicle';
 import { requireRole } from '$lib/server/auth';
+import { refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import { getShop } from '$lib/server/shop';
 import {
@@ -52,10 +53,10 @@ export const actions = {
 		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = reminderSchema.safeParse(values);
-		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });
+		if (!parsed.success) return refuse(parsed.error, { values });
 		const shop = (await getShop(user.shopId))!;
 		const sent = await sendDueReminder(user.shopId, vehicle.id, parsed.data.to, user.id, shop.name);
-		if (!sent.ok) return fail(422, { values, errors: formError(sent.message) });
+		if (!sent.ok) return refuse(sent, { values });
 		return { done: `Reminder sent to ${parsed.data.to}.` };
 	}
 } satisfies Actions;

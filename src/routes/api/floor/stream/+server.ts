@@ -1,10 +1,10 @@
-import { json } from '@sveltejs/kit';
 import type { FloorEntry } from '$lib/floor/log';
 import { encodeResume, RESCAN_WINDOW, type ResumePoint } from '$lib/floor/resume';
 import { streamAfterSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
 import { announcedEntries, entriesSince, latestSeq } from '$lib/server/floor/log';
 import { subscribe } from '$lib/server/live';
+import { valid } from '$lib/server/request';
 import { eventStream } from '$lib/server/sse';
 import type { RequestHandler } from './$types';
 
@@ -23,11 +23,7 @@ export const GET: RequestHandler = async ({ request, url }) => {
 	const raw = request.headers.get('last-event-id') ?? url.searchParams.get('after');
 	let after: ResumePoint | null = null;
 	if (raw !== null && raw !== '') {
-		const parsed = streamAfterSchema.safeParse(raw);
-		if (!parsed.success) {
-			return json({ message: 'after must be the last event id seen (a seq).' }, { status: 400 });
-		}
-		after = parsed.data;
+		after = valid(streamAfterSchema, raw);
 	}
 	const shopId = user.shopId;
 	return eventStream((sink) => {

@@ -1,7 +1,7 @@
-import { error, fail } from '@sveltejs/kit';
 import type { z } from 'zod';
 import { formatMoney, parseMoney } from '$lib/money';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { failure, type Failure } from '$lib/result';
+import { echoValues } from '$lib/schemas/form';
 import {
 	counterPaymentSchema,
 	creditSchema,
@@ -13,6 +13,7 @@ import {
 	pickPartSchema
 } from '$lib/schemas/invoice';
 import { requireRole } from '$lib/server/auth';
+import { found, refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import { invoicePdf } from '$lib/server/invoice-pdf';
 import { addManualLine, makeDraft, pickPart, removeLine } from '$lib/server/invoice-lines';
@@ -32,14 +33,11 @@ import { workReport } from '$lib/server/work-report';
 import type { Actions, PageServerLoad } from './$types';
 
 function jobNumber(raw: string): number {
-	if (!/^\d{1,9}$/.test(raw)) error(404, 'No such job card.');
-	return Number(raw);
+	return Number(found(/^\d{1,9}$/.test(raw) ? raw : null, 'No such job card.'));
 }
 
 async function jobOr404(shopId: string, raw: string) {
-	const job = await findJobByNumber(shopId, jobNumber(raw));
-	if (!job) error(404, 'No such job card in this shop.');
-	return job;
+	return found(await findJobByNumber(shopId, jobNumber(raw)), 'No such job card in this shop.');
 }
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -53,23 +51,25 @@ export const load: PageServerLoad = async ({ params }) => {
 	return { job, invoices, parts, shop: shop!, canDraft: job.state === 'ready_to_invoice' };
 };
 
-type Failure = { action: string; errors: Record<string, string>; values?: Record<string, string> };
+type Answer = { action: string; values?: Record<string, string> };
 
 async function parse<S extends z.ZodType>(
 	request: Request,
 	schema: S,
 	action: string
-): Promise<{ parsed: z.infer<S>; form: FormData } | ReturnType<typeof fail<Failure>>> {
+): Promise<{ parsed: z.infer<S>; form: FormData } | ReturnType<typeof refuse<Answer>>> {
 	const form = await readForm(request);
 	const r = schema.safeParse(Object.fromEntries(form));
-	if (!r.success) {
-		return fail(400, { action, errors: fieldErrors(r.error), values: echoValues(form) });
-	}
+	if (!r.success) return refuse(r.error, { action, values: echoValues(form) });
 	return { parsed: r.data, form };
 }
 
-const refused = (action: string, message: string, values?: Record<string, string>) =>
-	fail(400, { action, errors: formError(message), values });
+/** A refusal of `action`, answered with the status of its kind (a state refusal is a 409). */
+const refused = (action: string, why: Failure, values?: Record<string, string>) =>
+	refuse(why, { action, values });
+
+/** The job has no draft to change: a refusal because of its state. */
+const noDraft = (message: string) => failure('conflict', message);
 
 /** The draft this job is working on, checked against the job so a foreign id is a 404. */
 async function draftOf(shopId: string, jobId: string) {
@@ -79,8 +79,7 @@ async function draftOf(shopId: string, jobId: string) {
 
 async function invoiceOfJob(shopId: string, jobId: string, invoiceId: string) {
 	const inv = await getInvoice(shopId, invoiceId);
-	if (!inv || inv.jobId !== jobId) error(404, 'No such invoice on this job.');
-	return inv;
+	return found(inv?.jobId === jobId ? inv : null, 'No such invoice on this job.');
 }
 
 export const actions = {
@@ -90,7 +89,7 @@ export const actions = {
 		const p = await parse(request, labourModeSchema, 'draft');
 		if (!('parsed' in p)) return p;
 		const r = await makeDraft(user.shopId, job.id, user.id, p.parsed.labourMode);
-		if (!r.ok) return refused('draft', r.message);
+		if (!r.ok) return refused('draft', r);
 		return { action: 'draft', done: 'Draft made from the job log.' };
 	},
 
@@ -100,14 +99,10 @@ export const actions = {
 		const p = await parse(request, manualLineSchema, 'addLine');
 		if (!('parsed' in p)) return p;
 		const draft = await draftOf(user.shopId, job.id);
-		if (!draft) return refused('addLine', 'Make a draft first.');
+		if (!draft) return refused('addLine', noDraft('Make a draft first.'));
 		const price = parseMoney(p.parsed.unitPrice, draft.currency);
 		if (!price.ok) {
-			return fail(400, {
-				action: 'addLine',
-				errors: { unitPrice: price.error },
-				values: echoValues(p.form)
-			});
+			return refused('addLine', failure('invalid', price.error, 'unitPrice'), echoValues(p.form));
 		}
 		const r = await addManualLine(user.shopId, draft.id, {
 			kind: p.parsed.kind,
@@ -115,7 +110,7 @@ export const actions = {
 			quantity: p.parsed.quantity,
 			unitPriceMinor: price.minor
 		});
-		if (!r.ok) return refused('addLine', r.message, echoValues(p.form));
+		if (!r.ok) return refused('addLine', r, echoValues(p.form));
 		return {
 			action: 'addLine',
 			done: `${p.parsed.kind === 'discount' ? 'Discount' : 'Line'} added.`
@@ -128,9 +123,9 @@ export const actions = {
 		const p = await parse(request, lineIdSchema, 'removeLine');
 		if (!('parsed' in p)) return p;
 		const draft = await draftOf(user.shopId, job.id);
-		if (!draft) return refused('removeLine', 'There is no draft to change.');
+		if (!draft) return refused('removeLine', noDraft('There is no draft to change.'));
 		const r = await removeLine(user.shopId, draft.id, p.parsed.lineId);
-		if (!r.ok) return refused('removeLine', r.message);
+		if (!r.ok) return refused('removeLine', r);
 		return { action: 'removeLine', done: 'Line removed.' };
 	},
 
@@ -140,9 +135,9 @@ export const actions = {
 		const p = await parse(request, pickPartSchema, 'pick');
 		if (!('parsed' in p)) return p;
 		const draft = await draftOf(user.shopId, job.id);
-		if (!draft) return refused('pick', 'There is no draft to change.');
+		if (!draft) return refused('pick', noDraft('There is no draft to change.'));
 		const r = await pickPart(user.shopId, draft.id, p.parsed.lineId, p.parsed.partId);
-		if (!r.ok) return refused('pick', r.message);
+		if (!r.ok) return refused('pick', r);
 		return { action: 'pick', done: 'Part picked from the price list.' };
 	},
 
@@ -153,7 +148,7 @@ export const actions = {
 		if (!('parsed' in p)) return p;
 		await invoiceOfJob(user.shopId, job.id, p.parsed.invoiceId);
 		const r = await issueInvoice(user.shopId, p.parsed.invoiceId, user.id);
-		if (!r.ok) return refused('issue', r.message);
+		if (!r.ok) return refused('issue', r);
 		return { action: 'issue', done: `Invoice ${r.number} issued. It can no longer change.` };
 	},
 
@@ -164,7 +159,7 @@ export const actions = {
 		if (!('parsed' in p)) return p;
 		await invoiceOfJob(user.shopId, job.id, p.parsed.invoiceId);
 		const r = await creditInvoice(user.shopId, p.parsed.invoiceId, user.id, p.parsed.reason);
-		if (!r.ok) return refused('credit', r.message, echoValues(p.form));
+		if (!r.ok) return refused('credit', r, echoValues(p.form));
 		// The customer's open checkout must not stay payable once the invoice is credited.
 		const closed = await expireCheckout(r.checkoutSessionId);
 		return {
@@ -183,18 +178,15 @@ export const actions = {
 		const inv = await invoiceOfJob(user.shopId, job.id, p.parsed.invoiceId);
 		const amount = parseMoney(p.parsed.amount, inv.currency);
 		if (!amount.ok || amount.minor <= 0) {
-			return fail(400, {
-				action: 'payment',
-				errors: { amount: amount.ok ? 'The amount must be more than zero.' : amount.error },
-				values: echoValues(p.form)
-			});
+			const why = amount.ok ? 'The amount must be more than zero.' : amount.error;
+			return refused('payment', failure('invalid', why, 'amount'), echoValues(p.form));
 		}
 		const r = await recordPayment(user.shopId, inv.id, {
 			method: p.parsed.method,
 			amountMinor: amount.minor,
 			byUserId: user.id
 		});
-		if (!r.ok) return refused('payment', r.message, echoValues(p.form));
+		if (!r.ok) return refused('payment', r, echoValues(p.form));
 		return {
 			action: 'payment',
 			done: `${formatMoney(amount.minor, inv.currency, (await getShop(user.shopId))?.locale)} by ${p.parsed.method} recorded.${r.paid ? ' The invoice is paid.' : ''}`
@@ -207,7 +199,9 @@ export const actions = {
 		const p = await parse(request, emailInvoiceSchema, 'email');
 		if (!('parsed' in p)) return p;
 		const inv = await invoiceOfJob(user.shopId, job.id, p.parsed.invoiceId);
-		if (inv.status === 'draft') return refused('email', 'Issue the invoice before sending it.');
+		if (inv.status === 'draft') {
+			return refused('email', failure('conflict', 'Issue the invoice before sending it.'));
+		}
 		const shop = (await getShop(user.shopId))!;
 		const pdf = await invoicePdf({
 			shop,
@@ -244,7 +238,7 @@ export const actions = {
 				}
 			]
 		});
-		if (!sent.ok) return refused('email', sent.message, echoValues(p.form));
+		if (!sent.ok) return refused('email', sent, echoValues(p.form));
 		return { action: 'email', done: sent.message };
 	}
 } satisfies Actions;

@@ -1,9 +1,10 @@
-import { error, fail } from '@sveltejs/kit';
+import { error } from '@sveltejs/kit';
 import { isUuid } from '$lib/ids';
 import { requireRole } from '$lib/server/auth';
+import { orError, refuse } from '$lib/server/http';
 import { readForm } from '$lib/server/request';
 import { recordCheck, toolWithChecks } from '$lib/server/tool-checks';
-import { echoValues, fieldErrors, formError } from '$lib/schemas/form';
+import { echoValues } from '$lib/schemas/form';
 import { checkFormInput, toolCheckSchema } from '$lib/schemas/tool-check';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -26,12 +27,9 @@ export const actions = {
 		const form = await readForm(request);
 		const values = echoValues(form);
 		const parsed = toolCheckSchema.safeParse(checkFormInput(values));
-		if (!parsed.success) return fail(400, { values, errors: fieldErrors(parsed.error) });
+		if (!parsed.success) return refuse(parsed.error, { values });
 		const r = await recordCheck(user.shopId, user.id, params.toolId, parsed.data);
-		if (!r.ok) {
-			if (r.status === 404) error(404, r.message);
-			return fail(r.status, { values, errors: formError(r.message, r.field) });
-		}
+		if (!r.ok) return r.kind === 'not_found' ? orError(r) : refuse(r, { values });
 		return {
 			done: r.result.passed
 				? `Check recorded: passed, largest deviation ${r.result.worstPct.toFixed(2)} % (limit ±${r.permissiblePct} %).`

@@ -1,8 +1,8 @@
 import { error, json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { firstIssue } from '$lib/schemas/bench';
 import { requireRole } from '$lib/server/auth';
 import { getJob } from '$lib/server/bench/job';
+import { valid } from '$lib/server/request';
 import { stepHistory } from '$lib/server/step-history';
 import type { RequestHandler } from './$types';
 
@@ -15,9 +15,8 @@ export const GET: RequestHandler = async ({ params, url }) => {
 	const user = requireRole('technician', 'foreman', 'owner');
 	const job = await getJob(user.shopId, params.jobId);
 	if (!job) error(404, 'No such job.');
-	const query = querySchema.safeParse(Object.fromEntries(url.searchParams));
-	if (!query.success) error(400, firstIssue(query.error));
-	const view = await stepHistory(user.shopId, job.id, query.data.step);
+	const query = valid(querySchema, Object.fromEntries(url.searchParams));
+	const view = await stepHistory(user.shopId, job.id, query.step);
 	if (!view) error(404, 'No such step on this job.');
 	return json(view);
 };

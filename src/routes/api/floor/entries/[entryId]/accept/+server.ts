@@ -3,16 +3,13 @@ import { acceptSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
 import { acceptEntry } from '$lib/server/floor/queue';
 import { orError } from '$lib/server/http';
-import { readJson } from '$lib/server/request';
+import { readBody } from '$lib/server/request';
 import type { RequestHandler } from './$types';
 
 /** The foreman accepts an out-of-spec value, with a reason (foreman and owner only). */
 export const POST: RequestHandler = async ({ params, request }) => {
 	const user = requireRole('foreman', 'owner');
-	const body = acceptSchema.safeParse(await readJson(request, 'Send a JSON body.'));
-	if (!body.success) {
-		return json({ message: body.error.issues[0]?.message ?? 'Bad request.' }, { status: 400 });
-	}
-	const { id } = orError(await acceptEntry(user, params.entryId, body.data.reason));
+	const body = await readBody(request, acceptSchema, 'The body must be JSON: { reason }.');
+	const { id } = orError(await acceptEntry(user, params.entryId, body.reason));
 	return json({ id }, { status: 201 });
 };

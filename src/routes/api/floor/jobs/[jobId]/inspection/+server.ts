@@ -3,7 +3,7 @@ import { inspectionTickSchema } from '$lib/schemas/floor';
 import { requireRole } from '$lib/server/auth';
 import { getInspection, noSuchJob, setInspectionTick } from '$lib/server/floor/inspection';
 import { found, orError, requireJobId } from '$lib/server/http';
-import { readJson } from '$lib/server/request';
+import { readBody } from '$lib/server/request';
 import type { RequestHandler } from './$types';
 
 /** The final-inspection checklist of a job, with who ticked what. */
@@ -16,11 +16,12 @@ export const GET: RequestHandler = async ({ params }) => {
 /** Ticks or unticks a checklist item (foreman and owner only). */
 export const POST: RequestHandler = async ({ params, request }) => {
 	const user = requireRole('foreman', 'owner');
-	const body = inspectionTickSchema.safeParse(await readJson(request, 'Send a JSON body.'));
-	if (!body.success) {
-		return json({ message: body.error.issues[0]?.message ?? 'Bad request.' }, { status: 400 });
-	}
+	const body = await readBody(
+		request,
+		inspectionTickSchema,
+		'The body must be JSON: { itemId, ticked }.'
+	);
 	const jobId = requireJobId(params.jobId);
-	orError(await setInspectionTick(user, jobId, body.data.itemId, body.data.ticked));
+	orError(await setInspectionTick(user, jobId, body.itemId, body.ticked));
 	return json(found(await getInspection(user.shopId, jobId), noSuchJob));
 };
