@@ -14,7 +14,8 @@ const sizes = [
 async function shoot(page: Page, name: string) {
 	const { width, height } = page.viewportSize()!;
 	await page.screenshot({
-		path: `test-results/layout/${name}-${width}x${height}.png`
+		path: `test-results/layout/${name}-${width}x${height}.png`,
+		fullPage: true
 	});
 }
 
