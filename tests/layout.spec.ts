@@ -19,6 +19,13 @@ async function shoot(page: Page, name: string) {
 	});
 }
 
+/** Saves the page's screenshot and expects nothing on it to look broken. */
+async function fits(page: Page, name: string) {
+	const { width, height } = page.viewportSize()!;
+	await shoot(page, name);
+	expect(await layoutProblems(page), `${name} at ${width}×${height}`).toEqual([]);
+}
+
 for (const size of sizes) {
 	test(`Bench, Floor, Jobs, a job card and Vehicles fit ${size.width}×${size.height}`, async ({
 		page
@@ -51,20 +58,17 @@ for (const size of sizes) {
 		] as const) {
 			await page.goto(path);
 			await expect(page.locator('main h1').first()).toBeVisible();
-			await shoot(page, name);
-			expect(await layoutProblems(page), `${name} at ${size.width}×${size.height}`).toEqual([]);
+			await fits(page, name);
 		}
 
 		// a vehicle's history, opened from the list as the service writer would
 		await page.goto('/vehicles');
 		await expect(page.getByTestId('vehicle-row').first()).toBeVisible();
-		await shoot(page, 'vehicles');
-		expect(await layoutProblems(page), `vehicles at ${size.width}×${size.height}`).toEqual([]);
+		await fits(page, 'vehicles');
 		await page.getByTestId('vehicle-row').first().getByRole('link').first().click();
 		await expect(page).toHaveURL(/\/vehicles\/[0-9a-f-]{36}/);
 		await expect(page.locator('main h1').first()).toBeVisible();
-		await shoot(page, 'vehicle');
-		expect(await layoutProblems(page), `vehicle at ${size.width}×${size.height}`).toEqual([]);
+		await fits(page, 'vehicle');
 	});
 }
 
@@ -75,14 +79,12 @@ for (const size of sizes) {
 		test.setTimeout(180_000);
 		await page.setViewportSize(size);
 		await signIn(page, demo.owner);
-
 		// job 1001 of the demo shop is paid: its log rows lose the photo button, which once let
 		// the author line run under the spec line on a phone
 		await page.goto('/bench?job=1001');
 		await expect(page.getByTestId('bench-closed')).toBeVisible();
 		expect(await page.getByTestId('log-entry').count()).toBeGreaterThan(0);
-		await shoot(page, 'bench-closed');
-		expect(await layoutProblems(page), `closed bench at ${size.width}×${size.height}`).toEqual([]);
+		await fits(page, 'bench-closed');
 
 		// a procedure's step list with one step's form open, and the form that adds a step
 		await page.goto('/procedures');
@@ -90,8 +92,7 @@ for (const size of sizes) {
 		await expect(page.getByRole('heading', { name: 'Steps' })).toBeVisible();
 		await page.getByText('Edit step').first().click();
 		await expect(page.locator('form[action="?/step"]').first()).toBeVisible();
-		await shoot(page, 'procedure');
-		expect(await layoutProblems(page), `procedure at ${size.width}×${size.height}`).toEqual([]);
+		await fits(page, 'procedure');
 
 		for (const [path, name] of [
 			['/floor/drift', 'drift'],
@@ -99,8 +100,7 @@ for (const size of sizes) {
 		] as const) {
 			await page.goto(path);
 			await expect(page.locator('main h1').first()).toBeVisible();
-			await shoot(page, name);
-			expect(await layoutProblems(page), `${name} at ${size.width}×${size.height}`).toEqual([]);
+			await fits(page, name);
 		}
 	});
 }
