@@ -4,7 +4,7 @@ import { unitFromWords } from '../units/index';
 import {
 	SPOKEN_UNITS,
 	buildGrammar,
-	gradePhrases,
+	gradeFamilies,
 	numberWords,
 	pronounce,
 	spokenWords,
@@ -154,51 +154,61 @@ describe('buildGrammar', () => {
 		];
 		const g = buildGrammar({ steps: withFluid }, () => 'AH');
 		expect(g.jsgf).toContain(
-			'<fluidname> (<number> [<fluidunit> [<grade>]] | <donetail> | <parttail>)'
+			'<valuename> (<number> [<valueunit> | <fillunit> [<grade>]] | <donetail> | <parttail>)'
 		);
-		expect(g.jsgf).toContain('<fluidname> = (engine oil fill) | oil | (front brake fluid);');
-		// the torque step keeps its own units only, the fills theirs
+		// the fills' units carry the grade, the torque step's do not
 		expect(g.jsgf).toMatch(/^<valueunit> = \(newton metres\)[^;]*;$/m);
 		expect(g.jsgf).not.toMatch(/^<valueunit> = [^;]*litres/m);
-		expect(g.jsgf).toMatch(/^<fluidunit> = [^;]*litres[^;]*millilitres/m);
-		expect(g.jsgf).toMatch(/^<gradepart> = .*\(ten w forty\).*\(api s l\).*\(jaso m a two\)/m);
-		expect(g.jsgf).toContain('(dot five point one)');
+		expect(g.jsgf).toMatch(/^<fillunit> = [^;]*litres[^;]*millilitres/m);
+		// each family once, in the order a spec is written, or a brake fluid class
+		expect(g.jsgf).toContain('<grade> = <sae> [<api>] [<jaso>] | <api> [<jaso>] | <jaso> | <dot>;');
+		expect(g.jsgf).toMatch(/^<sae> = .*\(ten w forty\).*\(twenty w fifty\)/m);
+		expect(g.jsgf).toMatch(/^<api> = .*\(api s l\)/m);
+		expect(g.jsgf).toMatch(/^<jaso> = .*\(jaso m a two\)/m);
+		expect(g.jsgf).toMatch(/^<dot> = .*\(dot five point one\)/m);
 		// no grade words in a job without a fluid spec
 		expect(buildGrammar({ steps }, () => 'AH').jsgf).not.toContain('<grade>');
 	});
 	it('says each grade so the phrase engine reads it back (SAE J300, API 1509, JASO T 903, FMVSS 116)', () => {
-		for (const [label, spec, unit, said] of [
-			['Engine oil fill', 'SAE 10W-40, API SL or higher, JASO MA2', 'L', 'one point one litres'],
-			['Front brake fluid', 'DOT 4', 'mL', 'one hundred millilitres']
-		]) {
-			const fill = [{ id: 'fill', label, unit, fluid: spec }];
-			const phrases = gradePhrases([spec]);
-			expect(phrases.length, spec).toBeGreaterThan(3);
-			// one, two and three parts after the unit
-			const calls = phrases.flatMap((g) => [
-				`${label} ${said} ${g}`,
-				// an oil's grade has up to three parts (viscosity, API, JASO); a brake fluid's one
-				...(unit === 'L' ? phrases.slice(0, 8).map((h) => `${label} ${said} ${g} ${h}`) : [])
-			]);
-			for (const call of calls) {
-				const r = parsePhrase(call, { steps: fill });
-				expect(r.stepId, call).toBe('fill');
-				expect(r.quantity?.value, call).toBe(unit === 'L' ? 1.1 : 100);
-				expect(r.fluid, call).not.toBeNull();
-				expect(r.fluidVerdict, call).not.toBe('not_stated');
-				expect(r.problems.join(' '), call).not.toMatch(/not a (grade|class) .*known|unknown/i);
-			}
+		const oilSpec = 'SAE 10W-40, API SL or higher, JASO MA2';
+		const f = gradeFamilies([oilSpec, 'DOT 4']);
+		// the spec's own grade and the common ones; every family the specs name
+		expect(f.sae).toContain('ten w forty');
+		expect(f.sae).toContain('twenty w fifty');
+		for (const fam of [f.api, f.jaso, f.dot]) expect(fam.length).toBeGreaterThan(3);
+		const read = (label: string, unit: string, fluid: string, said: string) =>
+			parsePhrase(`${label} ${said}`, { steps: [{ id: 'fill', label, unit, fluid }] });
+		// every order the grammar allows: SAE, API, JASO in turn, one to three of them
+		const oilCalls = [
+			...f.sae.flatMap((sae) => [sae, `${sae} ${f.api[3]}`, `${sae} ${f.api[5]} ${f.jaso[2]}`]),
+			...f.api.flatMap((api) => [api, `${api} ${f.jaso[1]}`]),
+			...f.jaso
+		];
+		for (const grade of oilCalls) {
+			const r = read('Engine oil fill', 'L', oilSpec, `one point one litres ${grade}`);
+			expect(r.stepId, grade).toBe('fill');
+			expect(r.quantity, grade).toEqual({ value: 1.1, unit: 'L' });
+			expect(r.fluid, grade).not.toBeNull();
+			expect(r.fluidVerdict, grade).not.toBe('not_stated');
+		}
+		for (const grade of f.dot) {
+			const r = read('Front brake fluid', 'mL', 'DOT 4', `one hundred millilitres ${grade}`);
+			expect(r.quantity, grade).toEqual({ value: 100, unit: 'mL' });
+			expect(r.fluid, grade).toMatch(/^DOT /);
 		}
 		// worked cases: 10W-40 is a J300 grade the spec lists and JASO T 903's MA2 meets MA2;
 		// MB never meets MA (common practice: the wet clutch slips)
-		const oil = [{ id: 'oil', label: 'Engine oil fill', unit: 'L', fluid: 'SAE 10W-40, JASO MA2' }];
-		const r = parsePhrase('engine oil fill one point one litres ten w forty jaso m a two', {
-			steps: oil
-		});
+		const r = read(
+			'Engine oil fill',
+			'L',
+			oilSpec,
+			'one point one litres ten w forty jaso m a two'
+		);
 		expect(r.fluid).toBe('SAE 10W-40 · JASO MA2');
 		expect(r.fluidVerdict).toBe('meets');
-		const mb = parsePhrase('engine oil fill one point one litres jaso m b', { steps: oil });
-		expect(mb.fluidVerdict).toBe('fails');
+		expect(
+			read('Engine oil fill', 'L', oilSpec, 'one point one litres jaso m b').fluidVerdict
+		).toBe('fails');
 	});
 	it('has an out-of-grammar path of single phones beside the calls, unless told not to', () => {
 		const g = buildGrammar({ steps }, lookup);
