@@ -2,7 +2,7 @@ import { and, eq } from 'drizzle-orm';
 import { answerStatus } from './http';
 import { describe, expect, it } from 'vitest';
 import { client, db } from './db';
-import { makeShop } from './db/fixtures';
+import { entryOf, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import { sendToFinalInspection } from './bench/hand-over';
 import type { Actor } from './bench/job';
@@ -30,11 +30,6 @@ async function addUser(f: Fixture, role: Actor['role'], name: string) {
 		})
 		.returning();
 	return u;
-}
-
-function entryOf(r: AppendResult) {
-	if (!('entry' in r)) throw new Error(`expected an entry, got ${JSON.stringify(r)}`);
-	return r.entry;
 }
 
 const post = (text: string, extra: Record<string, unknown> = {}) => ({

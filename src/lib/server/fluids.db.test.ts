@@ -1,10 +1,10 @@
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
-import { makeShop } from './db/fixtures';
+import { entryOf, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import { listSteps } from './bench/steps';
-import { appendEntry, type AppendResult } from './log/append';
+import { appendEntry } from './log/append';
 import { listOutOfSpec } from './floor/queue';
 import { workReport } from './work-report';
 
@@ -30,11 +30,6 @@ async function oilJob(name: string) {
 	const post = (text: string) =>
 		appendEntry(tech, f.job.id, { id: crypto.randomUUID(), text, source: 'typed' });
 	return { ...f, oil: oil!, post };
-}
-
-function entryOf(r: AppendResult) {
-	if (!('entry' in r)) throw new Error(`expected an entry, got ${JSON.stringify(r)}`);
-	return r.entry;
 }
 
 describe('fluid grades at the append', () => {

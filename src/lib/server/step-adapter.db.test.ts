@@ -4,19 +4,15 @@ import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { intakeSchema } from '$lib/schemas/job';
 import { db } from './db';
-import { addTorqueTool, makeShop } from './db/fixtures';
+import { addTorqueTool, entryOf, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import type { Actor } from './bench/job';
-import { appendEntry, type AppendResult } from './log/append';
+import { appendEntry } from './log/append';
 import { createJobCard } from './job-cards';
 import { exportProcedures, getProcedure, importProcedures, saveStep } from './procedures';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;
 const tech = (f: Fixture): Actor => ({ id: f.tech.id, shopId: f.shop.id, role: 'technician' });
-const entryOf = (r: AppendResult) => {
-	if (!('entry' in r)) throw new Error(`no entry: ${JSON.stringify(r)}`);
-	return r.entry;
-};
 const post = (text: string, torqueToolId?: string) => ({
 	id: crypto.randomUUID(),
 	text,

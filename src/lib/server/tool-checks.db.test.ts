@@ -1,19 +1,15 @@
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
-import { addTorqueTool, makeShop } from './db/fixtures';
+import { addTorqueTool, entryOf, makeShop } from './db/fixtures';
 import * as s from './db/schema';
 import type { Actor } from './bench/job';
 import { listTools } from './bench/tools';
-import { appendEntry, type AppendResult } from './log/append';
+import { appendEntry } from './log/append';
 import { lastChecks, recordCheck, toolWithChecks } from './tool-checks';
 
 type Fixture = Awaited<ReturnType<typeof makeShop>>;
 const tech = (f: Fixture): Actor => ({ id: f.tech.id, shopId: f.shop.id, role: 'technician' });
-const entryOf = (r: AppendResult) => {
-	if (!('entry' in r)) throw new Error(`no entry: ${JSON.stringify(r)}`);
-	return r.entry;
-};
 const post = (text: string, torqueToolId: string) => ({
 	id: crypto.randomUUID(),
 	text,

@@ -2,6 +2,7 @@
 // each other or on the demo data. Only *.db.test.ts files import this.
 import { db } from './index';
 import * as s from './schema';
+import type { AppendResult } from '../log/append';
 
 /**
  * A shop with an owner, a technician, a customer, a vehicle and one job in work with one step.
@@ -136,4 +137,10 @@ export async function addTorqueTool(
 		})
 		.returning();
 	return tool;
+}
+
+/** The entry an append stored, or the test fails with what it answered instead. */
+export function entryOf(r: AppendResult) {
+	if (!('entry' in r)) throw new Error(`expected an entry, got ${JSON.stringify(r)}`);
+	return r.entry;
 }
