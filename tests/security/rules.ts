@@ -100,8 +100,8 @@ export const rules: Record<string, Rule> = {
 	// ——— form actions ———
 	'POST /(auth)/sign-in?/default': r(400, 400, 400, 400, 400, 400),
 	'POST /sign-out?/default': r(303, 303, 303, 303, 303, 303, { endsSession: true }),
-	'POST /(app)/jobs/new?/default': r(S, 400, 400, 403, 403, 400, {
-		// Intake with the other shop's motorcycle: refused as "not in this shop".
+	'POST /(app)/jobs/new?/default': r(S, 400, 400, 403, 403, 404, {
+		// Intake with the other shop's motorcycle: not in this shop, 404 as any other shop's id.
 		foreignBody: (t) => ({
 			form: { pick: `v:${t.vehicleId}`, concern: 'Security check', odometer: '100' }
 		})
