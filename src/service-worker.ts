@@ -54,9 +54,11 @@ sw.addEventListener('activate', (event) => {
 	);
 });
 
-// the Bench (and the e2e test) can ask which build is in charge
+// the e2e test asks which build is in charge; a page that finds this build waiting tells it to
+// take over (see hooks.client.ts)
 sw.addEventListener('message', (event) => {
 	if (event.data === 'version') event.source?.postMessage({ version });
+	else if (event.data === 'take-over') event.waitUntil(sw.skipWaiting());
 });
 
 /** Fetches, and keeps a good answer (not a redirect to sign-in, not an error) under `keys`. */
