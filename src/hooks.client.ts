@@ -5,12 +5,22 @@
 // server on the same laptop) reports false while the server answers.
 //
 // A worker that asked to take over during its install can still be left waiting: Chromium
-// hands over once the old worker is idle and may miss that moment while a page keeps it busy
-// (seen in tests/offline.spec.ts). So a page that sees a build waiting asks it again.
+// hands over once the old worker is idle, and a request that reaches the old worker at that
+// moment restarts it and parks the new one (seen in tests/offline.spec.ts). So while a build
+// waits, the page asks it again every few seconds; a message to the waiting worker is no work
+// for the old one.
 import type { ClientInit } from '@sveltejs/kit';
 
-function takeOver(worker: ServiceWorker | null) {
-	if (worker?.state === 'installed') worker.postMessage('take-over');
+const NUDGE_MS = 3_000;
+const NUDGES = 100;
+
+function nudge(r: ServiceWorkerRegistration) {
+	let left = NUDGES;
+	const timer = setInterval(() => {
+		if (!r.waiting || --left < 0) clearInterval(timer);
+		else r.waiting.postMessage('take-over');
+	}, NUDGE_MS);
+	r.waiting?.postMessage('take-over');
 }
 
 export const init: ClientInit = () => {
@@ -21,11 +31,12 @@ export const init: ClientInit = () => {
 			if (!r) return;
 			r.addEventListener('updatefound', () => {
 				const next = r.installing;
-				next?.addEventListener('statechange', () => takeOver(next));
+				next?.addEventListener('statechange', () => {
+					if (next.state === 'installed') nudge(r);
+				});
 			});
-			takeOver(r.waiting);
+			if (r.waiting) nudge(r);
 			await r.update();
-			takeOver(r.waiting);
 		})
 		.catch(() => {});
 };
