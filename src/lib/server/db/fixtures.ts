@@ -1,5 +1,6 @@
 // Test fixtures for DB integration tests: a fresh shop each call, so tests never depend on
 // each other or on the demo data. Only *.db.test.ts files import this.
+import postgres, { type Sql } from 'postgres';
 import { db } from './index';
 import * as s from './schema';
 import type { AppendResult } from '../log/append';
@@ -143,4 +144,22 @@ export async function addTorqueTool(
 export function entryOf(r: AppendResult) {
 	if (!('entry' in r)) throw new Error(`expected an entry, got ${JSON.stringify(r)}`);
 	return r.entry;
+}
+
+/** Runs `work` on a database of its own, created empty and dropped afterwards (for migrations). */
+export async function withScratchDatabase<T>(work: (sql: Sql) => Promise<T>): Promise<T> {
+	const url = process.env.DATABASE_URL!;
+	const admin = postgres(url, { max: 1, onnotice: () => {} });
+	const name = `benchcall_scratch_${process.pid}_${Date.now()}_${crypto.randomUUID().slice(0, 8)}`;
+	await admin.unsafe(`create database ${name}`);
+	const u = new URL(url);
+	u.pathname = `/${name}`;
+	const sql = postgres(u.toString(), { max: 1, onnotice: () => {} });
+	try {
+		return await work(sql);
+	} finally {
+		await sql.end();
+		await admin.unsafe(`drop database if exists ${name} with (force)`);
+		await admin.end();
+	}
 }

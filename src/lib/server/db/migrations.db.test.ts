@@ -1,11 +1,9 @@
 import { getTableConfig, PgTable } from 'drizzle-orm/pg-core';
 import { drizzle } from 'drizzle-orm/postgres-js';
 import { migrate } from 'drizzle-orm/postgres-js/migrator';
-import postgres from 'postgres';
 import { describe, expect, it } from 'vitest';
+import { withScratchDatabase } from './fixtures';
 import * as schema from './schema';
-
-const url = process.env.DATABASE_URL!;
 
 /** Every table the model declares, with its columns: read from schema.ts, not listed here. */
 const model = Object.values(schema)
@@ -19,13 +17,7 @@ const model = Object.values(schema)
 describe('migrations', () => {
 	it('apply to an empty database and create every table and column of the model', async () => {
 		expect(model.length).toBeGreaterThan(20);
-		const admin = postgres(url, { max: 1, onnotice: () => {} });
-		const name = `benchcall_scratch_${process.pid}_${Date.now()}`;
-		await admin.unsafe(`create database ${name}`);
-		const scratchUrl = new URL(url);
-		scratchUrl.pathname = `/${name}`;
-		const scratch = postgres(scratchUrl.toString(), { max: 1, onnotice: () => {} });
-		try {
+		await withScratchDatabase(async (scratch) => {
 			await migrate(drizzle(scratch), { migrationsFolder: 'drizzle' });
 			const rows = await scratch<{ table_name: string; column_name: string }[]>`
 				select table_name, column_name from information_schema.columns
@@ -43,10 +35,6 @@ describe('migrations', () => {
 			expect(triggers.map((t) => t.trigger_name)).toContain('log_entry_no_update_delete');
 			// Applying again is a no-op, as a second `npm start` needs.
 			await migrate(drizzle(scratch), { migrationsFolder: 'drizzle' });
-		} finally {
-			await scratch.end();
-			await admin.unsafe(`drop database if exists ${name} with (force)`);
-			await admin.end();
-		}
+		});
 	});
 });

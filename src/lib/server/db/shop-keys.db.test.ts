@@ -5,15 +5,13 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { drizzle } from 'drizzle-orm/postgres-js';
 import { migrate } from 'drizzle-orm/postgres-js/migrator';
-import postgres, { type Sql } from 'postgres';
+import type { Sql } from 'postgres';
 import { afterAll, describe, expect, it } from 'vitest';
 import { verifyChains } from '../chain-verify';
+import { withScratchDatabase } from './fixtures';
 
-const url = process.env.DATABASE_URL!;
-const admin = postgres(url, { max: 1, onnotice: () => {} });
 const folders: string[] = [];
 afterAll(async () => {
-	await admin.end();
 	for (const f of folders) rmSync(f, { recursive: true, force: true });
 });
 
@@ -27,20 +25,6 @@ function before0015(): string {
 	journal.entries = journal.entries.filter((e: { idx: number }) => e.idx < 15);
 	writeFileSync(file, JSON.stringify(journal));
 	return dir;
-}
-
-async function scratch<T>(work: (sql: Sql) => Promise<T>): Promise<T> {
-	const name = `benchcall_keys_${process.pid}_${Date.now()}`;
-	await admin.unsafe(`create database ${name}`);
-	const u = new URL(url);
-	u.pathname = `/${name}`;
-	const sql = postgres(u.toString(), { max: 1, onnotice: () => {} });
-	try {
-		return await work(sql);
-	} finally {
-		await sql.end();
-		await admin.unsafe(`drop database if exists ${name} with (force)`);
-	}
 }
 
 /** A shop with one job of one step, written with 0014's schema. */
@@ -71,7 +55,7 @@ async function logOne(sql: Sql, s: Awaited<ReturnType<typeof oldShop>>, value: n
 
 describe('migration 0015 (shop keys)', () => {
 	it('keeps the chains whole and continues each shop’s seq from its highest', async () => {
-		await scratch(async (sql) => {
+		await withScratchDatabase(async (sql) => {
 			await migrate(drizzle(sql), { migrationsFolder: before0015() });
 			const a = await oldShop(sql, 'Shop A');
 			const b = await oldShop(sql, 'Shop B');
@@ -108,7 +92,7 @@ describe('migration 0015 (shop keys)', () => {
 	});
 
 	it('refuses, naming the rows, when a child row points at another shop’s parent', async () => {
-		await scratch(async (sql) => {
+		await withScratchDatabase(async (sql) => {
 			await migrate(drizzle(sql), { migrationsFolder: before0015() });
 			const a = await oldShop(sql, 'Shop A');
 			const b = await oldShop(sql, 'Shop B');
