@@ -5,11 +5,17 @@
  * same SQL the app runs (src/lib/server/*-sql.ts). It prints p50 and p95 per query and the goal;
  * nothing here is asserted.
  *
- *   npm run bench:floor -- --entries 1000000 [--runs 40] [--keep]
+ *   npm run bench:floor -- --entries 1000000 [--runs 40] [--keep] [--unchained]
  *
  * The log is seeded with the state-keeping trigger off, then the state is rebuilt from the log
  * by rebuild_log_state() (the same function `npm run db:rebuild-state` runs); its time is
  * printed too. --keep leaves the scratch database for a look afterwards.
+ *
+ * The hash chain's trigger (drizzle/0010) is the seed's main cost: about 7,000 entries a second
+ * here, so 2 × 10M entries would take 48 minutes. --unchained seeds with it off: each entry gets
+ * its seq from the shop's sequence, its position in the job, and two 64-character hex strings
+ * where the chain's hashes go, so rows are as wide as chained ones, but they chain nothing. No
+ * query measured here reads the chain; `npm run db:verify` on such a scratch log would fail.
  */
 import { drizzle } from 'drizzle-orm/postgres-js';
 import { sql, type SQL } from 'drizzle-orm';
@@ -36,7 +42,8 @@ const { values: args } = parseArgs({
 	options: {
 		entries: { type: 'string', default: '100000' },
 		runs: { type: 'string', default: '40' },
-		keep: { type: 'boolean', default: false }
+		keep: { type: 'boolean', default: false },
+		unchained: { type: 'boolean', default: false }
 	}
 });
 const ENTRIES = Number(args.entries);
@@ -59,6 +66,14 @@ const url = databaseUrl(dbName);
 await applyMigrations(url);
 const client = postgres(url, { max: 2, onnotice: () => {} });
 const db = drizzle(client);
+/**
+ * --unchained: what the chain's trigger would set, for rows of alias `m` read in their order
+ * (the shop's next seq each, so seq follows the time order as it does in the chained seed).
+ */
+const unchained = (m: string) => client`
+	, ${client(m)}.chain_pos, nextval(log_seq_name(${client(m)}.shop_id)::regclass),
+	md5(${client(m)}.id::text || 'p') || md5(${client(m)}.job_id::text),
+	md5(${client(m)}.id::text) || md5(${client(m)}.job_id::text || 'e')`;
 const secs = (t: number) => ((performance.now() - t) / 1000).toFixed(1);
 
 try {
@@ -70,6 +85,7 @@ try {
 	);
 	const t0 = performance.now();
 	await client`alter table log_entry disable trigger log_entry_keep_state`;
+	if (args.unchained) await client`alter table log_entry disable trigger log_entry_zz_chain`;
 	// The scratch history is written as it stood before its paid jobs closed (drizzle/0013).
 	await client`alter table log_entry disable trigger log_entry_job_open`;
 	const shops: { id: string; procId: string; tech: string; tools: string[] }[] = [];
@@ -138,20 +154,32 @@ try {
 		const hi = Math.min((starts[k + 1] ?? JOBS + 1) - 1, JOBS);
 		if (k === 1) await client`analyze log_entry`;
 		for (const shop of shops) {
-			await client`
-				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
-					value, unit, spec_value, spec_unit, verdict, torque_tool_id, occurred_at)
-				select gen_random_uuid(), st.shop_id, st.job_id, st.id, ${shop.tech}, 'measure',
-					'bench step ' || st.position || ' ' || v.x || ' nm', 'typed', v.x, 'N.m', v.x, 'N.m',
-					(case when v.x < st.min then 'low' when v.x > st.max then 'high' else 'in' end)::verdict,
-					case when st.position <= 10 then (${shop.tools}::uuid[])[(st.position + r) % ${TOOLS} + 1] end,
-					j.created_at + make_interval(mins => r * 5 + st.position / 4)
+			const measures = client`
+				select gen_random_uuid() as id, st.shop_id, st.job_id, st.id as job_step_id,
+					${shop.tech}::uuid as author_id, 'measure'::entry_kind as kind,
+					'bench step ' || st.position || ' ' || v.x || ' nm' as raw_text,
+					'typed'::entry_source as source, v.x as value, 'N.m' as unit, v.x as spec_value,
+					'N.m' as spec_unit,
+					(case when v.x < st.min then 'low' when v.x > st.max then 'high' else 'in' end)::verdict
+						as verdict,
+					case when st.position <= 10 then (${shop.tools}::uuid[])[(st.position + r) % ${TOOLS} + 1] end
+						as torque_tool_id,
+					j.created_at + make_interval(mins => r * 5 + st.position / 4) as occurred_at,
+					((r - 1) * ${STEPS} + st.position)::int as chain_pos
 				from job j
 				join job_step st on st.job_id = j.id
 				cross join generate_series(1, ${PER_JOB / STEPS}) r
 				cross join lateral (select round((st.nominal + (random() - 0.45) * 5 + 0 * r)::numeric, 1)::float8 as x) v
 				where j.shop_id = ${shop.id} and j.number between ${lo} and ${hi}
-				order by j.created_at + make_interval(mins => r * 5 + st.position / 4)`;
+				order by occurred_at`;
+			await client`
+				insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
+					value, unit, spec_value, spec_unit, verdict, torque_tool_id, occurred_at
+					${args.unchained ? client`, chain_pos, seq, prev_hash, entry_hash` : client``})
+				select m.id, m.shop_id, m.job_id, m.job_step_id, m.author_id, m.kind, m.raw_text, m.source,
+					m.value, m.unit, m.spec_value, m.spec_unit, m.verdict, m.torque_tool_id, m.occurred_at
+					${args.unchained ? unchained('m') : client``}
+				from (${measures}) m`;
 		}
 		process.stdout.write(`\r  log entries: ${hi * PER_JOB * 2} in ${secs(t1)} s`);
 	}
@@ -159,13 +187,21 @@ try {
 	for (const shop of shops) {
 		await client`
 			insert into log_entry (id, shop_id, job_id, job_step_id, author_id, kind, raw_text, source,
-				retracts, occurred_at)
-			select gen_random_uuid(), e.shop_id, e.job_id, e.job_step_id, e.author_id, 'retraction',
-				'undo', 'typed', e.id, e.occurred_at + interval '1 minute'
-			from log_entry e where e.shop_id = ${shop.id} and e.seq % 200 = 7`;
+				retracts, occurred_at
+				${args.unchained ? client`, chain_pos, seq, prev_hash, entry_hash` : client``})
+			select m.id, m.shop_id, m.job_id, m.job_step_id, m.author_id, m.kind, m.raw_text, m.source,
+				m.retracts, m.occurred_at ${args.unchained ? unchained('m') : client``}
+			from (
+				select gen_random_uuid() as id, e.shop_id, e.job_id, e.job_step_id, e.author_id,
+					'retraction'::entry_kind as kind, 'undo' as raw_text, 'typed'::entry_source as source,
+					e.id as retracts, e.occurred_at + interval '1 minute' as occurred_at,
+					(${PER_JOB} + row_number() over (partition by e.job_id order by e.seq))::int as chain_pos
+				from log_entry e where e.shop_id = ${shop.id} and e.seq % 200 = 7
+				order by e.seq) m`;
 	}
 	console.log(`\n  log seeded in ${secs(t1)} s`);
 	await client`alter table log_entry enable trigger log_entry_keep_state`;
+	await client`alter table log_entry enable trigger log_entry_zz_chain`;
 	await client`alter table log_entry enable trigger log_entry_job_open`;
 	const t2 = performance.now();
 	await client`analyze`; // the rebuild's plans need the new rows' statistics

@@ -1,55 +1,44 @@
 // SQL of spec drift (one library step across jobs, one torque tool), kept free of SvelteKit
 // imports so that scripts/bench-floor.ts measures exactly what the app runs. Every query reads
-// one time window; statistics are computed here, in the database, and the chart gets at most
-// about MAX_POINTS points (see driftPointsSql).
+// one time window of drift_reading (drizzle/0017: live measurements, kept at append);
+// statistics are computed here, in the database, and the chart gets at most about MAX_POINTS
+// points (see driftPointsSql).
 import { sql, type SQL } from 'drizzle-orm';
-import { isLive } from './log/live';
 
 export interface Window {
 	from: Date;
 	to: Date;
 }
 
-/** Readings of one library step (matched through job_step.procedure_step_id) in a window. */
+/**
+ * Readings of one library step (matched through its job steps' procedure_step_id) in a window,
+ * from drift_reading (drizzle/0017): live measurements only, one index range.
+ */
 export function stepReadingsSql(shopId: string, procedureStepId: string, unit: string, w: Window) {
-	// Only jobs with a live entry since the window opened can hold a reading in it
-	// (job_log_state.last_entry_at), so old jobs cost nothing.
 	return sql`
-		select e.id, e.occurred_at, e.spec_value as value, e.verdict, j.number as job_number,
-			st.label, t.identifier as tool, coalesce(st.nominal, (st.min + st.max) / 2) as nominal
-		from job_log_state jl
-		join job_step st on st.job_id = jl.job_id and st.shop_id = jl.shop_id
-			and st.procedure_step_id = ${procedureStepId}
-		join log_entry e on e.job_step_id = st.id and e.kind = 'measure' and e.spec_value is not null
-			and e.spec_unit = ${unit}
-			and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
-		join job j on j.id = st.job_id and j.shop_id = st.shop_id
-		left join torque_tool t on t.id = e.torque_tool_id and t.shop_id = e.shop_id
-		where jl.shop_id = ${shopId} and jl.last_entry_at >= ${w.from.toISOString()}
-		  and ${isLive('e')}`;
+		select r.entry_id as id, r.occurred_at, r.value, r.verdict, r.job_number, r.label,
+			r.torque_tool_id, r.shop_id, r.nominal
+		from drift_reading r
+		where r.shop_id = ${shopId} and r.procedure_step_id = ${procedureStepId} and r.unit = ${unit}
+		  and r.occurred_at >= ${w.from.toISOString()} and r.occurred_at < ${w.to.toISOString()}`;
 }
 
 /** Readings made with one torque tool in a window, each with its step's nominal. */
 export function toolReadingsSql(shopId: string, toolId: string, w: Window) {
 	return sql`
-		select e.id, e.occurred_at, e.spec_value as value, e.verdict, j.number as job_number,
-			st.label, null::text as tool, coalesce(st.nominal, (st.min + st.max) / 2) as nominal
-		from log_entry e
-		join job j on j.id = e.job_id and j.shop_id = e.shop_id
-		join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
-		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId}
-		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = st.unit
-		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
-		  and ${isLive('e')}`;
+		select r.entry_id as id, r.occurred_at, r.value, r.verdict, r.job_number, r.label,
+			null::uuid as torque_tool_id, r.shop_id, r.nominal
+		from drift_reading r
+		where r.shop_id = ${shopId} and r.torque_tool_id = ${toolId} and r.unit = r.step_unit
+		  and r.occurred_at >= ${w.from.toISOString()} and r.occurred_at < ${w.to.toISOString()}`;
 }
 
 /** Where the newest `n` readings of a tool begin (null when it has fewer). */
 export function toolNthNewestSql(shopId: string, toolId: string, n: number) {
 	return sql`
-		select e.occurred_at from log_entry e
-		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId} and e.kind = 'measure'
-		  and e.torque_tool_id is not null
-		order by e.occurred_at desc offset ${n - 1} limit 1`;
+		select r.occurred_at from drift_reading r
+		where r.shop_id = ${shopId} and r.torque_tool_id = ${toolId} and r.unit = r.step_unit
+		order by r.occurred_at desc offset ${n - 1} limit 1`;
 }
 
 /**
@@ -79,10 +68,15 @@ export function driftPointsSql(
 	readings: SQL,
 	opts: { downsample: boolean; buckets: number; keepOut: boolean }
 ) {
-	if (!opts.downsample) {
-		return sql`with r as (${readings}) select * from r order by occurred_at, id`;
-	}
-	return sql`
+	// The tool's name is looked up for the drawn points only.
+	const named = (points: SQL) => sql`
+		select p.id, p.occurred_at, p.value, p.verdict, p.job_number, p.label, t.identifier as tool,
+			p.nominal
+		from (${points}) p
+		left join torque_tool t on t.id = p.torque_tool_id and t.shop_id = p.shop_id
+		order by p.occurred_at, p.id`;
+	if (!opts.downsample) return named(sql`with r as (${readings}) select * from r`);
+	return named(sql`
 		with r as (${readings}),
 		b as (select r.*, ntile(${opts.buckets}) over (order by occurred_at, id) as bucket from r),
 		p as (
@@ -91,25 +85,24 @@ export function driftPointsSql(
 				row_number() over (partition by bucket order by value desc, occurred_at, id) as hi
 			from b
 		)
-		select id, occurred_at, value, verdict, job_number, label, tool, nominal from p
+		select * from p
 		where lo = 1 or hi = 1
-			${opts.keepOut ? sql`or verdict in ('low', 'high')` : sql``}
-		order by occurred_at, id`;
+			${opts.keepOut ? sql`or verdict in ('low', 'high')` : sql``}`);
 }
 
 /**
  * How many readings each library step of the shop has in a window (the step picker), from the
- * jobs active in it.
+ * jobs active in it (job_log_state.last_entry_at), step by step.
  */
 export function stepCountsSql(shopId: string, w: Window) {
 	return sql`
-		select st.procedure_step_id as id, count(*)::int as n
+		select r.procedure_step_id as id, count(*)::int as n
 		from job_log_state jl
 		join job_step st on st.job_id = jl.job_id and st.shop_id = jl.shop_id
-		join log_entry e on e.job_step_id = st.id and e.kind = 'measure' and e.spec_value is not null
-			and e.spec_unit = st.unit
-			and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
+		join drift_reading r on r.shop_id = st.shop_id and r.job_step_id = st.id
+			and r.unit = r.step_unit
+			and r.occurred_at >= ${w.from.toISOString()} and r.occurred_at < ${w.to.toISOString()}
 		where jl.shop_id = ${shopId} and jl.last_entry_at >= ${w.from.toISOString()}
-		  and st.procedure_step_id is not null
-		group by st.procedure_step_id`;
+		  and r.procedure_step_id is not null
+		group by r.procedure_step_id`;
 }

@@ -1,13 +1,15 @@
-// The state kept at each append (drizzle/0011: job_step_state, job_log_state) against the log it
-// is derived from: after a random history of appends, single and batched, with retractions,
-// accepts and redos, the live state equals a rebuild from the log, and the queue and job
-// progress read from it equal what the full-scan queries read from the log itself (the SQL the
-// Floor and the Jobs list ran before the state existed, kept here as the reference).
+// The state kept at each append (drizzle/0011: job_step_state, job_log_state; drizzle/0017:
+// drift_reading) against the log it is derived from: after a random history of appends, single
+// and batched, with retractions, accepts, redos and job steps edited on the way, the live state
+// equals a rebuild from the log, and the queue, job progress and drift readings read from it
+// equal what the full-scan queries read from the log itself (the SQL the Floor, the Jobs list
+// and drift ran before the state existed, kept here as the reference).
 import { sql } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
-import { logMeasurement, makeShop } from './db/fixtures';
+import { addTorqueTool, logMeasurement, makeShop } from './db/fixtures';
 import * as s from './db/schema';
+import { stepReadingsSql, toolReadingsSql, type Window } from './drift-sql';
 import { listOutOfSpec } from './floor/queue';
 import { listJobs } from './jobs';
 
@@ -30,7 +32,54 @@ async function stateRows(shopId: string) {
 	const jobs = await db.execute(sql`
 		select job_id, last_entry_at from job_log_state where shop_id = ${shopId}
 		  and last_entry_at is not null order by job_id`);
-	return { steps: steps.map((r) => ({ ...r })), jobs: jobs.map((r) => ({ ...r })) };
+	const readings = await db.execute(sql`
+		select job_step_id, entry_id, job_id, procedure_step_id, torque_tool_id, occurred_at, value,
+			unit, step_unit, nominal, label, verdict, job_number
+		from drift_reading where shop_id = ${shopId} order by entry_id`);
+	return {
+		steps: steps.map((r) => ({ ...r })),
+		jobs: jobs.map((r) => ({ ...r })),
+		readings: readings.map((r) => ({ ...r }))
+	};
+}
+
+/** A torque tool's readings as read from the log (drift's query before drizzle/0017). */
+async function toolReadingsFromLog(shopId: string, toolId: string, w: Window) {
+	const rows = await db.execute(sql`
+		select e.id, e.spec_value as value, e.verdict, j.number as job_number, st.label,
+			coalesce(st.nominal, (st.min + st.max) / 2) as nominal
+		from log_entry e
+		join job j on j.id = e.job_id and j.shop_id = e.shop_id
+		join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
+		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId}
+		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = st.unit
+		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
+		  and not exists (select 1 from log_entry r where r.retracts = e.id)
+		order by e.id`);
+	return rows.map((r) => ({ ...r }));
+}
+
+/** A library step's readings as read from the log, through its job steps. */
+async function stepReadingsFromLog(shopId: string, procedureStepId: string, w: Window) {
+	const rows = await db.execute(sql`
+		select e.id, e.spec_value as value, e.verdict, j.number as job_number, st.label,
+			coalesce(st.nominal, (st.min + st.max) / 2) as nominal
+		from log_entry e
+		join job j on j.id = e.job_id and j.shop_id = e.shop_id
+		join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
+		where st.procedure_step_id = ${procedureStepId} and e.shop_id = ${shopId}
+		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = 'N.m'
+		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
+		  and not exists (select 1 from log_entry r where r.retracts = e.id)
+		order by e.id`);
+	return rows.map((r) => ({ ...r }));
+}
+
+/** The same columns of drift's own query, in the same order. */
+async function readingsOf(q: ReturnType<typeof toolReadingsSql>) {
+	const rows = await db.execute(sql`
+		with r as (${q}) select id, value, verdict, job_number, label, nominal from r order by id`);
+	return rows.map((r) => ({ ...r }));
 }
 
 /** The queue as read from the whole log (the Floor's query before drizzle/0011). */
@@ -142,6 +191,30 @@ describe('state kept at append', () => {
 			])
 			.returning();
 		const steps = [f.step, ...more];
+		const tools = [await addTorqueTool(f), await addTorqueTool(f, { identifier: 'TW-2 (demo)' })];
+		// Two job steps done from one library step, so drift for a step spans jobs.
+		const [proc] = await db
+			.insert(s.procedure)
+			.values({ shopId: f.shop.id, name: 'Library' })
+			.returning();
+		const [libStep] = await db
+			.insert(s.procedureStep)
+			.values({
+				shopId: f.shop.id,
+				procedureId: proc.id,
+				position: 1,
+				label: 'Axle',
+				unit: 'N.m',
+				min: 50,
+				max: 60
+			})
+			.returning();
+		for (const st of [more[0], more[3]]) {
+			await db
+				.update(s.jobStep)
+				.set({ procedureStepId: libStep.id })
+				.where(sql`${s.jobStep.id} = ${st.id}`);
+		}
 		const rnd = random(20261204);
 		const pick = <T>(xs: T[]) => xs[Math.floor(rnd() * xs.length)];
 		const written: { id: string; kind: Kind; stepId: string | null; jobId: string }[] = [];
@@ -177,7 +250,16 @@ describe('state kept at append', () => {
 			if (kind === 'measure') {
 				const v = 30 * rnd();
 				const verdict = pick(['in', 'low', 'high'] as const);
-				return { ...base, value: v, unit: 'N.m', specValue: v, specUnit: 'N.m', verdict };
+				const torqueToolId = rnd() < 0.7 ? pick(tools).id : null;
+				return {
+					...base,
+					value: v,
+					unit: 'N.m',
+					specValue: v,
+					specUnit: 'N.m',
+					verdict,
+					torqueToolId
+				};
 			}
 			if (kind === 'note') return { ...base, jobStepId: rnd() < 0.5 ? null : st.id };
 			if (kind === 'redo' || kind === 'accept') {
@@ -197,7 +279,25 @@ describe('state kept at append', () => {
 			return base;
 		}
 
+		let edited = false;
 		for (let i = 0; i < 240;) {
+			if (i >= 120 && !edited) {
+				// Half-way: a spec and a label corrected, a step's unit changed (its readings so
+				// far no longer count for its tool) and one step taken off the library step.
+				edited = true;
+				await db
+					.update(s.jobStep)
+					.set({ min: 52, max: 58, label: 'Front axle nut' })
+					.where(sql`${s.jobStep.id} = ${more[0].id}`);
+				await db
+					.update(s.jobStep)
+					.set({ unit: 'mm' })
+					.where(sql`${s.jobStep.id} = ${more[1].id}`);
+				await db
+					.update(s.jobStep)
+					.set({ procedureStepId: null, nominal: 12 })
+					.where(sql`${s.jobStep.id} = ${more[3].id}`);
+			}
 			// Mostly single appends; now and then a batch in one statement, as group commit writes.
 			const n = rnd() < 0.25 ? 2 + Math.floor(rnd() * 6) : 1;
 			const batch: (typeof s.logEntry.$inferInsert)[] = [];
@@ -236,6 +336,18 @@ describe('state kept at append', () => {
 				lastEntryAt: j.lastEntryAt ? j.lastEntryAt.toISOString() : null
 			}))
 		).toEqual(await progressFromLog(f.shop.id));
+
+		// drift, for each tool and the library step, read from drift_reading and from the log
+		const w = { from: new Date(t0 - 86_400_000), to: new Date(t0 + 86_400_000) };
+		expect(live.readings.length).toBeGreaterThan(50);
+		for (const tool of tools) {
+			const fromState = await readingsOf(toolReadingsSql(f.shop.id, tool.id, w));
+			expect(fromState.length).toBeGreaterThan(5);
+			expect(fromState).toEqual(await toolReadingsFromLog(f.shop.id, tool.id, w));
+		}
+		const fromState = await readingsOf(stepReadingsSql(f.shop.id, libStep.id, 'N.m', w));
+		expect(fromState.length).toBeGreaterThan(5);
+		expect(fromState).toEqual(await stepReadingsFromLog(f.shop.id, libStep.id, w));
 
 		await db.execute(sql`select rebuild_log_state(${f.shop.id})`);
 		expect(await stateRows(f.shop.id)).toEqual(live);

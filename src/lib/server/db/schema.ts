@@ -608,13 +608,8 @@ export const logEntry = pgTable(
 		index('log_entry_job_seq_idx').on(t.jobId, t.seq),
 		index('log_entry_step_seq_idx').on(t.jobStepId, t.seq),
 		index('log_entry_retracts_idx').on(t.retracts),
-		index('log_entry_responds_to_idx').on(t.respondsTo),
-		index('log_entry_step_measure_idx')
-			.on(t.jobStepId, t.occurredAt)
-			.where(sql`${t.kind} = 'measure' AND ${t.specValue} IS NOT NULL`),
-		index('log_entry_tool_idx')
-			.on(t.torqueToolId, t.occurredAt)
-			.where(sql`${t.kind} = 'measure' AND ${t.torqueToolId} IS NOT NULL`)
+		index('log_entry_responds_to_idx').on(t.respondsTo)
+		// drift reads drift_reading (drizzle/0017), not these two any more
 	]
 );
 export type LogEntry = typeof logEntry.$inferSelect;
@@ -692,6 +687,49 @@ export const jobLogState = pgTable(
 		}).onDelete('cascade'),
 		primaryKey({ columns: [t.shopId, t.jobId] }),
 		index('job_log_state_last_entry_idx').on(t.shopId, t.lastEntryAt)
+	]
+);
+
+/**
+ * Derived like job_step_state (drizzle/0017): each live measurement with a value in its spec's
+ * unit, with what drift draws (its step's nominal and label, its job's number), so drift for one
+ * step or one torque tool reads its window from one index, not ~15 pages a reading through the
+ * log, its job, its step and the retraction check. Kept by the append trigger and by a trigger on
+ * job_step (a spec, label or library link edited); rebuilt by rebuild_log_state(shop).
+ */
+export const driftReading = pgTable(
+	'drift_reading',
+	{
+		shopId: shopRef(),
+		jobStepId: uuid('job_step_id').notNull(),
+		entryId: uuid('entry_id').notNull(),
+		jobId: uuid('job_id').notNull(),
+		procedureStepId: uuid('procedure_step_id'),
+		torqueToolId: uuid('torque_tool_id'),
+		occurredAt: timestamp('occurred_at', { withTimezone: true }).notNull(),
+		/** log_entry.spec_value and spec_unit */
+		value: doublePrecision('value').notNull(),
+		unit: text('unit').notNull(),
+		/** The job step's unit, nominal (or middle of its band) and label as they stand now. */
+		stepUnit: text('step_unit'),
+		nominal: doublePrecision('nominal'),
+		label: text('label').notNull(),
+		verdict: verdictEnum('verdict'),
+		jobNumber: integer('job_number').notNull()
+	},
+	(t) => [
+		primaryKey({ columns: [t.shopId, t.jobStepId, t.entryId] }),
+		foreignKey({
+			name: 'drift_reading_job_step_id_fk',
+			columns: [t.shopId, t.jobStepId],
+			foreignColumns: [jobStep.shopId, jobStep.id]
+		}).onDelete('cascade'),
+		index('drift_reading_step_idx')
+			.on(t.shopId, t.procedureStepId, t.occurredAt)
+			.where(sql`${t.procedureStepId} is not null`),
+		index('drift_reading_tool_idx')
+			.on(t.shopId, t.torqueToolId, t.occurredAt)
+			.where(sql`${t.torqueToolId} is not null`)
 	]
 );
 

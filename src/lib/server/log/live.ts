@@ -1,8 +1,8 @@
 // A live entry is one that no retraction names: the one definition every reader of the job log
-// uses (the Bench's undo, the Floor, job cards, drift, tool checks, vehicle history). The
-// triggers that keep the open-work state (drizzle/0011) apply the same rule inside PostgreSQL;
-// `agreement.db.test.ts` checks that the two agree. No database client here, so the *-sql.ts
-// modules that benchmarks import stay free of the app's environment.
+// uses (the Bench's undo, the Floor, job cards, tool checks, vehicle history). The triggers
+// that keep the open-work state and drift's readings (drizzle/0011, 0017) apply the same rule
+// inside PostgreSQL; `agreement.db.test.ts` checks that the two agree. No database client
+// here, so the *-sql.ts modules that benchmarks import stay free of the app's environment.
 import { sql, type SQL } from 'drizzle-orm';
 
 function alias(name: string): string {
