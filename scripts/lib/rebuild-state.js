@@ -1,7 +1,7 @@
-// Rebuilds the state derived from the job log (job_step_state, job_log_state; drizzle/0011) of
-// every shop, or of one, from the log itself, one shop per transaction. The log is the truth:
-// this is safe at any time, and is what to run after loading a log by other means (a restore
-// with triggers off, a bulk import).
+// Rebuilds the state derived from the job log (job_step_state, job_log_state, drift_reading;
+// drizzle/0011, 0017) of every shop, or of one, from the log itself, one shop per transaction.
+// The log is the truth: this is safe at any time, and is what to run after loading a log by
+// other means (a restore with triggers off, a bulk import).
 import postgres from 'postgres';
 
 /** @param {string} url @param {string | null} shopId */
