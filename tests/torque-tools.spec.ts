@@ -2,6 +2,7 @@ import { expect, test, type Page } from '@playwright/test';
 import { demo, signIn } from './helpers/auth';
 import { db, entry } from './helpers/bench-db';
 import { callBar as bar, openBench } from './helpers/bench';
+import { makeFloorJob } from './helpers/floor-db';
 
 /** Retracts the entry just logged, leaving the demo job's log as the other tests see it. */
 async function undoEntry(page: Page, id: string) {
@@ -112,4 +113,41 @@ test('a torque tool’s check: the failed tool names the jobs to revisit; a new 
 	await expect(page.getByTestId('check-done')).toContainText('passed, largest deviation 2.50 %');
 	await expect(page.getByTestId('check-row')).toHaveCount(2);
 	await expect(page.getByTestId('tool-state')).toContainText('Calibrated, next due');
+});
+
+test('a torque tool’s readings reach its drift on the Floor at once, and an undone one leaves it', async ({
+	browser
+}) => {
+	// A job and a tool of this test's own, so no other spec's readings count here.
+	const job = await makeFloorJob();
+	const [tool] = await db()`
+		insert into torque_tool (shop_id, identifier, kind, range_min, range_max, unit, calibrated_on)
+		select id, ${`TW-E2E-${job.number}`}, 'Type II class A click', 40, 200, 'N.m', current_date
+		from shop where name like 'Kettle Street%' returning id`;
+	const techContext = await browser.newContext();
+	const tech = await techContext.newPage();
+	await signIn(tech, demo.tomasz);
+	const callOut = async (text: string) => {
+		const res = await tech.request.post(`/api/jobs/${job.id}/entries`, {
+			data: { id: crypto.randomUUID(), text, source: 'typed', torqueToolId: tool.id }
+		});
+		expect(res.status(), await res.text()).toBe(201);
+	};
+	// The demo spec of the rear axle nut is 80–96 N·m: 120 is over.
+	for (const text of ['rear axle 88 nm', 'rear axle 120 nm', 'rear axle 9.2 kgf m'])
+		await callOut(text);
+
+	const foremanContext = await browser.newContext();
+	const foreman = await foremanContext.newPage();
+	await signIn(foreman, demo.foreman);
+	await foreman.goto(`/floor/drift?tool=${tool.id}`);
+	const summary = foreman.getByTestId('drift-window-summary');
+	await expect(summary).toContainText('3 readings, 1 out of spec.');
+	await expect(summary).toContainText('All are drawn.');
+
+	await callOut('undo'); // retracts the kgf·m reading: the log keeps both, drift drops it
+	await foreman.reload();
+	await expect(summary).toContainText('2 readings, 1 out of spec.');
+	await techContext.close();
+	await foremanContext.close();
 });
