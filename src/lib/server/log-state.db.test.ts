@@ -4,7 +4,7 @@
 // equals a rebuild from the log, and the queue, job progress and drift readings read from it
 // equal what the full-scan queries read from the log itself (the SQL the Floor, the Jobs list
 // and drift ran before the state existed, kept here as the reference).
-import { sql } from 'drizzle-orm';
+import { sql, type SQL } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from './db';
 import { addTorqueTool, logMeasurement, makeShop } from './db/fixtures';
@@ -43,32 +43,19 @@ async function stateRows(shopId: string) {
 	};
 }
 
-/** A torque tool's readings as read from the log (drift's query before drizzle/0017). */
-async function toolReadingsFromLog(shopId: string, toolId: string, w: Window) {
+/**
+ * Readings as read from the log (drift's queries before drizzle/0017): `which` picks a torque
+ * tool's or a library step's, with the unit rule of each.
+ */
+async function readingsFromLog(shopId: string, which: SQL, w: Window) {
 	const rows = await db.execute(sql`
 		select e.id, e.spec_value as value, e.verdict, j.number as job_number, st.label,
 			coalesce(st.nominal, (st.min + st.max) / 2) as nominal
 		from log_entry e
 		join job j on j.id = e.job_id and j.shop_id = e.shop_id
 		join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
-		where e.torque_tool_id = ${toolId} and e.shop_id = ${shopId}
-		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = st.unit
-		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
-		  and not exists (select 1 from log_entry r where r.retracts = e.id)
-		order by e.id`);
-	return rows.map((r) => ({ ...r }));
-}
-
-/** A library step's readings as read from the log, through its job steps. */
-async function stepReadingsFromLog(shopId: string, procedureStepId: string, w: Window) {
-	const rows = await db.execute(sql`
-		select e.id, e.spec_value as value, e.verdict, j.number as job_number, st.label,
-			coalesce(st.nominal, (st.min + st.max) / 2) as nominal
-		from log_entry e
-		join job j on j.id = e.job_id and j.shop_id = e.shop_id
-		join job_step st on st.id = e.job_step_id and st.shop_id = e.shop_id
-		where st.procedure_step_id = ${procedureStepId} and e.shop_id = ${shopId}
-		  and e.kind = 'measure' and e.spec_value is not null and e.spec_unit = 'N.m'
+		where ${which} and e.shop_id = ${shopId}
+		  and e.kind = 'measure' and e.spec_value is not null
 		  and e.occurred_at >= ${w.from.toISOString()} and e.occurred_at < ${w.to.toISOString()}
 		  and not exists (select 1 from log_entry r where r.retracts = e.id)
 		order by e.id`);
@@ -343,11 +330,23 @@ describe('state kept at append', () => {
 		for (const tool of tools) {
 			const fromState = await readingsOf(toolReadingsSql(f.shop.id, tool.id, w));
 			expect(fromState.length).toBeGreaterThan(5);
-			expect(fromState).toEqual(await toolReadingsFromLog(f.shop.id, tool.id, w));
+			expect(fromState).toEqual(
+				await readingsFromLog(
+					f.shop.id,
+					sql`e.torque_tool_id = ${tool.id} and e.spec_unit = st.unit`,
+					w
+				)
+			);
 		}
 		const fromState = await readingsOf(stepReadingsSql(f.shop.id, libStep.id, 'N.m', w));
 		expect(fromState.length).toBeGreaterThan(5);
-		expect(fromState).toEqual(await stepReadingsFromLog(f.shop.id, libStep.id, w));
+		expect(fromState).toEqual(
+			await readingsFromLog(
+				f.shop.id,
+				sql`st.procedure_step_id = ${libStep.id} and e.spec_unit = 'N.m'`,
+				w
+			)
+		);
 
 		await db.execute(sql`select rebuild_log_state(${f.shop.id})`);
 		expect(await stateRows(f.shop.id)).toEqual(live);
