@@ -143,7 +143,15 @@ test.describe('the Bench', () => {
 		const src = (await thumb.getAttribute('src'))!;
 		const res = await page.request.get(src);
 		expect(res.status()).toBe(200);
-		expect(res.headers()['content-type']).toBe('image/png');
+		// the thumbnail is the downscaled copy; full size shows the original as stored
+		expect(res.headers()['content-type']).toBe('image/jpeg');
+		await thumb.click();
+		const full = page.getByRole('img', { name: 'Attached to the entry, full size' });
+		const original = await page.request.get((await full.getAttribute('src'))!);
+		expect(original.headers()['content-type']).toBe('image/png');
+		const zoom = page.getByRole('dialog', { name: 'Photo full size' });
+		await zoom.getByRole('button', { name: 'Close' }).click();
+		await expect(zoom).toHaveCount(0);
 
 		// "MZ" starts every Windows program (PE/COFF specification)
 		const exe = Buffer.concat([Buffer.from('MZ'), Buffer.alloc(200)]);

@@ -255,5 +255,12 @@ for (const way of ways) {
 		expect(served.status).toBe(200);
 		expect(served.contentType).toBe('image/png');
 		expect(served.headers.get('x-content-type-options')).toBe('nosniff');
+		// Lists ask for the downscaled copy, made at upload: a JPEG (thumbs.ts).
+		const copy = await send(`/api/photos/${photo.id}?size=copy`, { session });
+		expect(copy.status).toBe(200);
+		expect(copy.contentType).toBe('image/jpeg');
+		const odd = await send(`/api/photos/${photo.id}?size=huge`, { session });
+		expect(odd.status).toBe(400);
+		expect(odd.text).toContain('size must be');
 	});
 }

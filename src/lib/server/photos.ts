@@ -159,18 +159,29 @@ export async function attachPhoto(
 	return { ok: true, entry: (await readEntry(actor.shopId, entryId))! };
 }
 
-/** A stored photo of the shop, or null (another shop's photo reads as missing). */
+/** A stored photo of the shop (or its copy), or null (another shop's photo reads as missing). */
 export async function readPhoto(
 	shopId: string,
 	id: string,
-	storage: FileStorage = uploads()
-): Promise<{ mime: string; bytes: Uint8Array } | null> {
+	storage: FileStorage = uploads(),
+	opts: { copy?: boolean } = {}
+): Promise<{ mime: string; bytes: Uint8Array; copy: boolean } | null> {
 	if (!isUuid(id)) return null;
 	const [row] = await db
-		.select({ mime: s.attachment.mime, key: s.attachment.storageKey })
+		.select({
+			mime: s.attachment.mime,
+			key: s.attachment.storageKey,
+			thumbKey: s.attachment.thumbKey
+		})
 		.from(s.attachment)
 		.where(and(eq(s.attachment.shopId, shopId), eq(s.attachment.id, id)));
 	if (!row) return null;
+	// The downscaled copy (thumbs.ts: JPEG, 640 px on its long side) when asked for and made;
+	// else the original, so a picture always shows.
+	if (opts.copy && row.thumbKey) {
+		const small = await storage.get(row.thumbKey);
+		if (small) return { mime: 'image/jpeg', bytes: small, copy: true };
+	}
 	const bytes = await storage.get(row.key);
-	return bytes ? { mime: row.mime, bytes } : null;
+	return bytes ? { mime: row.mime, bytes, copy: false } : null;
 }

@@ -12,7 +12,7 @@ import { toJsonExport } from '$lib/evidence/pack';
 import * as s from './db/schema';
 import { loadEvidence } from './evidence';
 import { evidencePdf } from './evidence-pdf';
-import { storePhoto } from './photos';
+import { readPhoto, storePhoto } from './photos';
 import { localDiskStorage, type FileStorage } from './storage';
 import { hashMissing, MAX_COPY_TRIES, PHOTO_LONG_SIDE, sha256Hex, thumbKeyOf } from './thumbs';
 import { backfillCopies } from './thumbs-backfill';
@@ -106,6 +106,35 @@ describe('downscaled copies of photos', () => {
 		const copy = await disk.get(row.thumbKey!);
 		const meta = await sharp(copy!).metadata();
 		expect(Math.max(meta.width!, meta.height!)).toBe(PHOTO_LONG_SIDE);
+	});
+
+	it('serves the copy when asked, the original otherwise, and the original while no copy exists', async () => {
+		const f = await makeShop('Thumbs served');
+		const disk = localDiskStorage(mkdtempSync(join(tmpdir(), 'thumbs-')));
+		const bytes = await jpeg();
+		const stored = await storePhoto(
+			{ shopId: f.shop.id, jobId: f.job.id, entryId: null, uploadedBy: f.tech.id },
+			{ bytes: new Uint8Array(bytes), name: 'header.jpg' },
+			disk
+		);
+		if (!stored.ok) throw new Error(stored.message);
+		const copy = await readPhoto(f.shop.id, stored.id, disk, { copy: true });
+		expect(copy?.copy).toBe(true);
+		expect(copy?.mime).toBe('image/jpeg');
+		const meta = await sharp(copy!.bytes).metadata();
+		expect(Math.max(meta.width!, meta.height!)).toBe(PHOTO_LONG_SIDE);
+		expect(copy!.bytes.length).toBeLessThan(bytes.length);
+		const original = await readPhoto(f.shop.id, stored.id, disk);
+		expect(original?.copy).toBe(false);
+		expect(Buffer.from(original!.bytes).equals(bytes)).toBe(true);
+		// another shop asks for it: missing, copy or not
+		const other = await makeShop('Thumbs served, other');
+		expect(await readPhoto(other.shop.id, stored.id, disk, { copy: true })).toBeNull();
+		// a photo stored before copies existed: the copy asked for is the original
+		const old = await oldPhoto('Thumbs served, old');
+		const fallback = await readPhoto(old.f.shop.id, old.id, old.disk, { copy: true });
+		expect(fallback?.copy).toBe(false);
+		expect(Buffer.from(fallback!.bytes).equals(old.original)).toBe(true);
 	});
 
 	it('stores a photo whose copy fails, and the backfill makes the copy later', async () => {
