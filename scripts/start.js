@@ -3,7 +3,7 @@
 import { spawn } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { config, root } from './lib/config.js';
+import { config, root, shutdownTimeout } from './lib/config.js';
 import { demoAccounts, demoPassword, otherAccounts } from './lib/demo.js';
 import { ensurePackages, prepareDatabase } from './lib/prepare.js';
 import { step } from './lib/run.js';
@@ -39,6 +39,7 @@ const app = spawn(process.execPath, [join(root, 'build', 'index.js')], {
 		DATABASE_URL: databaseUrlValue,
 		BENCHCALL_UPLOADS_DIR: config.uploadsDir,
 		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '12M',
+		SHUTDOWN_TIMEOUT: shutdownTimeout,
 		...fakes.env
 	}
 });

@@ -59,6 +59,14 @@ export const config = {
 	uploadsDir: resolve(root, env.BENCHCALL_UPLOADS_DIR || join('.data', 'uploads'))
 };
 
+/**
+ * Seconds a stopped app waits for requests still in flight before it closes their connections
+ * (adapter-node's SHUTDOWN_TIMEOUT; its default is 30). test:faults once saw eight Bench reads
+ * begun as PostgreSQL restarted still open 40 s later, and the stopped app waited on them past
+ * 10 s. A Bench sends again what was not answered (the outbox), so a restart need not wait.
+ */
+export const shutdownTimeout = env.SHUTDOWN_TIMEOUT || '4';
+
 /** A postgres:// URL for one database of the private cluster. */
 export function databaseUrl(dbName = config.dbName) {
 	const user = encodeURIComponent(config.dbUser);

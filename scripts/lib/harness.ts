@@ -6,6 +6,7 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { createWriteStream, readFileSync } from 'node:fs';
 import postgres from 'postgres';
 import { hashPassword } from '../../src/lib/server/password';
+import { shutdownTimeout } from './config.js';
 import { demoPassword } from './demo.js';
 
 export interface AppProcess {
@@ -36,6 +37,7 @@ export async function startApp(opts: {
 			PORT: String(opts.port),
 			HOST: '127.0.0.1',
 			ORIGIN: base,
+			SHUTDOWN_TIMEOUT: shutdownTimeout,
 			...opts.env
 		},
 		stdio: ['ignore', 'pipe', 'pipe']
