@@ -61,7 +61,7 @@ export const config = {
 
 /**
  * Seconds a stopped app waits for requests still in flight before it closes their connections
- * (adapter-node's SHUTDOWN_TIMEOUT; its default is 30). test:faults once saw eight Bench reads
+ * (adapter-node's SHUTDOWN_TIMEOUT; its default is 30). test:faults once saw seven Bench reads
  * begun as PostgreSQL restarted still open 40 s later, and the stopped app waited on them past
  * 10 s. A Bench sends again what was not answered (the outbox), so a restart need not wait.
  */
