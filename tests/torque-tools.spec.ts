@@ -133,7 +133,8 @@ test('a torque tool’s readings reach its drift on the Floor at once, and an un
 		});
 		expect(res.status(), await res.text()).toBe(201);
 	};
-	// The demo spec of the rear axle nut is 80–96 N·m: 120 is over.
+	// The demo spec of the rear axle nut is 80–96 N·m: 120 is over; 9.2 kgf·m is 90.22 N·m, in
+	// spec (1 kgf = 9.80665 N, NIST SP 811 appendix B).
 	for (const text of ['rear axle 88 nm', 'rear axle 120 nm', 'rear axle 9.2 kgf m'])
 		await callOut(text);
 

@@ -81,6 +81,20 @@ async function oldPhoto(name: string, bytes?: Buffer) {
 	return { f, disk, root, id, key, original };
 }
 
+/** A shop with a job and a photo stored the way uploads are (its copy made and recorded). */
+async function newPhoto(shopName: string, fileName: string) {
+	const f = await makeShop(shopName);
+	const disk = localDiskStorage(mkdtempSync(join(tmpdir(), 'thumbs-')));
+	const bytes = await jpeg();
+	const stored = await storePhoto(
+		{ shopId: f.shop.id, jobId: f.job.id, entryId: null, uploadedBy: f.tech.id },
+		{ bytes: new Uint8Array(bytes), name: fileName },
+		disk
+	);
+	if (!stored.ok) throw new Error(stored.message);
+	return { f, disk, bytes, id: stored.id };
+}
+
 describe('downscaled copies of photos', () => {
 	it('SHA-256 of "abc" is the FIPS 180-4 example value', () => {
 		// NIST FIPS 180-4 / CSRC example values (SHA256.pdf): SHA-256("abc").
@@ -90,16 +104,8 @@ describe('downscaled copies of photos', () => {
 	});
 
 	it('records a stored photo’s copy and SHA-256 in the row that stores it', async () => {
-		const f = await makeShop('Thumbs stored');
-		const disk = localDiskStorage(mkdtempSync(join(tmpdir(), 'thumbs-')));
-		const bytes = await jpeg();
-		const stored = await storePhoto(
-			{ shopId: f.shop.id, jobId: f.job.id, entryId: null, uploadedBy: f.tech.id },
-			{ bytes: new Uint8Array(bytes), name: 'fork-seal.jpg' },
-			disk
-		);
-		if (!stored.ok) throw new Error(stored.message);
-		const row = await rowOf(stored.id);
+		const { disk, bytes, id } = await newPhoto('Thumbs stored', 'fork-seal.jpg');
+		const row = await rowOf(id);
 		expect(row.thumbKey).toBe(thumbKeyOf(row.storageKey));
 		expect(row.thumbTries).toBe(0);
 		expect(row.sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
@@ -109,27 +115,19 @@ describe('downscaled copies of photos', () => {
 	});
 
 	it('serves the copy when asked, the original otherwise, and the original while no copy exists', async () => {
-		const f = await makeShop('Thumbs served');
-		const disk = localDiskStorage(mkdtempSync(join(tmpdir(), 'thumbs-')));
-		const bytes = await jpeg();
-		const stored = await storePhoto(
-			{ shopId: f.shop.id, jobId: f.job.id, entryId: null, uploadedBy: f.tech.id },
-			{ bytes: new Uint8Array(bytes), name: 'header.jpg' },
-			disk
-		);
-		if (!stored.ok) throw new Error(stored.message);
-		const copy = await readPhoto(f.shop.id, stored.id, disk, { copy: true });
+		const { f, disk, bytes, id } = await newPhoto('Thumbs served', 'header.jpg');
+		const copy = await readPhoto(f.shop.id, id, disk, { copy: true });
 		expect(copy?.copy).toBe(true);
 		expect(copy?.mime).toBe('image/jpeg');
 		const meta = await sharp(copy!.bytes).metadata();
 		expect(Math.max(meta.width!, meta.height!)).toBe(PHOTO_LONG_SIDE);
 		expect(copy!.bytes.length).toBeLessThan(bytes.length);
-		const original = await readPhoto(f.shop.id, stored.id, disk);
+		const original = await readPhoto(f.shop.id, id, disk);
 		expect(original?.copy).toBe(false);
 		expect(Buffer.from(original!.bytes).equals(bytes)).toBe(true);
 		// another shop asks for it: missing, copy or not
 		const other = await makeShop('Thumbs served, other');
-		expect(await readPhoto(other.shop.id, stored.id, disk, { copy: true })).toBeNull();
+		expect(await readPhoto(other.shop.id, id, disk, { copy: true })).toBeNull();
 		// a photo stored before copies existed: the copy asked for is the original
 		const old = await oldPhoto('Thumbs served, old');
 		const fallback = await readPhoto(old.f.shop.id, old.id, old.disk, { copy: true });
