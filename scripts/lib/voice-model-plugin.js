@@ -1,7 +1,7 @@
 /**
  * Serves the offline recogniser's files as static assets under /voice-model/: the English
- * acoustic model and dictionary from node_modules/soundswallower (not committed) and the WASM
- * files; Vite bundles the capture worklet itself (src/lib/voice/capture-worklet.ts). Dev:
+ * acoustic model and dictionary from node_modules/soundswallower (not committed) and its WASM;
+ * Vite bundles the capture worklet itself (src/lib/voice/capture-worklet.ts). Dev:
  * middleware; build: emitted into the client output only. Same-origin files keep the app's
  * content security policy ('self') intact.
  */
@@ -32,19 +32,13 @@ function packageDir() {
 	return dir;
 }
 
-function rnnoiseWasm() {
-	const require = createRequire(import.meta.url);
-	return join(dirname(require.resolve('@jitsi/rnnoise-wasm/package.json')), 'dist', 'rnnoise.wasm');
-}
-
 /** URL path (under VOICE_BASE) → file on disk. */
 function files() {
 	const pkg = packageDir();
 	const out = new Map();
 	for (const f of MODEL_FILES) out.set(`${MODEL}/${f}`, join(pkg, 'model', MODEL, f));
 	out.set('soundswallower.wasm', join(pkg, 'soundswallower.web.wasm'));
-	// RNNoise's WASM (its model is compiled in), for noise suppression before decoding
-	out.set('rnnoise.wasm', rnnoiseWasm());
+	// RNNoise is not here: the capture worklet carries it inlined (src/lib/voice/capture-worklet.ts)
 	return out;
 }
 

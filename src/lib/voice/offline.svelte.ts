@@ -132,13 +132,12 @@ export class OfflineVoice {
 				}
 			})
 		);
-		const [{ default: createModule }, tools, rnnoiseWasm] = await Promise.all([
+		const [{ default: createModule }, tools] = await Promise.all([
 			import('soundswallower'),
-			import('./decoder'),
-			fetchRnnoiseWasm()
+			import('./decoder')
 		]);
-		this.#rnnoiseWasm = rnnoiseWasm;
-		this.denoising = rnnoiseWasm !== null;
+		// RNNoise comes with the capture worklet; the worklet says if it cannot start
+		this.denoising = true;
 		this.#grammarTools = tools;
 		const ss = await createModule({
 			locateFile: () => VOICE_BASE + 'soundswallower.wasm',
@@ -160,8 +159,6 @@ export class OfflineVoice {
 	/** Cuts the microphone's blocks into calls: at pauses, or at the key (push-to-talk). */
 	#endpoint: Endpoint | null = null;
 	#deadMs = 0;
-	/** RNNoise's WASM, fetched with the model; each listening session's worklet instantiates it. */
-	#rnnoiseWasm: ArrayBuffer | null = null;
 
 	/** True while a call is being heard: the grammar is not switched under it. */
 	get #speaking(): boolean {
@@ -194,10 +191,7 @@ export class OfflineVoice {
 			}
 			await ctx.audioWorklet.addModule(captureWorkletUrl);
 			const source = ctx.createMediaStreamSource(this.#stream);
-			// a copy of the WASM per session: the worklet instantiates its own RNNoise
-			const node = new AudioWorkletNode(ctx, 'benchcall-capture', {
-				processorOptions: { rnnoiseWasm: this.#rnnoiseWasm?.slice(0) }
-			});
+			const node = new AudioWorkletNode(ctx, 'benchcall-capture');
 			const mute = ctx.createGain();
 			mute.gain.value = 0;
 			source.connect(node).connect(mute).connect(ctx.destination);
@@ -309,22 +303,5 @@ export class OfflineVoice {
 				};
 			}
 		};
-	}
-}
-
-/**
- * RNNoise's 112 kB WASM, served with the model, or null when it cannot be had: voice still
- * works, without suppression, and says so.
- */
-async function fetchRnnoiseWasm(): Promise<ArrayBuffer | null> {
-	try {
-		const res = await fetch(VOICE_BASE + 'rnnoise.wasm');
-		if (!res.ok) throw new Error(`the server answered ${res.status}`);
-		const bytes = await res.arrayBuffer();
-		if (!WebAssembly.validate(bytes)) throw new Error('the file is not WebAssembly');
-		return bytes;
-	} catch (e) {
-		console.warn('Noise suppression could not load:', e);
-		return null;
 	}
 }
