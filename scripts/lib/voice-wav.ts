@@ -1,6 +1,6 @@
 // A spoken test phrase prepared for Chromium's fake microphone (shared by the offline voice
 // e2e test and `npm run bench:voice -- --browser`).
-import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 
@@ -23,8 +23,16 @@ export function paddedWav(file: string, seconds = 7): string {
 	return writeTemp(basename(file), out);
 }
 
+let written = 0;
+const ours = join(tmpdir(), 'benchcall-voice-wav', String(process.pid));
+process.once('exit', () => rmSync(ours, { recursive: true, force: true }));
+
+/**
+ * A new file each call: Chromium reads its fake microphone's file while it plays, so a file
+ * rewritten for a test in another worker would cut the phrase short under it.
+ */
 function writeTemp(name: string, bytes: Buffer): string {
-	const dir = join(tmpdir(), 'benchcall-voice-wav');
+	const dir = join(ours, String(++written));
 	mkdirSync(dir, { recursive: true });
 	const path = join(dir, name);
 	writeFileSync(path, bytes);

@@ -23,6 +23,8 @@ export class BenchVoice {
 	/** null until the page has asked the browser. */
 	ready = $state<boolean | null>(null);
 	listening = $state(false);
+	/** Listening was asked for, but the microphone's sound has not reached the recogniser yet. */
+	starting = $state(false);
 	interim = $state('');
 	error = $state('');
 	readonly hearing: BenchHearing;
@@ -94,6 +96,9 @@ export class BenchVoice {
 				lang: 'en-US',
 				phrases: stepPhrases(this.#job.steps),
 				events: {
+					onReady: () => {
+						this.starting = false;
+					},
 					onInterim: (w) => {
 						this.interim = w;
 						this.#bar.text = w;
@@ -109,13 +114,15 @@ export class BenchVoice {
 					},
 					onEnd: () => {
 						this.listening = false;
+						this.starting = false;
 						this.interim = '';
 						this.hearing.dispatch({ type: 'ended' });
 					}
 				}
 			});
-			this.#recogniser.start();
+			this.starting = true;
 			this.listening = true;
+			this.#recogniser.start();
 			this.hearing.dispatch({ type: 'started' });
 		} catch (e) {
 			this.error = e instanceof Error ? e.message : 'The microphone could not start.';
@@ -126,6 +133,7 @@ export class BenchVoice {
 	stop() {
 		this.#recogniser?.stop();
 		this.listening = false;
+		this.starting = false;
 	}
 
 	/** The mic button: in hands-free it pauses and resumes listening. */

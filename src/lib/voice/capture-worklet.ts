@@ -24,12 +24,18 @@ export type CaptureMessage =
 	| { kind: 'block'; raw: Float32Array; clean: Float32Array | null }
 	| { kind: 'denoise'; ok: boolean; message?: string };
 
+/** What the page tells the worklet: a new call begins (the worklet is kept between calls). */
+export type CaptureCommand = { kind: 'reset' };
+
 class BenchcallCapture extends AudioWorkletProcessor {
 	readonly #core: CaptureCore;
 
 	constructor() {
 		super();
 		this.#core = new CaptureCore(Math.round(sampleRate / 10), { awaitDenoiser: true });
+		this.port.onmessage = (e: MessageEvent<CaptureCommand>) => {
+			if (e.data.kind === 'reset') this.#core.reset();
+		};
 		void this.#startDenoiser();
 	}
 

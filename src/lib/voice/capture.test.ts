@@ -2,8 +2,9 @@
  * The capture worklet's own code in Node: render quanta of 128 samples become 100 ms blocks,
  * raw as the microphone sent them and cleaned by RNNoise as they arrive, sample for sample what
  * one denoiser fed the whole stream gives; sound that arrives while RNNoise loads waits for it
- * (or, if it never comes, goes on marked uncleaned); and the cleaned blocks of a noisy phrase, joined as the Bench joins them, decode
- * to the call that was said.
+ * (or, if it never comes, goes on marked uncleaned); a new call drops the last one's unfinished
+ * block; and the cleaned blocks of a noisy phrase, joined as the Bench joins them, decode to the
+ * call that was said.
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -55,6 +56,33 @@ describe('capture worklet core', () => {
 		const expected = reference.process(speech).subarray(0, whole * BLOCK);
 		reference.destroy();
 		expect(Array.from(joined(blocks.map((b) => b.clean!)))).toEqual(Array.from(expected));
+	});
+
+	it('a new call starts a block of its own: reset drops the last call’s unfinished block', () => {
+		const core = new CaptureCore(BLOCK);
+		core.useDenoiser(createDenoiser(rnnoise));
+		// the last call stopped 60 ms into a block
+		expect(capture(core, speech.subarray(0, 128 * 7.5))).toEqual([]);
+		core.reset();
+		const next = speech.subarray(BLOCK * 3, BLOCK * 5);
+		const blocks = capture(core, next);
+		core.destroy();
+		expect(blocks).toHaveLength(2);
+		expect(Array.from(blocks[0].raw)).toEqual(Array.from(next.subarray(0, BLOCK)));
+		expect(Array.from(blocks[1].raw)).toEqual(Array.from(next.subarray(BLOCK)));
+		expect(blocks.every((b) => b.clean !== null)).toBe(true);
+	});
+
+	it('reset also drops sound held back for a denoiser that has not come', () => {
+		const core = new CaptureCore(BLOCK, { awaitDenoiser: true });
+		capture(core, speech.subarray(0, BLOCK / 2));
+		core.reset();
+		const next = speech.subarray(BLOCK * 2, BLOCK * 3);
+		capture(core, next);
+		const blocks = core.useDenoiser(createDenoiser(rnnoise));
+		core.destroy();
+		expect(blocks).toHaveLength(1);
+		expect(Array.from(blocks[0].raw)).toEqual(Array.from(next));
 	});
 
 	it('marks blocks uncleaned until suppression starts, whatever the quantum', () => {

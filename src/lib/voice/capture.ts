@@ -59,6 +59,17 @@ export class CaptureCore {
 		return this.#denoiser !== null;
 	}
 
+	/**
+	 * Drops the block being filled: the next call starts a block of its own, not the tail of the
+	 * last one. The denoiser keeps its state (it follows the room's noise).
+	 */
+	reset() {
+		this.#filled = 0;
+		this.#allClean = true;
+		if (this.#backlog) this.#backlog = [];
+		this.#backlogSamples = 0;
+	}
+
 	/** Feeds one quantum of the first channel; returns the blocks it completed (usually none). */
 	push(channel: Float32Array): CapturedBlock[] {
 		if (!this.#backlog) return this.#take(channel);

@@ -9,7 +9,7 @@ import type { Decoder } from './decoder';
 import type { GrammarInput } from './grammar';
 import { checkPhraseAudio } from './audio';
 import { HeldEndpoint, LevelEndpoint, rmsOf, type Endpoint, type Utterance } from './endpoint';
-import type { CaptureMessage } from './capture-worklet';
+import type { CaptureCommand, CaptureMessage } from './capture-worklet';
 // the capture worklet bundled with RNNoise and its imports, under a per-deploy file name
 import captureWorkletUrl from './capture-worklet.ts?worker&url';
 
@@ -28,6 +28,13 @@ const MODEL_FILES = [
 const SAMPLE_RATE = 16000;
 /** A microphone that sends only zeros this long is called out once (muted or unplugged). */
 const DEAD_MIC_MS = 3000;
+/** How long the microphone waits for RNNoise to start in the capture worklet. */
+const DENOISER_WAIT_MS = 5000;
+
+interface SoundPath {
+	ctx: AudioContext;
+	node: AudioWorkletNode;
+}
 
 export type OfflineState = 'off' | 'loading' | 'ready' | 'error';
 
@@ -154,23 +161,85 @@ export class OfflineVoice {
 	// --- listening ------------------------------------------------------------------------------
 
 	#stream: MediaStream | null = null;
-	#ctx: AudioContext | null = null;
+	/** The sound path, built on the first call and kept, suspended, between calls. */
+	#path: Promise<SoundPath> | null = null;
+	#source: MediaStreamAudioSourceNode | null = null;
 	#events: RecogniserEvents | null = null;
 	/** Cuts the microphone's blocks into calls: at pauses, or at the key (push-to-talk). */
 	#endpoint: Endpoint | null = null;
 	#deadMs = 0;
+	/** Counts listening sessions: a stop while the microphone is still opening ends that one. */
+	#session = 0;
+	/** True from connecting the microphone until its first sound reaches the page. */
+	#awaitingSound = false;
 
 	/** True while a call is being heard: the grammar is not switched under it. */
 	get #speaking(): boolean {
 		return this.#endpoint?.inSpeech ?? false;
 	}
 
+	/**
+	 * The audio context and the capture worklet with RNNoise started in it. Built once a page
+	 * (about half a second: the worklet carries RNNoise) and kept, so a push-to-talk press after
+	 * the first waits only for the microphone.
+	 */
+	#soundPath(): Promise<SoundPath> {
+		this.#path ??= this.#buildSoundPath().catch((e: unknown) => {
+			this.#path = null;
+			throw e;
+		});
+		return this.#path;
+	}
+
+	async #buildSoundPath(): Promise<SoundPath> {
+		const ctx = new AudioContext({ sampleRate: SAMPLE_RATE });
+		try {
+			await ctx.audioWorklet.addModule(captureWorkletUrl);
+			const node = new AudioWorkletNode(ctx, 'benchcall-capture');
+			const denoiser = new Promise<void>((resolve) => {
+				node.port.onmessage = (e: MessageEvent<CaptureMessage>) => {
+					this.#onMessage(e.data);
+					if (e.data.kind === 'denoise') resolve();
+				};
+				// a worklet that never answers does not keep the microphone shut (capture.ts then
+				// holds the sound back a while longer)
+				setTimeout(resolve, DENOISER_WAIT_MS);
+			});
+			const mute = ctx.createGain();
+			mute.gain.value = 0;
+			node.connect(mute).connect(ctx.destination);
+			await denoiser;
+			return { ctx, node };
+		} catch (e) {
+			void ctx.close();
+			throw e;
+		}
+	}
+
+	/**
+	 * The sound path is made ready first, and only then is the microphone opened and connected
+	 * to it: what is said once the Bench shows "listening" reaches the decoder whole. Opened
+	 * first, the microphone's sound was lost while the worklet loaded, and on a busy device that
+	 * was the first words of the call.
+	 */
 	async #listen(events: RecogniserEvents) {
 		if (this.listening) return;
+		const session = ++this.#session;
+		const ended = () => session !== this.#session;
 		this.#events = events;
 		this.listening = true;
 		try {
-			this.#stream = await navigator.mediaDevices.getUserMedia({
+			const { ctx, node } = await this.#soundPath();
+			if (ended()) return;
+			if (ctx.state !== 'running') {
+				// suspended between calls; or hands-free restored on a fresh page, where the browser
+				// lets sound run only after a first touch
+				void ctx.resume();
+				const wake = () => void ctx.resume();
+				addEventListener('pointerdown', wake, { once: true });
+				addEventListener('keydown', wake, { once: true });
+			}
+			const stream = await navigator.mediaDevices.getUserMedia({
 				// the model hears best the plain signal: the browser's noise suppression and gain
 				// control leave artefacts it was not trained on (push-to-talk and a close microphone
 				// are the remedy for a noisy workshop)
@@ -181,24 +250,20 @@ export class OfflineVoice {
 					autoGainControl: false
 				}
 			});
-			const ctx = new AudioContext({ sampleRate: SAMPLE_RATE });
-			this.#ctx = ctx;
-			if (ctx.state === 'suspended') {
-				// hands-free restored on a fresh page: the browser lets sound run after a first touch
-				const wake = () => void ctx.resume();
-				addEventListener('pointerdown', wake, { once: true });
-				addEventListener('keydown', wake, { once: true });
+			if (ended()) {
+				for (const t of stream.getTracks()) t.stop();
+				return;
 			}
-			await ctx.audioWorklet.addModule(captureWorkletUrl);
-			const source = ctx.createMediaStreamSource(this.#stream);
-			const node = new AudioWorkletNode(ctx, 'benchcall-capture');
-			const mute = ctx.createGain();
-			mute.gain.value = 0;
-			source.connect(node).connect(mute).connect(ctx.destination);
+			this.#stream = stream;
 			this.#applyGrammar();
 			this.#endpoint = this.pushToTalk ? new HeldEndpoint() : new LevelEndpoint();
-			node.port.onmessage = (e: MessageEvent<CaptureMessage>) => this.#onMessage(e.data);
+			this.#awaitingSound = true;
+			// the last call's unfinished block is dropped, so this one starts with its own sound
+			node.port.postMessage({ kind: 'reset' } satisfies CaptureCommand);
+			this.#source = ctx.createMediaStreamSource(stream);
+			this.#source.connect(node);
 		} catch (e) {
+			if (ended()) return;
 			const name = e instanceof DOMException ? e.name : '';
 			events.onError(
 				name === 'NotAllowedError'
@@ -239,8 +304,15 @@ export class OfflineVoice {
 	}
 
 	#onMessage(m: CaptureMessage) {
-		if (m.kind === 'block') this.#onBlock(m.raw, m.clean ?? m.raw);
-		else if (!m.ok) {
+		if (m.kind === 'block') {
+			// a block still on its way when listening stopped
+			if (!this.#stream) return;
+			if (this.#awaitingSound) {
+				this.#awaitingSound = false;
+				this.#events?.onReady?.();
+			}
+			this.#onBlock(m.raw, m.clean ?? m.raw);
+		} else if (!m.ok) {
 			// voice still works, without suppression, and the settings stop saying it is on
 			this.denoising = false;
 			this.denoiseRunning = false;
@@ -275,10 +347,14 @@ export class OfflineVoice {
 	}
 
 	#teardown() {
+		this.#session++;
+		this.#awaitingSound = false;
+		this.#source?.disconnect();
+		this.#source = null;
 		for (const t of this.#stream?.getTracks() ?? []) t.stop();
 		this.#stream = null;
-		void this.#ctx?.close();
-		this.#ctx = null;
+		// the sound path is kept for the next call, silent
+		void this.#path?.then(({ ctx }) => ctx.suspend()).catch(() => {});
 		this.#endpoint = null;
 		this.#deadMs = 0;
 		this.level = 0;

@@ -6,6 +6,11 @@ import { speechConfidence, type Heard } from './heard';
 import type { AudioProblem } from './audio';
 
 export interface RecogniserEvents {
+	/**
+	 * The microphone is open and its sound reaches the recogniser: from now on every word is
+	 * heard. Until then the Bench says it is starting, not listening.
+	 */
+	onReady?(): void;
 	/** Words heard so far of the phrase being spoken. */
 	onInterim(text: string): void;
 	/** A finished phrase: the recogniser's alternatives, best first (one for offline voice). */
@@ -54,6 +59,7 @@ interface SpeechRecognitionLike {
 	onresult: ((e: SpeechEventLike) => void) | null;
 	onerror: ((e: { error?: string; message?: string }) => void) | null;
 	onend: (() => void) | null;
+	onaudiostart?: (() => void) | null;
 	start(): void;
 	stop(): void;
 }
@@ -120,7 +126,16 @@ export function webSpeech(
 					e.error
 				);
 			rec.onend = () => events.onEnd();
-			return { start: () => rec.start(), stop: () => rec.stop() };
+			// an engine without the event is taken as ready once started
+			const hasAudioStart = 'onaudiostart' in rec;
+			if (hasAudioStart) rec.onaudiostart = () => events.onReady?.();
+			return {
+				start: () => {
+					rec.start();
+					if (!hasAudioStart) events.onReady?.();
+				},
+				stop: () => rec.stop()
+			};
 		}
 	};
 }
