@@ -130,7 +130,8 @@ async function inChromium() {
 	const cold: number[] = [];
 	const cached: number[] = [];
 	const decode: number[] = [];
-	const starts: number[] = [];
+	const untouched: number[] = [];
+	const touched: number[] = [];
 	const again: number[] = [];
 	const denoised: boolean[] = [];
 	console.log('\nin Chromium (the built app, one browser per phrase):');
@@ -155,10 +156,8 @@ async function inChromium() {
 					await ready.waitFor({ timeout: 30_000 });
 					return Number((await ready.textContent())?.match(/loaded in ([\d.]+) s/)?.[1]) * 1000;
 				};
-				cold.push(await loadOffline());
-				cached.push(await loadOffline());
-				// from the press until the microphone's sound reaches the recogniser (the worklet
-				// loaded, RNNoise started, the microphone opened): the call bar then says listening
+				// from the press until the microphone's sound reaches the recogniser: the call bar
+				// then says listening
 				const bar = page.getByRole('combobox', { name: 'Call bar' });
 				const pressToListening = async () => {
 					const pressed = Date.now();
@@ -170,7 +169,15 @@ async function inChromium() {
 					);
 					return Date.now() - pressed;
 				};
-				starts.push(await pressToListening());
+				cold.push(await loadOffline());
+				// the press is the page's first touch: the worklet loads and RNNoise starts now
+				untouched.push(await pressToListening());
+				await page.getByRole('button', { name: 'Stop listening' }).click();
+				cached.push(await loadOffline());
+				// a key or touch after loading makes the sound path; the press then opens the microphone
+				await page.keyboard.press('Shift');
+				await page.waitForTimeout(1500);
+				touched.push(await pressToListening());
 				// the time the Bench reports is decoding after the phrase ends; suppression ran in
 				// the capture worklet while it was spoken (checked running here)
 				const denoise = page.getByTestId('voice-denoise');
@@ -190,13 +197,14 @@ async function inChromium() {
 	} finally {
 		app.proc.kill('SIGTERM');
 	}
-	for (const list of [cold, cached, decode, starts, again]) list.sort((a, b) => a - b);
+	for (const list of [cold, cached, decode, untouched, touched, again]) list.sort((a, b) => a - b);
 	console.log(
 		`Chromium: model load p50 ${ms(pct(cold, 50))} first, ${ms(pct(cached, 50))} from cache ` +
 			`(p95 ${ms(pct(cached, 95))}); decode p50 ${ms(pct(decode, 50))}, p95 ${ms(pct(decode, 95))}` +
 			` after the phrase (suppression in the worklet for ${denoised.filter(Boolean).length}/${denoised.length}); ` +
-			`press to listening p50 ${ms(pct(starts, 50))}, p95 ${ms(pct(starts, 95))} first, ` +
-			`p50 ${ms(pct(again, 50))}, p95 ${ms(pct(again, 95))} after`
+			`press to listening p50 / p95: ${ms(pct(untouched, 50))} / ${ms(pct(untouched, 95))} as ` +
+			`the page's first touch, ${ms(pct(touched, 50))} / ${ms(pct(touched, 95))} after one, ` +
+			`${ms(pct(again, 50))} / ${ms(pct(again, 95))} for the next call`
 	);
 	process.exit(0);
 }

@@ -69,6 +69,21 @@ async function logApi(page: Page, job: number) {
 	return { latest, since: () => read(`after=${latest}&limit=200`) };
 }
 
+/** Counts the capture worklet's loads on the page: each is a sound path built. */
+async function countSoundPaths(page: Page, delayMs = 0) {
+	await page.addInitScript((delay) => {
+		const w = window as unknown as { soundPaths: number };
+		w.soundPaths = 0;
+		const add = AudioWorklet.prototype.addModule;
+		AudioWorklet.prototype.addModule = async function (...args) {
+			w.soundPaths++;
+			if (delay) await new Promise((r) => setTimeout(r, delay));
+			return add.apply(this, args);
+		};
+	}, delayMs);
+	return () => page.evaluate(() => (window as unknown as { soundPaths: number }).soundPaths);
+}
+
 /**
  * The job log gained an entry, and the Bench shows it at the top. (Its first entry alone can
  * be one an earlier test logged for the same step.)
@@ -126,13 +141,7 @@ test.describe('the Bench’s ear', () => {
 			// a slow device or connection: the capture worklet takes 2 s to load. The fake
 			// microphone starts its file when it is opened; opened before the worklet was ready,
 			// it lost the call's first words (heard "…": say it again)
-			await page.addInitScript(() => {
-				const add = AudioWorklet.prototype.addModule;
-				AudioWorklet.prototype.addModule = async function (...args) {
-					await new Promise((r) => setTimeout(r, 2000));
-					return add.apply(this, args);
-				};
-			});
+			const soundPaths = await countSoundPaths(page, 2000);
 			// every refusal or unread notice shown, however briefly
 			await page.addInitScript(() => {
 				const seen: string[] = [];
@@ -162,6 +171,7 @@ test.describe('the Bench’s ear', () => {
 			expect(
 				await page.evaluate(() => (window as unknown as { noticesSeen: string[] }).noticesSeen)
 			).toEqual([]);
+			expect(await soundPaths()).toBe(1);
 			const added = await log.since();
 			expect(added).toHaveLength(2);
 			for (const e of added)
@@ -178,8 +188,13 @@ test.describe('the Bench’s ear', () => {
 	// eslint-disable-next-line no-empty-pattern
 	test('a value ten times the spec is refused: say it again, nothing logged', async ({}, info) => {
 		await withMicrophone(info, paddedWav('e2e/rear-axle-800-nm.wav', 8), async (page) => {
+			const soundPaths = await countSoundPaths(page);
 			await openWithOfflineVoice(page, demo.ruth, 1043);
 			const log = await logApi(page, 1043);
+			// the first key after loading builds the sound path, so the press waits for less
+			expect(await soundPaths()).toBe(0);
+			await page.keyboard.press('Shift');
+			await expect.poll(soundPaths).toBe(1);
 			await page.getByRole('button', { name: /Start listening/ }).click();
 			const notice = page.getByTestId('say-again');
 			await expect(notice).toBeVisible({ timeout: 45_000 });
@@ -188,6 +203,7 @@ test.describe('the Bench’s ear', () => {
 			await expect(notice).toContainText('Nothing was logged');
 			await page.getByRole('button', { name: 'Stop listening' }).click();
 			await expectNothingLogged(page, log);
+			expect(await soundPaths()).toBe(1);
 		});
 	});
 
@@ -198,7 +214,10 @@ test.describe('the Bench’s ear', () => {
 			await openWithOfflineVoice(page, demo.ruth, 1043, { handsFree: true });
 			const log = await logApi(page, 1043);
 			// no key, no button: hands-free starts listening by itself
-			await expect(page.getByTestId('hands-free-status')).toContainText('listening');
+			// once the microphone's sound arrives (before that: "starting the microphone")
+			await expect(page.getByTestId('hands-free-status')).toContainText('listening', {
+				timeout: 30_000
+			});
 			await expect(page.getByRole('button', { name: 'Stop listening' })).toBeVisible();
 			await expect(page.getByTestId('voice-ignored').first()).toBeVisible({ timeout: 45_000 });
 			await expect(page.getByTestId('log-entry').first()).toContainText('Drive chain slack', {

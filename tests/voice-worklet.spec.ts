@@ -11,6 +11,7 @@ import { expect, test } from '@playwright/test';
 import { readWavForModel } from '../src/lib/voice/audio';
 import { CaptureCore } from '../src/lib/voice/capture';
 import { createDenoiser, loadRnnoise } from '../src/lib/voice/denoise';
+import { joined } from '../src/lib/voice/endpoint';
 
 const BLOCK = 1600; // the worklet's block at 16 kHz: 100 ms
 const QUANTUM = 128; // Web Audio's render quantum
@@ -31,17 +32,7 @@ async function cleanInNode(samples: Float32Array): Promise<Float32Array> {
 	for (let at = 0; at + QUANTUM <= samples.length; at += QUANTUM)
 		for (const b of core.push(samples.subarray(at, at + QUANTUM))) out.push(b.clean!);
 	core.destroy();
-	return concat(out);
-}
-
-function concat(parts: Float32Array[]): Float32Array {
-	const out = new Float32Array(parts.reduce((n, p) => n + p.length, 0));
-	let at = 0;
-	for (const p of parts) {
-		out.set(p, at);
-		at += p.length;
-	}
-	return out;
+	return joined(out);
 }
 
 /** Energy of the difference against the energy of the reference, in dB. */
