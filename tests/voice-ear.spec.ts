@@ -1,9 +1,10 @@
 /**
  * The Bench's ear through Chromium's fake microphone (one browser per recording: Chromium takes
- * the file at launch). A noisy phrase is logged right; a slow start loses no words; a phrase whose value cannot be right is
- * refused with "say it again" and nothing is logged; hands-free ignores shop talk and acts on
- * the call-out after it; silence, clipping and a 30 s recording each get a clear message and log
- * nothing. "Nothing logged" is checked through the job log's API, not only on the screen.
+ * the file at launch). A noisy phrase is logged right; a slow start loses no words, and a key
+ * after loading readies the sound path; a phrase whose value cannot be right is refused with
+ * "say it again" and nothing is logged; hands-free ignores shop talk and acts on the call-out
+ * after it; silence, clipping and a 30 s recording each get a clear message and log nothing.
+ * "Nothing logged" is checked through the job log's API, not only on the screen.
  * Recordings: tests/fixtures/voice/e2e (scripts/make-voice-e2e.sh); bad input is made from them.
  */
 import { chromium, expect, test, type LaunchOptions, type Page } from '@playwright/test';
